@@ -1,0 +1,40 @@
+/**
+ * Recomputes the likelihood tables and predicted-reading bands of the built-in fault trees from the circuit model
+ * (fixed seed and sample count) and writes them back into the JSON documents. Trees whose circuit kind the model
+ * does not know keep their hand-given tables.
+ *
+ *   npx tsx scripts/derive-likelihoods.ts [--check]
+ *
+ * `--check` only compares and exits non-zero when a stored table differs from the recomputation.
+ */
+import { readFileSync, readdirSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { BUILT_IN_DERIVATION, deriveLikelihoods } from '../src/engine/diagnosis/derive-likelihoods';
+import { parseTreeDocument } from '../src/engine/diagnosis/tree-schema';
+import { canonicalJson } from '../src/engine/diagnosis/request-key';
+
+const dir = join(__dirname, '..', 'src', 'engine', 'trees');
+const check = process.argv.includes('--check');
+let differs = false;
+for (const file of readdirSync(dir).filter((f) => f.endsWith('.json')).sort()) {
+  const raw = JSON.parse(readFileSync(join(dir, file), 'utf8')) as unknown;
+  const parsed = parseTreeDocument(raw);
+  if (!parsed.document) {
+    console.error(`${file}: does not parse`, parsed.findings.slice(0, 5));
+    process.exitCode = 1;
+    continue;
+  }
+  if (parsed.document.derivation?.method === 'hand') {
+    console.log(`${file}: hand-given likelihoods, left as they are`);
+    continue;
+  }
+  const started = Date.now();
+  const { document, findings } = deriveLikelihoods(parsed.document, BUILT_IN_DERIVATION);
+  for (const f of findings.filter((x) => x.severity !== 'info')) console.warn(`${file}: ${f.code} at ${f.path}: ${f.message}`);
+  const text = `${JSON.stringify(document, null, 2)}\n`;
+  const same = canonicalJson(document) === canonicalJson(parsed.document);
+  differs ||= !same;
+  if (!check) writeFileSync(join(dir, file), text);
+  console.log(`${file}: ${same ? 'unchanged' : check ? 'DIFFERS' : 'rewritten'} (${Date.now() - started} ms, ${findings.filter((f) => f.code === 'derive.cell_flat').length} flat cells)`);
+}
+if (check && differs) process.exitCode = 1;

@@ -1,0 +1,52 @@
+import { Global, Module, type DynamicModule } from '@nestjs/common';
+import { APP_FILTER } from '@nestjs/core';
+import { APP_CONFIG, type AppConfig } from '../config/config';
+import { DATABASE, type OpenDatabase } from '../common/database/database.tokens';
+import { HttpErrorFilter } from '../common/errors/http-error.filter';
+import { CalculatorsModule } from '../modules/calculators/calculators.module';
+import { CircuitModelModule } from '../modules/circuit-model/circuit-model.module';
+import { CircuitsModule } from '../modules/circuits/circuits.module';
+import { HealthModule } from '../modules/health/health.module';
+import { IdentityModule } from '../modules/identity/identity.module';
+import { MeasurementsModule } from '../modules/measurements/measurements.module';
+import { RepairOrdersModule } from '../modules/repair-orders/repair-orders.module';
+import { RepairsModule } from '../modules/repairs/repairs.module';
+import { ReviewsModule } from '../modules/reviews/reviews.module';
+
+/** Configuration and the opened database, available to every module. */
+@Global()
+@Module({})
+class CoreModule {
+  static with(config: AppConfig, database: OpenDatabase): DynamicModule {
+    return {
+      module: CoreModule,
+      providers: [
+        { provide: APP_CONFIG, useValue: config },
+        { provide: DATABASE, useValue: database },
+        { provide: APP_FILTER, useClass: HttpErrorFilter },
+      ],
+      exports: [APP_CONFIG, DATABASE],
+    };
+  }
+}
+
+@Module({})
+export class AppModule {
+  static with(config: AppConfig, database: OpenDatabase): DynamicModule {
+    return {
+      module: AppModule,
+      imports: [
+        CoreModule.with(config, database),
+        HealthModule,
+        IdentityModule,
+        RepairOrdersModule,
+        CircuitsModule,
+        MeasurementsModule,
+        RepairsModule,
+        ReviewsModule,
+        CircuitModelModule,
+        CalculatorsModule,
+      ],
+    };
+  }
+}

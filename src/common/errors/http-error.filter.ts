@@ -1,0 +1,75 @@
+import { ArgumentsHost, Catch, ExceptionFilter, HttpException, Logger } from '@nestjs/common';
+import type { Response } from 'express';
+import { DomainException, type ErrorKind } from './domain.exception';
+import { currentRequestId } from '../logging/request-context';
+
+const STATUS: Record<ErrorKind, number> = {
+  invalid: 400,
+  unauthenticated: 401,
+  forbidden: 403,
+  not_found: 404,
+  conflict: 409,
+  unavailable: 503,
+};
+
+interface ErrorBody {
+  error: { code: string; message: string; requestId?: string; findings?: unknown[]; [k: string]: unknown };
+}
+
+/** Prisma / driver errors that mean "the database is not reachable right now". */
+function isUnavailable(error: unknown): boolean {
+  const text = `${(error as { code?: string })?.code ?? ''} ${(error as Error)?.message ?? ''}`;
+  return /ECONNREFUSED|ECONNRESET|ETIMEDOUT|P1001|P1017|Connection terminated|too many clients|the database system is (starting|shutting)/i.test(
+    text,
+  );
+}
+
+/** The one place where errors become HTTP responses. Unknown errors are logged and never leak details. */
+@Catch()
+export class HttpErrorFilter implements ExceptionFilter {
+  private readonly logger = new Logger('http');
+
+  catch(error: unknown, host: ArgumentsHost): void {
+    const response = host.switchToHttp().getResponse<Response>();
+    const [status, body] = this.toResponse(error);
+    body.error.requestId = currentRequestId();
+    if (status >= 500) this.logger.error(error instanceof Error ? (error.stack ?? error.message) : String(error));
+    if (status === 503) response.setHeader('Retry-After', '2');
+    response.status(status).json(body);
+  }
+
+  private toResponse(error: unknown): [number, ErrorBody] {
+    if (error instanceof DomainException) {
+      return [
+        STATUS[error.kind],
+        {
+          error: {
+            code: error.code,
+            message: error.message,
+            ...(error.findings.length ? { findings: error.findings } : {}),
+            ...error.details,
+          },
+        },
+      ];
+    }
+    if (error instanceof HttpException) return this.fromHttpException(error);
+    if (isUnavailable(error)) {
+      return [503, { error: { code: 'database.unavailable', message: 'The database is not reachable; try again shortly.' } }];
+    }
+    return [500, { error: { code: 'internal', message: 'Something went wrong on our side; the request id identifies it in the log.' } }];
+  }
+
+  /** Framework-raised errors: body-parser (bad JSON, too large), unknown routes. */
+  private fromHttpException(error: HttpException): [number, ErrorBody] {
+    const status = error.getStatus();
+    const cause = error.cause as { type?: string } | undefined;
+    if (status === 413 || cause?.type === 'entity.too.large') {
+      return [413, { error: { code: 'body.too_large', message: 'The request body is larger than this service accepts.' } }];
+    }
+    if (status === 404) {
+      return [404, { error: { code: 'route.not_found', message: 'No such endpoint; see /api/docs.' } }];
+    }
+    const message = typeof error.getResponse() === 'string' ? String(error.getResponse()) : error.message;
+    return [status, { error: { code: status === 400 ? 'body.malformed' : `http.${status}`, message } }];
+  }
+}

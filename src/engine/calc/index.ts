@@ -1,0 +1,43 @@
+/** Hand arithmetic of the sensor-circuit trade as pure functions; each validates its input into coded findings. */
+export { type Finding, type Result, finding, joinPath } from './findings';
+export {
+  type MeterLoadingInput,
+  type LoadedReadingInput,
+  meterReading,
+  sourceOhmsFromLoadedReading,
+  sourceOhmsFromTwoLoads,
+  biasOhmsFromReading,
+  resistancesAgree,
+  parallelOhms,
+} from './meter-loading';
+export {
+  type ReferenceLimits,
+  type ReferenceRecovery,
+  type ReferenceUnderLoad,
+  type Verdict,
+  DEFAULT_REFERENCE_LIMITS,
+  DEFAULT_GROUND_DROP_LIMIT_VOLTS,
+  referenceUnderLoad,
+  referenceVerdict,
+  voltageDropVerdict,
+  resistanceFromDrop,
+} from './reference-check';
+export {
+  type SteinhartHartCoefficients,
+  type BetaCoefficients,
+  type DividerInput,
+  KELVIN_OFFSET,
+  steinhartHartTemperature,
+  steinhartHartResistance,
+  betaResistance,
+  betaTemperature,
+  thermistorDividerVolts,
+  thermistorOhmsFromDivider,
+} from './thermistor';
+export {
+  type CalibrationPoint,
+  type LinearSensor,
+  linearSensor,
+  vacuumInHgToAbsoluteKpa,
+  absoluteKpaToVacuumInHg,
+} from './pressure';

@@ -1,0 +1,173 @@
+/**
+ * Tolerance bands by Monte Carlo: draw the part spreads, solve the reading, add the meter's error, and summarise the
+ * distribution as percentiles and band probabilities. The netlist is built and compiled once per (circuit, faults,
+ * request); each sample only restamps the parameter-bound element values and refactors a ~25×25 system.
+ */
+import type { CircuitKind, MeasurementRequest } from '../vocabulary';
+import { checkFinite, checkResistance, finding, joinPath, type Finding } from '../calc/findings';
+import { DEFAULT_METER } from './defaults';
+import { QUANTITY_BEHAVIOURS, resolutionFor } from './measure';
+import { evaluatorFor, prepareReading } from './predict';
+import { mulberry32, uniform, type Random } from './prng';
+import { sensorBehaviour } from './sensors';
+import type { CircuitSpec, FaultSpec, MeterSpec, ReadingUnit } from './types';
+
+/** Part spreads, each drawn uniformly within its range. */
+export interface Spreads {
+  /** Each wire's end-to-end resistance, Ω. */
+  wireOhms: [number, number];
+  /** Module bias (or thermistor pull-up) resistance, Ω. */
+  biasOhms: [number, number];
+  regulatorVolts: [number, number];
+  /** Battery voltage deviation from nominal, ± V. */
+  batteryVolts: number;
+  /** Sensor output tolerance: ± fraction of span (position, output fraction, thermistor resistance). */
+  sensorTolerance: number;
+  /** Add the meter's stated error ±(percent + digits), drawn uniformly. */
+  meterError: boolean;
+}
+
+/**
+ * Spreads for a circuit (common practice, no source): wires 0.05–0.3 Ω, bias ±20 % of nominal (250 kΩ → 200–300 kΩ;
+ * a thermistor pull-up ±1 %), regulator 4.9–5.1 V, battery ±0.2 V, sensor ±2 %, meter error on.
+ */
+const BIAS_SPREAD: Record<CircuitKind, number> = { three_wire_5v: 0.2, two_wire_thermistor: 0.01 };
+
+export function defaultSpreads(circuit: CircuitSpec): Spreads {
+  const bias = circuit.module.bias;
+  const nominal = bias.kind === 'none' ? 0 : bias.ohms;
+  const spread = BIAS_SPREAD[circuit.kind];
+  const reg = circuit.module.regulator.volts;
+  return {
+    wireOhms: [0.05, 0.3],
+    biasOhms: [nominal * (1 - spread), nominal * (1 + spread)],
+    regulatorVolts: [reg - 0.1, reg + 0.1],
+    batteryVolts: 0.2,
+    sensorTolerance: 0.02,
+    meterError: true,
+  };
+}
+
+export interface Percentiles {
+  p1: number;
+  p5: number;
+  p25: number;
+  p50: number;
+  p75: number;
+  p95: number;
+  p99: number;
+}
+
+export interface SampleInput {
+  circuit: CircuitSpec;
+  faults: FaultSpec[];
+  request: MeasurementRequest;
+  /** Number of samples (1…1 000 000). */
+  samples: number;
+  /** 32-bit integer seed: the same seed gives the same values. */
+  seed: number;
+  /** Overrides of the default spreads. */
+  spreads?: Partial<Spreads>;
+  meter?: MeterSpec;
+}
+
+export type SampleResult =
+  | { ok: true; unit: ReadingUnit; values: Float64Array; percentiles: Percentiles }
+  | { ok: false; findings: Finding[] };
+
+function checkRangePair(pair: unknown, path: string, what: string, resistance: boolean): Finding[] {
+  if (!Array.isArray(pair) || pair.length !== 2) return [finding('spreads.not_a_range', path, `${what} must be [min, max].`)];
+  const check = resistance ? (x: unknown, p: string) => checkResistance(x, p, what) : (x: unknown, p: string) => checkFinite(x, p, what);
+  const found = [...check(pair[0], joinPath(path, 0)), ...check(pair[1], joinPath(path, 1))];
+  if (!found.length && pair[0] > pair[1]) found.push(finding('spreads.range_reversed', path, `${what}: min must not exceed max.`));
+  return found;
+}
+
+function validateSampling(input: SampleInput, spreads: Spreads): Finding[] {
+  const found: Finding[] = [];
+  if (!Number.isInteger(input.samples) || input.samples < 1 || input.samples > 1_000_000) {
+    found.push(finding('sampling.bad_sample_count', 'samples', 'Samples must be an integer from 1 to 1 000 000.'));
+  }
+  if (!Number.isInteger(input.seed)) found.push(finding('sampling.bad_seed', 'seed', 'The seed must be an integer.'));
+  found.push(
+    ...checkRangePair(spreads.wireOhms, 'spreads.wireOhms', 'Wire resistance spread', true),
+    ...checkRangePair(spreads.biasOhms, 'spreads.biasOhms', 'Bias resistance spread', true),
+    ...checkRangePair(spreads.regulatorVolts, 'spreads.regulatorVolts', 'Regulator voltage spread', false),
+    ...checkFinite(spreads.batteryVolts, 'spreads.batteryVolts', 'Battery voltage spread'),
+    ...checkFinite(spreads.sensorTolerance, 'spreads.sensorTolerance', 'Sensor tolerance'),
+  );
+  if (!found.length && spreads.biasOhms[0] === 0 && input.circuit.module.bias.kind !== 'none') {
+    found.push(finding('spreads.bias_zero', 'spreads.biasOhms.0', 'A bias resistance of 0 Ω would short the input.'));
+  }
+  return found;
+}
+
+/** Draws the parameters of one sample into `out` (aligned with `keys`; NaN = keep nominal). */
+function paramSampler(input: SampleInput, spreads: Spreads, keys: string[], nominal: Record<string, number>, random: Random) {
+  const u = () => 2 * random() - 1;
+  const draws = new Map<string, number>();
+  const sensor = sensorBehaviour(input.circuit.sensor)!;
+  return (out: Float64Array) => {
+    draws.clear();
+    for (const wire of input.circuit.wires) draws.set(`wire.${wire.role}.ohms`, uniform(random, ...spreads.wireOhms));
+    draws.set('bias.ohms', uniform(random, ...spreads.biasOhms));
+    draws.set('regulator.volts', uniform(random, ...spreads.regulatorVolts));
+    draws.set('battery.volts', (nominal['battery.volts'] ?? 0) + spreads.batteryVolts * u());
+    sensor.sample(input.circuit.sensor, spreads.sensorTolerance, u, draws);
+    for (let i = 0; i < keys.length; i++) out[i] = draws.get(keys[i]!) ?? Number.NaN;
+  };
+}
+
+/** Percentile by linear interpolation between order statistics (sorted input). */
+export function percentile(sorted: Float64Array, p: number): number {
+  const pos = (sorted.length - 1) * p;
+  const lo = Math.floor(pos);
+  const hi = Math.ceil(pos);
+  const frac = pos - lo;
+  if (frac === 0 || !Number.isFinite(sorted[hi]!) || !Number.isFinite(sorted[lo]!)) return frac < 0.5 ? sorted[lo]! : sorted[hi]!;
+  return sorted[lo]! + (sorted[hi]! - sorted[lo]!) * frac;
+}
+
+/**
+ * Samples a reading `samples` times. Same inputs and seed → the same values. Ohms readings beyond the meter's range
+ * are +Infinity (overload).
+ */
+export function sampleReadings(input: SampleInput): SampleResult {
+  if (!input || typeof input !== 'object') return { ok: false, findings: [finding('sampling.missing', '', 'Sampling input is required.')] };
+  const meter = input.meter ?? DEFAULT_METER;
+  const prepared = prepareReading(input.circuit, input.faults, input.request, meter);
+  if (!prepared.ok) return prepared;
+  const spreads: Spreads = { ...defaultSpreads(input.circuit), ...input.spreads };
+  const invalid = validateSampling(input, spreads);
+  if (invalid.length) return { ok: false, findings: invalid };
+
+  const compiled = prepared.value.netlist.compile();
+  const evaluator = evaluatorFor(prepared.value, compiled);
+  if (!evaluator.ok) return evaluator;
+  const random = mulberry32(input.seed);
+  const params = new Float64Array(compiled.paramKeys.length);
+  const draw = paramSampler(input, spreads, compiled.paramKeys, prepared.value.netlist.params(), random);
+  const quantity = QUANTITY_BEHAVIOURS[input.request.quantity];
+  const accuracy = spreads.meterError ? quantity.accuracy(meter) : undefined;
+  const values = new Float64Array(input.samples);
+  for (let s = 0; s < input.samples; s++) {
+    draw(params);
+    let value = evaluator.value(params);
+    if (accuracy && Number.isFinite(value)) {
+      const band = (accuracy.percent / 100) * Math.abs(value) + accuracy.digits * resolutionFor(value, meter.counts, quantity.minResolution);
+      value += band * (2 * random() - 1);
+    }
+    if (Number.isNaN(value)) {
+      return { ok: false, findings: [finding('circuit.unsolvable', 'faults', 'A sampled circuit had no unique solution (a loop of ideal sources).')] };
+    }
+    values[s] = value;
+  }
+  values.sort();
+  const q = (p: number) => percentile(values, p);
+  return {
+    ok: true,
+    unit: prepared.value.unit,
+    values,
+    percentiles: { p1: q(0.01), p5: q(0.05), p25: q(0.25), p50: q(0.5), p75: q(0.75), p95: q(0.95), p99: q(0.99) },
+  };
+}

@@ -1,0 +1,91 @@
+/**
+ * From circuit, faults and a measurement request to a predicted reading: validate, build the netlist, apply the
+ * faults, set the connector at the probed location, clip on jumpers and meter, solve.
+ */
+import type { MeasurementRequest } from '../vocabulary';
+import { finding, type Finding, type Result } from '../calc/findings';
+import { buildNetlist, contactId } from './build';
+import { DEFAULT_METER } from './defaults';
+import { applyFaults, validateFaults } from './faults';
+import { attachJumpers } from './jumpers';
+import { QUANTITY_BEHAVIOURS, pointNode, type Evaluator, type Leads } from './measure';
+import { CompiledNetlist, Netlist } from './netlist';
+import type { CircuitSpec, FaultSpec, MeterSpec, ReadingUnit } from './types';
+import { validateCircuit, validateMeter, validateRequest } from './validate';
+
+/** A netlist ready to solve for one reading, with what is needed to read the meter off it. */
+export interface PreparedReading {
+  /** The complete netlist (faults, connector state, jumpers, meter and leak resistors included). */
+  netlist: Netlist;
+  unit: ReadingUnit;
+  leads?: Leads;
+  meter: MeterSpec;
+  request: MeasurementRequest;
+}
+
+/** Validates everything and builds the netlist for one reading. */
+export function prepareReading(
+  circuit: CircuitSpec,
+  faults: FaultSpec[],
+  request: MeasurementRequest,
+  meter: MeterSpec = DEFAULT_METER,
+): Result<PreparedReading> {
+  const circuitFindings = validateCircuit(circuit);
+  if (circuitFindings.length) return { ok: false, findings: circuitFindings };
+  const found: Finding[] = [...validateMeter(meter), ...validateFaults(faults, circuit), ...validateRequest(request, circuit)];
+  if (found.length) return { ok: false, findings: found };
+  const quantity = QUANTITY_BEHAVIOURS[request.quantity];
+  found.push(...quantity.check(request, 'request'));
+  if (found.length) return { ok: false, findings: found };
+
+  const netlist = buildNetlist(circuit, request);
+  found.push(...applyFaults(netlist, faults, circuit));
+  if (found.length) return { ok: false, findings: found };
+  if (request.connector === 'unplugged') {
+    for (const wire of circuit.wires) netlist.remove(contactId[request.location](wire.role));
+  }
+  attachJumpers(netlist, request.jumpers, request.location);
+  const leads = quantity.needsLeads ? { at: pointNode(request.at, request.location), against: pointNode(request.against!, request.location) } : undefined;
+  quantity.attach(netlist, leads, meter);
+  netlist.addLeaks(leads ? [leads.at, leads.against] : []);
+  return { ok: true, value: { netlist, unit: quantity.unit, leads, meter, request } };
+}
+
+/** The fast evaluator of a prepared reading on its compiled netlist, after the checks that need a solution. */
+export function evaluatorFor(prepared: PreparedReading, compiled: CompiledNetlist = prepared.netlist.compile()): Result<Evaluator> {
+  const quantity = QUANTITY_BEHAVIOURS[prepared.request.quantity];
+  const solvedFindings = prepared.leads && quantity.checkSolved ? quantity.checkSolved(compiled, prepared.leads, 'request') : [];
+  if (solvedFindings.length) return { ok: false, findings: solvedFindings };
+  return { ok: true, value: quantity.evaluator(compiled, prepared.leads, prepared.meter) };
+}
+
+export type PredictedReading =
+  | { ok: true; value: number; unit: ReadingUnit; overload?: boolean }
+  | { ok: false; findings: Finding[] };
+
+/**
+ * The reading a meter (or the scan tool) would show, nominal values, no meter error. Ohms beyond the meter's range
+ * come back as `value: Infinity, overload: true`.
+ */
+export function predictReading(
+  circuit: CircuitSpec,
+  faults: FaultSpec[],
+  request: MeasurementRequest,
+  meter: MeterSpec = DEFAULT_METER,
+): PredictedReading {
+  const prepared = prepareReading(circuit, faults, request, meter);
+  if (!prepared.ok) return prepared;
+  const evaluator = evaluatorFor(prepared.value);
+  if (!evaluator.ok) return evaluator;
+  const value = evaluator.value();
+  if (Number.isNaN(value)) {
+    return { ok: false, findings: [finding('circuit.unsolvable', 'faults', 'The circuit with these faults and jumpers has no unique solution (a loop of ideal sources).')] };
+  }
+  return Number.isFinite(value) ? { ok: true, value, unit: prepared.value.unit } : { ok: true, value, unit: prepared.value.unit, overload: true };
+}
+
+/** The complete netlist for one reading (what `predictReading` solves), e.g. for `toSpice`. */
+export function circuitNetlist(circuit: CircuitSpec, faults: FaultSpec[], request: MeasurementRequest, meter?: MeterSpec): Result<Netlist> {
+  const prepared = prepareReading(circuit, faults, request, meter);
+  return prepared.ok ? { ok: true, value: prepared.value.netlist } : prepared;
+}

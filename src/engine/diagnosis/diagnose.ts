@@ -1,0 +1,197 @@
+/**
+ * The diagnosis: a pure function of (tree, readings, repairs, options). Readings are checked and matched to tests,
+ * counted ones update the posterior, and the status rules pick what to do next. Nothing is stored.
+ */
+import { finding, type Finding } from './findings';
+import { decidingReadings, posterior, type Evidence } from './posterior';
+import { argmax, type PolicyModel, type PolicyState } from './policy';
+import { checkReadingShapes, checkRepairs, verdictOf, type CheckedReading, type ReadingContext } from './reading-checks';
+import { decide, type ResolvedOptions, type TestProgress } from './status-rules';
+import type { Tree } from './tree-model';
+import type { Diagnosis, DiagnosisOptions, NextTest, PathEntry, Reading, Repair } from './index';
+
+export const DEFAULT_OPTIONS: Omit<ResolvedOptions, 'concludeAt'> = {
+  wrongConclusionMinutes: 240,
+  strategy: 'auto',
+  lookaheadDepth: 2,
+  exactStateBudget: 100,
+  contradictionThreshold: -4,
+  frozenScanTolerance: 0,
+  maxAttempts: 2,
+  leadingCauses: 3,
+};
+
+export function resolve(tree: Tree, options: DiagnosisOptions): { resolved: ResolvedOptions; findings: Finding[] } {
+  const resolved: ResolvedOptions = { ...DEFAULT_OPTIONS, concludeAt: tree.concludeAt };
+  const findings: Finding[] = [];
+  for (const [key, value] of Object.entries(options) as Array<[keyof ResolvedOptions, unknown]>) {
+    if (value === undefined) continue;
+    if (!(key in resolved)) {
+      findings.push(finding('options.unknown', `options.${key}`, `unknown option "${key}"`, 'warning'));
+      continue;
+    }
+    if (key === 'strategy') {
+      if (value === 'auto' || value === 'exact' || value === 'lookahead') resolved.strategy = value;
+      else findings.push(finding('options.invalid', 'options.strategy', 'expected "auto", "exact" or "lookahead"'));
+      continue;
+    }
+    if (typeof value !== 'number' || !Number.isFinite(value)) findings.push(finding('options.invalid', `options.${key}`, 'expected a finite number'));
+    else if (key === 'concludeAt' && (value <= 0.5 || value >= 1)) findings.push(finding('options.invalid', 'options.concludeAt', 'expected a probability between 0.5 and 1'));
+    else (resolved as unknown as Record<string, number>)[key] = value;
+  }
+  return { resolved, findings };
+}
+
+/** The decision model the engine plans with: test costs, set-ups, and stop(e) = 0 once a cause reaches the threshold. */
+export function policyModel(tree: Tree, options: ResolvedOptions): PolicyModel {
+  const L = options.wrongConclusionMinutes;
+  const tau = options.concludeAt;
+  return {
+    nH: tree.hypotheses.length,
+    tests: tree.tests.map((t) => ({ cost: t.minutes, setupMask: t.setupMask, nO: t.outcomes.length, like: t.like })),
+    setupCosts: tree.setups.map((s) => s.minutes),
+    stopCost: (max) => (max >= tau ? 0 : L * (1 - max)),
+    isTerminal: (max) => max >= tau,
+  };
+}
+
+/** See `diagnose` in index.ts. */
+export async function runDiagnosis(tree: Tree, readings: readonly Reading[], repairs: readonly Repair[], options: DiagnosisOptions): Promise<Diagnosis> {
+  const { resolved, findings } = resolve(tree, options);
+  const shapes = checkReadingShapes(tree, Array.isArray(readings) ? readings : []);
+  if (!Array.isArray(readings)) findings.push(finding('readings.not_array', 'readings', 'expected an array of readings'));
+  const repairCheck = checkRepairs(Array.isArray(repairs) ? repairs : []);
+  findings.push(...shapes.findings, ...repairCheck.findings);
+  const ctx: ReadingContext = {
+    tree,
+    readings: shapes.checked,
+    byId: new Map(shapes.checked.map((r) => [r.id, r])),
+    repairs: repairCheck.repairs,
+    options: resolved,
+  };
+
+  const path: PathEntry[] = shapes.invalid.map(({ reading, note }) => ({
+    readingId: String(reading?.id ?? ''),
+    takenAt: String(reading?.takenAt ?? ''),
+    value: reading?.value,
+    verdict: 'invalid',
+    note,
+  }));
+  const evidence: Evidence[] = [];
+  const progress: TestProgress[] = tree.tests.map(() => ({ counted: 0, indeterminate: [] }));
+  let paid = 0;
+  // Within one call each reading's outcome rules run once (cached by reading id).
+  const classified = new Map<string, Promise<string[]>>();
+  for (const r of ctx.readings) if (r.test && !verdictOf(r, ctx)) classified.set(r.id, r.test.classifier.classify(r.value, r.request));
+  const matches = new Map<string, string[]>();
+  await Promise.all([...classified].map(async ([id, pending]) => matches.set(id, await pending)));
+
+  for (const r of ctx.readings) {
+    const base = { readingId: r.id, takenAt: new Date(r.takenAtMs).toISOString(), value: r.value === Infinity ? 'overload' : r.value, testId: r.test?.id, testLabel: r.test?.label };
+    const early = verdictOf(r, ctx);
+    if (r.test && early?.verdict !== 'not_in_tree' && early?.verdict !== 'verification') paid |= r.test.setupMask;
+    if (early) {
+      path.push({ ...base, verdict: early.verdict, note: early.note });
+      if (early.verdict === 'frozen_scan') progress[r.test!.index]!.frozen = r;
+      continue;
+    }
+    const test = r.test!;
+    const hit = matches.get(r.id) ?? [];
+    const prog = progress[test.index]!;
+    if (hit.length !== 1) {
+      prog.indeterminate.push(r);
+      path.push({ ...base, verdict: 'indeterminate', note: hit.length === 0 ? 'in a guard band: matches no outcome' : `matches several outcomes (${hit.join(', ')})` });
+      continue;
+    }
+    const outcome = test.outcomes.find((o) => o.id === hit[0])!;
+    evidence.push({ readingId: r.id, test: test.index, outcome: outcome.index });
+    prog.counted++;
+    prog.indeterminate = [];
+    prog.frozen = undefined;
+    path.push({ ...base, verdict: 'counted', outcomeId: outcome.id, outcomeLabel: outcome.label, note: `outcome: ${outcome.label}` });
+  }
+
+  const post = posterior(tree, evidence);
+  const model = policyModel(tree, resolved);
+  const done = new Int16Array(tree.tests.length).fill(-1);
+  for (const e of evidence) done[e.test] = e.outcome;
+  progress.forEach((p, i) => {
+    if (p.counted === 0 && p.indeterminate.length >= resolved.maxAttempts) {
+      done[i] = -2;
+      findings.push(finding('diagnosis.test_unresolved', `tests[${i}]`, `"${tree.tests[i]!.label}" stayed in a guard band after ${p.indeterminate.length} attempts; it is set aside`, 'warning'));
+    }
+  });
+  const state: PolicyState = { p: post.p, done, paid };
+  const replacements = new Set(ctx.readings.flatMap((r) => (r.supersededBy && ctx.byId.has(r.supersededBy) ? [r.supersededBy] : [])));
+  const readingIndex = new Map(ctx.readings.map((r) => [r.id, r.inputIndex]));
+  const decision = decide({ tree, options: resolved, evidence, posterior: post, progress, replacements, readingIndex, model, state });
+
+  const ranked = tree.hypotheses
+    .map((h) => ({ id: h.id, label: h.label, part: h.part, probability: post.p[h.index]! }))
+    .sort((a, b) => b.probability - a.probability);
+  const leader = argmax(post.p);
+  const concludedNow = decision.status === 'concluded' || decision.status === 'exhausted';
+  const conclusion = concludedNow
+    ? {
+        hypothesisId: tree.hypotheses[leader]!.id,
+        label: tree.hypotheses[leader]!.label,
+        probability: post.p[leader]!,
+        repair: { part: tree.hypotheses[leader]!.part, action: tree.hypotheses[leader]!.repairAction },
+        decidedBy: decidingReadings(tree, evidence, Float64Array.from(tree.hypotheses, (h) => h.prior), leader),
+        reachedThreshold: post.p[leader]! >= resolved.concludeAt,
+      }
+    : null;
+  const nextTest: NextTest | null = decision.choice ? nextTestOf(tree, decision.choice, paid, ranked, resolved.leadingCauses) : null;
+  return {
+    treeId: tree.id,
+    treeVersion: tree.version,
+    status: decision.status,
+    ranked,
+    nextTest,
+    path,
+    conclusion,
+    logZ: post.logZ,
+    logEvidenceVsChance: post.logEvidenceVsChance,
+    findings: [...findings, ...decision.findings],
+  };
+}
+
+function nextTestOf(
+  tree: Tree,
+  choice: NonNullable<ReturnType<typeof decide>['choice']>,
+  paid: number,
+  ranked: Diagnosis['ranked'],
+  leading: number,
+): NextTest {
+  const test = choice.test;
+  const setupsToDo = test.setups.filter((s) => !((paid >> s.index) & 1));
+  const setupMinutes = setupsToDo.reduce((a, s) => a + s.minutes, 0);
+  const crank = choice.reason === 'crank_and_reread';
+  return {
+    id: test.id,
+    label: test.label,
+    reason: choice.reason,
+    recheckOf: choice.recheckOf,
+    procedure: crank ? [...test.procedure, 'Crank the engine (or let it idle) and read the scan value again while it turns.'] : test.procedure,
+    preconditions: test.preconditions,
+    cautions: crank ? test.crankCautions : test.cautions,
+    setups: setupsToDo.map((s) => ({ id: s.id, label: s.label, minutes: s.minutes, steps: s.steps })),
+    minutes: test.minutes,
+    setupMinutes,
+    totalMinutes: test.minutes + setupMinutes,
+    request: structuredClone(choice.request),
+    outcomes: test.outcomes.map((o) => ({ id: o.id, label: o.label, range: o.interval ? [o.interval.lo, o.interval.hi] : null })),
+    predictions: ranked
+      .filter((h) => h.probability > 0.01)
+      .slice(0, leading)
+      .map((h) => {
+        const hyp = tree.hypotheses.find((x) => x.id === h.id)!;
+        const nO = test.outcomes.length;
+        const row = test.outcomes.map((o) => test.like[hyp.index * nO + o.index]!);
+        return { hypothesisId: h.id, label: h.label, probability: h.probability, band: test.bands.get(h.id) ?? null, likelyOutcome: test.outcomes[argmax(row)]!.id };
+      }),
+    expectedMinutesToFinish: choice.expectedMinutes ?? null,
+    strategy: choice.strategy ?? null,
+    ranking: choice.ranking ?? [],
+  };
+}

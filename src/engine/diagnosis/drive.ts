@@ -1,0 +1,98 @@
+/**
+ * Drives a diagnosis to its end against a simulated case: ask the engine, take the reading it asks for (or the
+ * one a baseline policy picks), repeat. Used by the end-to-end tests and the benchmark.
+ */
+import { diagnose, type Diagnosis, type DiagnosisOptions, type Reading } from './index';
+import { policyModel, resolve } from './diagnose';
+import { posterior } from './posterior';
+import { exactQ, newExactMemo, type ExactMemo, type PolicyState } from './policy';
+import { arbitraryReading, simulateReading, type SimulatedCase } from './simulate';
+import { requestKey, type TreeRequest } from './request-key';
+import type { Test, Tree } from './tree-model';
+
+/** Picks the next test while the engine's status is "testing"; undefined keeps the engine's choice. */
+export type TestChooser = (tree: Tree, diagnosis: Diagnosis) => Test | undefined;
+
+export interface DriveResult {
+  conclusion: string | null;
+  status: Diagnosis['status'];
+  minutes: number;
+  readings: Reading[];
+  /** Milliseconds per `diagnose` call. */
+  latencies: number[];
+  last: Diagnosis;
+}
+
+/** Tests answered (counted) or set aside (indeterminate too often), by id. */
+export function settledTests(tree: Tree, d: Diagnosis, maxAttempts = 2): Set<string> {
+  const done = new Set(d.path.filter((e) => e.verdict === 'counted').map((e) => e.testId!));
+  const tries = new Map<string, number>();
+  for (const e of d.path) if (e.verdict === 'indeterminate') tries.set(e.testId!, (tries.get(e.testId!) ?? 0) + 1);
+  for (const [id, n] of tries) if (n >= maxAttempts) done.add(id);
+  return done;
+}
+
+const PART_ORDER = ['reference', 'signal', 'ground', 'sensor', 'module'];
+
+/** The fixed checklist: reference tests, then signal, ground, sensor, module; tree order within a part. */
+export const checklistChooser: TestChooser = (tree, d) => {
+  const done = settledTests(tree, d);
+  const rank = (t: Test) => Math.min(...(t.parts ?? tree.hypotheses.map((h) => h.part)).map((p) => (PART_ORDER.includes(p) ? PART_ORDER.indexOf(p) : PART_ORDER.length)));
+  return [...tree.tests].sort((a, b) => rank(a) - rank(b) || a.index - b.index).find((t) => !done.has(t.id));
+};
+
+/** The exact optimal policy (V by dynamic programming), with a memo shared across cases of one tree. */
+export function exactChooser(options: DiagnosisOptions = {}, memo: ExactMemo = newExactMemo()): TestChooser {
+  return (tree, d) => {
+    const model = policyModel(tree, resolve(tree, options).resolved);
+    const done = new Int16Array(tree.tests.length).fill(-1);
+    const evidence = d.path.flatMap((e) => {
+      if (e.verdict !== 'counted') return [];
+      const test = tree.tests.find((t) => t.id === e.testId)!;
+      return [{ readingId: e.readingId, test: test.index, outcome: test.outcomes.findIndex((o) => o.id === e.outcomeId) }];
+    });
+    for (const e of evidence) done[e.test] = e.outcome;
+    const settled = settledTests(tree, d);
+    tree.tests.forEach((t) => done[t.index] === -1 && settled.has(t.id) && (done[t.index] = -2));
+    const paid = tree.tests.filter((t) => d.path.some((e) => e.testId === t.id)).reduce((m, t) => m | t.setupMask, 0);
+    const state: PolicyState = { p: posterior(tree, evidence).p, done, paid };
+    let best: { t: number; q: number } | undefined;
+    for (let t = 0; t < done.length; t++) {
+      if (done[t] !== -1) continue;
+      const q = exactQ(model, state, t, memo);
+      if (!best || q < best.q - 1e-9) best = { t, q };
+    }
+    return best && tree.tests[best.t];
+  };
+}
+
+export async function driveToEnd(tree: Tree, c: SimulatedCase, opts: { options?: DiagnosisOptions; choose?: TestChooser; maxSteps?: number } = {}): Promise<DriveResult> {
+  const readings: Reading[] = [];
+  const latencies: number[] = [];
+  const attempts = new Map<string, number>();
+  const start = Date.parse('2025-01-06T08:00:00Z');
+  let paid = 0;
+  let minutes = 0;
+  for (let step = 0; ; step++) {
+    const t0 = performance.now();
+    const d = await diagnose(tree, readings, [], opts.options ?? {});
+    latencies.push(performance.now() - t0);
+    if (d.status === 'concluded' || d.status === 'exhausted' || !d.nextTest || step >= (opts.maxSteps ?? 60))
+      return { conclusion: d.conclusion?.hypothesisId ?? null, status: d.status, minutes, readings, latencies, last: d };
+    const override = d.status === 'testing' && opts.choose ? opts.choose(tree, d) : undefined;
+    const test = override ?? tree.tests.find((t) => t.id === d.nextTest!.id)!;
+    const request: TreeRequest = override ? test.request : d.nextTest.request;
+    minutes += test.minutes + test.setups.filter((s) => !((paid >> s.index) & 1)).reduce((a, s) => a + s.minutes, 0);
+    paid |= test.setupMask;
+    const key = requestKey(request);
+    const attempt = attempts.get(key) ?? 0;
+    attempts.set(key, attempt + 1);
+    const value = simulateReading(c, request, attempt) ?? arbitraryReading(c, request, attempt);
+    const id = `r${step + 1}`;
+    if (!override && d.nextTest.reason === 'recheck_contradiction' && d.nextTest.recheckOf) {
+      const old = readings.find((r) => r.id === d.nextTest!.recheckOf);
+      if (old) old.supersededBy = id;
+    }
+    readings.push({ id, request, value, takenAt: new Date(start + (step + 1) * 60_000).toISOString(), phase: 'diagnosis' });
+  }
+}

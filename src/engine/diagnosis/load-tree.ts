@@ -1,0 +1,122 @@
+/**
+ * Loading a tree document: shape check (zod), cross-reference checks, then normalisation: priors summed to one,
+ * required safety cautions added, likelihood rows floored and renormalised, a content hash as version.
+ */
+import { createHash } from 'node:crypto';
+import { finding, hasErrors, joinPath, type Finding } from './findings';
+import { cautionKind, requiredCautions } from './cautions';
+import { compileOutcomes, conditionInterval } from './outcome-rules';
+import { canonicalJson, requestKey, withConditions } from './request-key';
+import { TREE_CHECKS } from './tree-checks';
+import { parseTreeDocument, type TestDocument, type TreeDocument } from './tree-schema';
+import type { Caution, Hypothesis, Setup, Test, Tree } from './tree-model';
+
+export const DEFAULT_LIKELIHOOD_FLOOR = 0.02;
+export const DEFAULT_CONCLUDE_AT = 0.95;
+
+export type LoadResult = { ok: true; tree: Tree; findings: Finding[] } | { ok: false; findings: Finding[] };
+
+/** Floors every entry at `floor` and renormalises, so one bad reading cannot eliminate the true cause. */
+export function floorRow(row: ArrayLike<number>, floor: number): number[] {
+  const sum = Array.from(row).reduce((a, b) => a + b, 0);
+  const floored = Array.from(row, (p) => Math.max(sum > 0 ? p / sum : 1 / row.length, floor));
+  const total = floored.reduce((a, b) => a + b, 0);
+  return floored.map((p) => p / total);
+}
+
+function addRequiredCautions(doc: TreeDocument, findings: Finding[]): TreeDocument {
+  const tests = doc.tests.map((t, i) => {
+    const missing = requiredCautions(t.request).filter((c) => !t.cautions.includes(c));
+    for (const c of missing)
+      findings.push(finding('tree.caution_added', joinPath('tests', i, 'cautions'), `added the "${c}" caution this measurement needs`, c === 'service_information' ? 'info' : 'warning'));
+    return missing.length ? { ...t, cautions: [...t.cautions, ...missing] } : t;
+  });
+  return { ...doc, tests };
+}
+
+const toCautions = (ids: string[]): Caution[] => ids.map((id) => ({ id, text: cautionKind(id)!.text }));
+
+function compileTest(t: TestDocument, index: number, doc: TreeDocument, setups: Setup[], floor: number): Test {
+  const nO = t.outcomes.length;
+  const nH = doc.hypotheses.length;
+  const like = new Float64Array(nH * nO);
+  doc.hypotheses.forEach((h, hi) => {
+    const given = t.likelihoods[h.id];
+    const row = given ? floorRow(t.outcomes.map((o) => given[o.id] ?? 0), floor) : t.outcomes.map(() => 1 / nO);
+    row.forEach((p, o) => (like[hi * nO + o] = p));
+  });
+  const mine = setups.filter((s) => t.setups.includes(s.id));
+  const crankable = t.request.quantity === 'scan_value' && t.request.key === 'on' && t.request.engine === 'off';
+  const crankRequest = crankable ? withConditions(t.request, { engine: 'cranking' }) : undefined;
+  return {
+    index,
+    id: t.id,
+    label: t.label,
+    procedure: t.procedure,
+    request: t.request,
+    crankRequest,
+    setups: mine,
+    setupMask: mine.reduce((m, s) => m | (1 << s.index), 0),
+    preconditions: t.preconditions,
+    cautions: toCautions(t.cautions),
+    crankCautions: crankRequest ? toCautions([...new Set([...t.cautions, ...requiredCautions(crankRequest)])]) : [],
+    minutes: t.minutes,
+    parts: t.parts,
+    outcomes: t.outcomes.map((o, oi) => ({ index: oi, id: o.id, label: o.label, condition: o.condition, interval: conditionInterval(o.condition) })),
+    like,
+    logLike: like.map(Math.log),
+    bands: new Map(Object.entries(t.bands ?? {})),
+    classifier: compileOutcomes(t.outcomes),
+  };
+}
+
+/**
+ * Validates and normalises a tree document (parsed JSON). Returns the loaded tree, or the findings that stop it
+ * (each with a JSON path and a reason). Warnings (e.g. an added caution) come back with a loaded tree too.
+ */
+export function loadTree(json: unknown): LoadResult {
+  const parsed = parseTreeDocument(json);
+  if (!parsed.document) return { ok: false, findings: parsed.findings };
+  const findings = TREE_CHECKS.flatMap((check) => check.run(parsed.document!));
+  if (hasErrors(findings)) return { ok: false, findings };
+  const doc = addRequiredCautions(parsed.document, findings);
+  const floor = doc.settings.likelihoodFloor ?? DEFAULT_LIKELIHOOD_FLOOR;
+  const priorSum = doc.hypotheses.reduce((a, h) => a + h.prior, 0);
+  if (Math.abs(priorSum - 1) > 1e-6) findings.push(finding('tree.priors_renormalised', 'hypotheses', `priors summed to ${priorSum.toFixed(4)}; they were scaled to sum to 1`, 'info'));
+  const hypotheses: Hypothesis[] = doc.hypotheses.map((h, index) => ({
+    index,
+    id: h.id,
+    label: h.label,
+    prior: h.prior / priorSum,
+    part: h.repair.part,
+    repairAction: h.repair.action,
+    unknown: h.unknown === true,
+  }));
+  const setups: Setup[] = doc.setups.map((s, index) => ({ index, ...s }));
+  const tests = doc.tests.map((t, i) => compileTest(t, i, doc, setups, floor));
+  const testByRequest = new Map<string, Test>(tests.map((t) => [requestKey(t.request), t]));
+  for (const t of tests) {
+    if (!t.crankRequest) continue;
+    const key = requestKey(t.crankRequest);
+    if (testByRequest.has(key)) t.crankRequest = testByRequest.get(key)!.request;
+    else testByRequest.set(key, t);
+  }
+  const hash = createHash('sha256').update(canonicalJson(doc)).digest('hex');
+  const tree: Tree = {
+    id: doc.id,
+    version: `sha256:${hash}`,
+    declaredVersion: doc.version,
+    circuitKind: doc.circuitKind,
+    title: doc.title,
+    concludeAt: doc.settings.concludeAt ?? DEFAULT_CONCLUDE_AT,
+    likelihoodFloor: floor,
+    hypotheses,
+    unknownIndex: hypotheses.findIndex((h) => h.unknown),
+    logPrior: Float64Array.from(hypotheses, (h) => Math.log(h.prior)),
+    setups,
+    tests,
+    testByRequest,
+    document: doc,
+  };
+  return { ok: true, tree, findings };
+}

@@ -1,0 +1,164 @@
+/**
+ * What each reading means for the diagnosis, decided by a table of checks (first match wins), then by the tree's
+ * outcome rules: counted with an outcome, or kept in the path with the reason it does not count.
+ */
+import { finding, joinPath, type Finding } from './findings';
+import { parseRequest } from './tree-schema';
+import { requestKey, signalSetupKey, type TreeRequest } from './request-key';
+import type { Test, Tree } from './tree-model';
+import type { DiagnosisOptions, Reading, Repair } from './index';
+
+export type Verdict =
+  | 'counted'
+  | 'indeterminate'
+  | 'superseded'
+  | 'verification'
+  | 'not_in_tree'
+  | 'invalid'
+  | 'before_repair'
+  | 'frozen_scan';
+
+/** A reading that passed the shape check, in time order. */
+export interface CheckedReading {
+  index: number;
+  /** Position in the caller's readings array (for finding paths). */
+  inputIndex: number;
+  id: string;
+  request: TreeRequest;
+  value: number;
+  takenAtMs: number;
+  phase: 'diagnosis' | 'verification';
+  supersededBy?: string;
+  test?: Test;
+}
+
+export interface ReadingContext {
+  tree: Tree;
+  readings: CheckedReading[];
+  byId: Map<string, CheckedReading>;
+  repairs: Array<{ id: string; part: string; atMs: number }>;
+  options: Required<Pick<DiagnosisOptions, 'frozenScanTolerance'>>;
+}
+
+interface ReadingCheck {
+  verdict: Verdict;
+  /** A plain-words note when the check applies to this reading, else undefined. */
+  check(reading: CheckedReading, ctx: ReadingContext): string | undefined;
+}
+
+const isKeyOnScan = (r: CheckedReading) => r.request.quantity === 'scan_value' && r.request.key === 'on' && r.request.engine === 'off';
+
+/** An earlier key-on, engine-stopped scan reading of the same parameter, same value, but a different signal set-up. */
+function frozenAgainst(reading: CheckedReading, ctx: ReadingContext): CheckedReading | undefined {
+  if (!isKeyOnScan(reading)) return undefined;
+  const setup = signalSetupKey(reading.request);
+  return ctx.readings.find(
+    (q) =>
+      q.index < reading.index &&
+      isKeyOnScan(q) &&
+      !(q.supersededBy && ctx.byId.has(q.supersededBy)) &&
+      q.request.pid === reading.request.pid &&
+      signalSetupKey(q.request) !== setup &&
+      Math.abs(q.value - reading.value) <= ctx.options.frozenScanTolerance,
+  );
+}
+
+export const READING_CHECKS: readonly ReadingCheck[] = [
+  {
+    verdict: 'superseded',
+    check: (r, ctx) => (r.supersededBy && ctx.byId.has(r.supersededBy) ? `replaced by reading ${r.supersededBy}` : undefined),
+  },
+  {
+    verdict: 'verification',
+    check: (r) => (r.phase === 'verification' ? 'a verification reading: it proves the repair and does not move the diagnosis' : undefined),
+  },
+  {
+    verdict: 'not_in_tree',
+    check: (r) => (r.test ? undefined : 'not in this tree: kept in the record, does not move the diagnosis'),
+  },
+  {
+    verdict: 'before_repair',
+    check: (r, ctx) => {
+      const repair = ctx.repairs.find((rep) => rep.atMs > r.takenAtMs && (r.test!.parts === undefined || r.test!.parts.includes(rep.part)));
+      return repair ? `taken before repair ${repair.id} of the ${repair.part}: no longer describes the circuit` : undefined;
+    },
+  },
+  {
+    verdict: 'frozen_scan',
+    check: (r, ctx) => {
+      const earlier = frozenAgainst(r, ctx);
+      return earlier
+        ? `scan value unchanged from reading ${earlier.id} although the signal set-up changed, engine stopped: the module may not refresh until it sees engine speed`
+        : undefined;
+    },
+  },
+];
+
+/** Shape check of the readings: the usable ones (time-ordered, matched to tests) and findings for the rest. */
+export function checkReadingShapes(tree: Tree, readings: readonly Reading[]): { checked: CheckedReading[]; invalid: Array<{ reading: Reading; note: string }>; findings: Finding[] } {
+  const findings: Finding[] = [];
+  const checked: CheckedReading[] = [];
+  const invalid: Array<{ reading: Reading; note: string }> = [];
+  const seen = new Set<string>();
+  readings.forEach((reading, i) => {
+    const path = joinPath('readings', i);
+    const problems: Finding[] = [];
+    if (typeof reading?.id !== 'string' || reading.id === '') problems.push(finding('reading.id_missing', joinPath(path, 'id'), 'expected a non-empty reading id'));
+    else if (seen.has(reading.id)) problems.push(finding('reading.duplicate_id', joinPath(path, 'id'), `reading id "${reading.id}" is used twice`));
+    const { request, findings: requestFindings } = parseRequest(reading?.request, joinPath(path, 'request'));
+    problems.push(...requestFindings);
+    const value = reading?.value === 'overload' && request?.quantity === 'ohms' ? Infinity : reading?.value;
+    if (typeof value !== 'number' || Number.isNaN(value) || value === -Infinity || (value === Infinity && reading.value !== 'overload'))
+      problems.push(finding('reading.value_not_number', joinPath(path, 'value'), `expected a number in SI units (volts, ohms, amps) or the scan value as shown; got ${JSON.stringify(reading?.value)}${request?.quantity === 'ohms' ? ' (an open ohms reading is "overload")' : ''}`));
+    const takenAtMs = Date.parse(reading?.takenAt);
+    if (typeof reading?.takenAt !== 'string' || Number.isNaN(takenAtMs)) problems.push(finding('reading.taken_at_invalid', joinPath(path, 'takenAt'), 'expected an ISO 8601 date-time'));
+    if (reading?.phase !== 'diagnosis' && reading?.phase !== 'verification') problems.push(finding('reading.phase_invalid', joinPath(path, 'phase'), 'expected "diagnosis" or "verification"'));
+    if (reading?.supersededBy !== undefined && typeof reading.supersededBy !== 'string') problems.push(finding('reading.superseded_by_invalid', joinPath(path, 'supersededBy'), 'expected a reading id'));
+    if (typeof reading?.id === 'string') seen.add(reading.id);
+    if (problems.length) {
+      findings.push(...problems);
+      invalid.push({ reading, note: problems.map((p) => p.message).join('; ') });
+      return;
+    }
+    checked.push({
+      index: i,
+      inputIndex: i,
+      id: reading.id,
+      request: request!,
+      value: value as number,
+      takenAtMs,
+      phase: reading.phase,
+      supersededBy: reading.supersededBy,
+      test: tree.testByRequest.get(requestKey(request!)),
+    });
+  });
+  checked.sort((a, b) => a.takenAtMs - b.takenAtMs || a.index - b.index);
+  checked.forEach((r, i) => (r.index = i));
+  for (const r of checked)
+    if (r.supersededBy !== undefined && !checked.some((q) => q.id === r.supersededBy))
+      findings.push(finding('reading.superseded_by_unknown', joinPath('readings', readings.findIndex((x) => x.id === r.id), 'supersededBy'), `no reading with id "${r.supersededBy}"; the reading still counts`, 'warning'));
+  return { checked, invalid, findings };
+}
+
+export function checkRepairs(repairs: readonly Repair[]): { repairs: ReadingContext['repairs']; findings: Finding[] } {
+  const findings: Finding[] = [];
+  const ok: ReadingContext['repairs'] = [];
+  repairs.forEach((repair, i) => {
+    const atMs = Date.parse(repair?.at);
+    const path = joinPath('repairs', i);
+    if (typeof repair?.id !== 'string' || !repair.id) findings.push(finding('repair.id_missing', joinPath(path, 'id'), 'expected a non-empty repair id'));
+    else if (typeof repair.part !== 'string' || !repair.part) findings.push(finding('repair.part_missing', joinPath(path, 'part'), 'expected the repaired part (reference, signal, ground, sensor, module, …)'));
+    else if (typeof repair.at !== 'string' || Number.isNaN(atMs)) findings.push(finding('repair.at_invalid', joinPath(path, 'at'), 'expected an ISO 8601 date-time'));
+    else ok.push({ id: repair.id, part: repair.part, atMs });
+  });
+  return { repairs: ok, findings };
+}
+
+/** The first check that applies, or undefined when the reading goes on to its outcome rules. */
+export function verdictOf(reading: CheckedReading, ctx: ReadingContext): { verdict: Verdict; note: string } | undefined {
+  for (const c of READING_CHECKS) {
+    const note = c.check(reading, ctx);
+    if (note !== undefined) return { verdict: c.verdict, note };
+  }
+  return undefined;
+}

@@ -1,0 +1,189 @@
+/**
+ * What to do next, as an ordered table of rules: each looks at the evidence and either decides (status, next
+ * test, findings) or passes. The first rule that decides wins; the last one always does.
+ */
+import { finding, type Finding } from './findings';
+import { mostDoubtfulReading, type Evidence, type Posterior } from './posterior';
+import {
+  argmax,
+  canChangeConclusion,
+  entropyBits,
+  exactQ,
+  expectedEntropyAfter,
+  lookaheadQ,
+  newExactMemo,
+  openTests,
+  stateSpaceSize,
+  testCost,
+  type PolicyModel,
+  type PolicyState,
+} from './policy';
+import type { CheckedReading } from './reading-checks';
+import type { TreeRequest } from './request-key';
+import type { Test, Tree } from './tree-model';
+
+export type DiagnosisStatus = 'testing' | 'concluded' | 'recheck' | 'crank_and_reread' | 'exhausted';
+export type NextTestReason = 'lowest_expected_cost' | 'recheck_indeterminate' | 'recheck_contradiction' | 'crank_and_reread';
+
+export interface TestProgress {
+  counted: number;
+  /** Indeterminate readings since the last counted one. */
+  indeterminate: CheckedReading[];
+  /** A frozen key-on scan reading with no counted reading of the test after it. */
+  frozen?: CheckedReading;
+}
+
+export interface ResolvedOptions {
+  concludeAt: number;
+  wrongConclusionMinutes: number;
+  strategy: 'auto' | 'exact' | 'lookahead';
+  lookaheadDepth: number;
+  exactStateBudget: number;
+  contradictionThreshold: number;
+  frozenScanTolerance: number;
+  maxAttempts: number;
+  leadingCauses: number;
+}
+
+export interface RuleContext {
+  tree: Tree;
+  options: ResolvedOptions;
+  evidence: Evidence[];
+  posterior: Posterior;
+  progress: TestProgress[];
+  /** Ids of readings that were taken to replace another (their target has `supersededBy` = this id). */
+  replacements: Set<string>;
+  /** Reading id → position in the caller's readings array. */
+  readingIndex: Map<string, number>;
+  model: PolicyModel;
+  state: PolicyState;
+}
+
+export interface Choice {
+  test: Test;
+  reason: NextTestReason;
+  request: TreeRequest;
+  recheckOf?: string;
+  expectedMinutes?: number;
+  ranking?: Array<{ testId: string; expectedMinutes: number; informationBits: number; minutes: number }>;
+  strategy?: 'exact' | 'lookahead';
+}
+
+export interface Decision {
+  status: DiagnosisStatus;
+  choice?: Choice;
+  findings: Finding[];
+}
+
+interface StatusRule {
+  name: string;
+  /** A decision, findings to carry while passing to the next rule, or undefined to pass silently. */
+  decide(ctx: RuleContext): Decision | Finding[] | undefined;
+}
+
+function rankTests(ctx: RuleContext): Choice | undefined {
+  const { model, state, options, tree } = ctx;
+  const open = openTests(state);
+  if (open.length === 0) return undefined;
+  const useExact = options.strategy === 'exact' || (options.strategy === 'auto' && stateSpaceSize(model, state) <= options.exactStateBudget);
+  const memo = newExactMemo();
+  const h0 = entropyBits(state.p);
+  const ranking = open
+    .map((t) => ({
+      t,
+      q: useExact ? exactQ(model, state, t, memo) : lookaheadQ(model, state, t, options.lookaheadDepth),
+      cost: testCost(model, state, t),
+      bits: h0 - expectedEntropyAfter(model, state.p, t),
+    }))
+    .sort((a, b) => a.q - b.q || a.cost - b.cost || a.t - b.t);
+  const best = ranking[0]!;
+  const test = tree.tests[best.t]!;
+  return {
+    test,
+    reason: 'lowest_expected_cost',
+    request: test.request,
+    expectedMinutes: best.q,
+    strategy: useExact ? 'exact' : 'lookahead',
+    ranking: ranking.map((r) => ({ testId: tree.tests[r.t]!.id, expectedMinutes: r.q, informationBits: r.bits, minutes: r.cost })),
+  };
+}
+
+export const STATUS_RULES: readonly StatusRule[] = [
+  {
+    name: 'indeterminate reading',
+    decide: (ctx) => {
+      const test = ctx.tree.tests.find((t, i) => ctx.progress[i]!.indeterminate.length > 0 && ctx.progress[i]!.indeterminate.length < ctx.options.maxAttempts);
+      if (!test) return undefined;
+      const last = ctx.progress[test.index]!.indeterminate.at(-1)!;
+      return {
+        status: 'recheck',
+        choice: { test, reason: 'recheck_indeterminate', request: last.request, recheckOf: last.id },
+        findings: [finding('diagnosis.reading_indeterminate', `readings[${last.inputIndex}]`, `reading ${last.id} (${last.value}) of "${test.label}" matches no single outcome (a guard band between outcomes): check the probe points and connector state, then measure again`, 'warning')],
+      };
+    },
+  },
+  {
+    name: 'frozen scan value',
+    decide: (ctx) => {
+      const test = ctx.tree.tests.find((t, i) => ctx.progress[i]!.frozen && t.crankRequest);
+      if (!test) return undefined;
+      const frozen = ctx.progress[test.index]!.frozen!;
+      return {
+        status: 'crank_and_reread',
+        choice: { test, reason: 'crank_and_reread', request: test.crankRequest!, recheckOf: frozen.id },
+        findings: [finding('diagnosis.scan_value_frozen', `readings[${frozen.inputIndex}]`, `the scan value did not change when the signal set-up changed with the engine stopped; some modules refresh only with engine speed: crank the engine and read again before blaming the circuit`, 'warning')],
+      };
+    },
+  },
+  {
+    name: 'contradiction',
+    decide: (ctx) => {
+      if (ctx.posterior.logEvidenceVsChance >= ctx.options.contradictionThreshold) return undefined;
+      const doubtful = mostDoubtfulReading(ctx.tree, ctx.evidence);
+      const ev = doubtful && ctx.evidence.find((e) => e.readingId === doubtful.readingId)!;
+      const message = `the readings together are improbable under every modelled cause (log evidence ${ctx.posterior.logEvidenceVsChance.toFixed(2)} against chance)`;
+      if (!doubtful || !ev || ctx.replacements.has(doubtful.readingId) || ctx.progress[ev.test]!.counted > 1)
+        return [finding('diagnosis.contradiction_persists', 'readings', `${message}; the doubtful reading was already repeated, so the "not modelled" cause is weighed instead`, 'warning')];
+      const test = ctx.tree.tests[ev.test]!;
+      const inputIndex = ctx.readingIndex.get(doubtful.readingId) ?? -1;
+      return {
+        status: 'recheck',
+        choice: { test, reason: 'recheck_contradiction', request: test.request, recheckOf: doubtful.readingId },
+        findings: [finding('diagnosis.contradiction', `readings[${inputIndex}]`, `${message}: repeat reading ${doubtful.readingId} ("${test.label}"), the one most likely to be wrong; mark the old one superseded by the new one`, 'warning')],
+      };
+    },
+  },
+  {
+    name: 'concluded',
+    decide: (ctx) => (ctx.posterior.p[argmax(ctx.posterior.p)]! >= ctx.options.concludeAt ? { status: 'concluded', findings: [] } : undefined),
+  },
+  {
+    name: 'exhausted',
+    decide: (ctx) => {
+      if (openTests(ctx.state).length > 0 && canChangeConclusion(ctx.model, ctx.state)) return undefined;
+      return {
+        status: 'exhausted',
+        findings: [finding('diagnosis.no_test_can_change_conclusion', 'tests', `no remaining test can change the leading cause or settle it at ${ctx.options.concludeAt}; concluding with the leading cause`, 'warning')],
+      };
+    },
+  },
+  {
+    name: 'testing',
+    decide: (ctx) => ({ status: 'testing', choice: rankTests(ctx), findings: [] }),
+  },
+];
+
+/** Runs the rules in order; a rule may add findings and pass (status "testing" without a choice). */
+export function decide(ctx: RuleContext): Decision {
+  const carried: Finding[] = [];
+  for (const rule of STATUS_RULES) {
+    const d = rule.decide(ctx);
+    if (!d) continue;
+    if (Array.isArray(d)) {
+      carried.push(...d);
+      continue;
+    }
+    return { ...d, findings: [...carried, ...d.findings] };
+  }
+  throw new Error('unreachable: the last status rule always decides');
+}

@@ -1,0 +1,84 @@
+/** The loaded (validated, normalised) form of a fault tree that the inference and policy code work on. */
+import type { TreeRequest } from './request-key';
+import type { OutcomeClassifier, Interval } from './outcome-rules';
+import type { BandsDocument, RuleCondition, TreeDocument } from './tree-schema';
+
+export interface Hypothesis {
+  index: number;
+  id: string;
+  label: string;
+  /** Prior after normalisation over all hypotheses. */
+  prior: number;
+  /** The circuit part its repair concerns: reference, signal, ground, sensor, module, … */
+  part: string;
+  repairAction: string;
+  unknown: boolean;
+}
+
+export interface Setup {
+  index: number;
+  id: string;
+  label: string;
+  minutes: number;
+  steps: string[];
+}
+
+export interface Outcome {
+  index: number;
+  id: string;
+  label: string;
+  condition: RuleCondition;
+  /** Accepted reading interval when the condition is a plain range on the value. */
+  interval?: Interval;
+}
+
+export interface Caution {
+  id: string;
+  text: string;
+}
+
+export interface Test {
+  index: number;
+  id: string;
+  label: string;
+  procedure: string[];
+  request: TreeRequest;
+  /** For key-on scan tests: the same request with the engine cranking, asked for when the value looks frozen. */
+  crankRequest?: TreeRequest;
+  setups: Setup[];
+  /** Bit i set when the test needs setup i. */
+  setupMask: number;
+  preconditions: string[];
+  cautions: Caution[];
+  crankCautions: Caution[];
+  minutes: number;
+  /** Parts whose repair makes earlier readings of this test stale; undefined means every part. */
+  parts?: string[];
+  outcomes: Outcome[];
+  /** P(outcome | hypothesis), floored and renormalised; index `h * outcomes.length + o`. */
+  like: Float64Array;
+  logLike: Float64Array;
+  bands: Map<string, BandsDocument>;
+  classifier: OutcomeClassifier;
+}
+
+export interface Tree {
+  id: string;
+  /** Content hash of the normalised document (`sha256:…`): what a diagnosis was computed against. */
+  version: string;
+  /** The version string the document itself declares. */
+  declaredVersion: string;
+  circuitKind: string;
+  title: string;
+  concludeAt: number;
+  likelihoodFloor: number;
+  hypotheses: Hypothesis[];
+  unknownIndex: number;
+  logPrior: Float64Array;
+  setups: Setup[];
+  tests: Test[];
+  /** Request key → test, including the cranking re-read keys. */
+  testByRequest: Map<string, Test>;
+  /** The normalised document (defaults filled, required cautions added) that the version hashes. */
+  document: TreeDocument;
+}

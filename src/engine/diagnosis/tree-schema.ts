@@ -1,0 +1,152 @@
+/**
+ * The fault-tree document format (JSON), checked with zod. Shape errors become coded findings with the JSON
+ * path; cross-references (ids, guard bands, likelihood rows) are checked afterwards in `load-tree.ts`.
+ */
+import { z } from 'zod';
+import {
+  CONNECTOR_STATES,
+  ENGINE_STATES,
+  KEY_STATES,
+  LOCATIONS,
+  POINTS,
+  QUANTITIES,
+} from '../vocabulary';
+import type { TreeRequest } from './request-key';
+import { finding, type Finding } from './findings';
+
+export const TREE_FORMAT = 'tracebay.fault-tree/1';
+
+const id = z.string().regex(/^[a-z][a-z0-9_]*$/, 'expected a lower-case id: letters, digits, underscores');
+const text = z.string().trim().min(1, 'expected non-empty text');
+const probability = z.number().min(0).max(1);
+
+const jumperVia = z.discriminatedUnion('kind', [
+  z.strictObject({ kind: z.literal('fused_jumper') }),
+  z.strictObject({ kind: z.literal('resistor'), ohms: z.number().positive() }),
+  z.strictObject({ kind: z.literal('voltage_source'), volts: z.number() }),
+]);
+
+export const requestSchema = z.strictObject({
+  quantity: z.enum(QUANTITIES),
+  at: z.enum(POINTS),
+  against: z.enum(POINTS).optional(),
+  location: z.enum(LOCATIONS),
+  connector: z.enum(CONNECTOR_STATES),
+  key: z.enum(KEY_STATES),
+  engine: z.enum(ENGINE_STATES),
+  jumpers: z.array(z.strictObject({ from: z.enum(POINTS), to: z.enum(POINTS), via: jumperVia })),
+  pid: z.string().min(1).optional(),
+  /** Which sensor on a shared reference the connector state applies to (see TreeRequest). */
+  sensor: id.optional(),
+});
+
+/** A json-rules-engine condition: `all` / `any` / `not` nodes over fact comparisons. */
+export type RuleCondition =
+  | { all: RuleCondition[] }
+  | { any: RuleCondition[] }
+  | { not: RuleCondition }
+  | { fact: string; operator: string; value: unknown; path?: string };
+
+const conditionSchema: z.ZodType<RuleCondition> = z.lazy(() =>
+  z.union([
+    z.strictObject({ all: z.array(conditionSchema).min(1) }),
+    z.strictObject({ any: z.array(conditionSchema).min(1) }),
+    z.strictObject({ not: conditionSchema }),
+    z.strictObject({ fact: z.string().min(1), operator: z.string().min(1), value: z.unknown(), path: z.string().optional() }),
+  ]),
+);
+
+/** A percentile of predicted readings; "overload" is an ohms reading beyond the meter's range. */
+const bandValue = z.union([z.number(), z.literal('overload')]);
+const bandsSchema = z.strictObject({ p5: bandValue, p25: bandValue, p50: bandValue, p75: bandValue, p95: bandValue });
+
+/** A circuit variant the likelihoods are averaged over (options for the circuit model's defaultCircuit). */
+const variantSchema = z.strictObject({ id, weight: z.number().positive(), circuit: z.record(z.string(), z.unknown()) });
+
+const outcomeSchema = z.strictObject({ id, label: text, condition: conditionSchema });
+
+const testSchema = z.strictObject({
+  id,
+  label: text,
+  procedure: z.array(text).min(1),
+  request: requestSchema,
+  setups: z.array(id).default([]),
+  preconditions: z.array(text).default([]),
+  cautions: z.array(id).default([]),
+  minutes: z.number().nonnegative(),
+  /** Circuit parts whose repair makes an earlier reading of this test stale; absent = every part. */
+  parts: z.array(id).min(1).optional(),
+  outcomes: z.array(outcomeSchema).min(2),
+  /** P(outcome | hypothesis), one row per hypothesis id; rows are floored and renormalised on load. */
+  likelihoods: z.record(z.string(), z.record(z.string(), probability)),
+  /** Predicted reading percentiles per hypothesis (recorded by the derive script). */
+  bands: z.record(z.string(), bandsSchema).optional(),
+});
+
+const hypothesisSchema = z.strictObject({
+  id,
+  label: text,
+  prior: z.number().positive(),
+  /** The "unknown / not modelled" leak: flat likelihood on every test unless rows are given. */
+  unknown: z.boolean().optional(),
+  repair: z.strictObject({ part: id, action: text }),
+});
+
+const setupSchema = z.strictObject({ id, label: text, minutes: z.number().nonnegative(), steps: z.array(text).min(1) });
+
+export const treeDocumentSchema = z.strictObject({
+  format: z.literal(TREE_FORMAT),
+  id: z.string().regex(/^[a-z][a-z0-9-]*$/, 'expected a kebab-case tree id'),
+  version: text,
+  circuitKind: id,
+  title: text,
+  settings: z
+    .strictObject({
+      likelihoodFloor: z.number().min(0.001).max(0.1).optional(),
+      concludeAt: z.number().gt(0.5).lt(1).optional(),
+    })
+    .default({}),
+  hypotheses: z.array(hypothesisSchema).min(2),
+  setups: z.array(setupSchema).max(30).default([]),
+  tests: z.array(testSchema).min(1),
+  derivation: z
+    .strictObject({
+      method: z.enum(['circuit_model_monte_carlo', 'hand']),
+      seed: z.number().int().optional(),
+      samples: z.number().int().positive().optional(),
+      variants: z.array(variantSchema).min(1).optional(),
+      note: text.optional(),
+    })
+    .optional(),
+});
+
+export type TreeDocument = z.output<typeof treeDocumentSchema>;
+export type TestDocument = TreeDocument['tests'][number];
+export type BandsDocument = z.output<typeof bandsSchema>;
+export type VariantDocument = z.output<typeof variantSchema>;
+
+function pathOf(segments: ReadonlyArray<PropertyKey>): string {
+  return segments.reduce<string>((p, s) => (typeof s === 'number' ? `${p}[${s}]` : p ? `${p}.${String(s)}` : String(s)), '');
+}
+
+/** Shape check: the parsed document, or findings with JSON paths. */
+export function parseTreeDocument(input: unknown): { document?: TreeDocument; findings: Finding[] } {
+  const result = treeDocumentSchema.safeParse(input);
+  if (result.success) return { document: result.data, findings: [] };
+  return {
+    findings: result.error.issues.map((issue) =>
+      finding(`tree.schema.${issue.code}`, pathOf(issue.path) || '$', issue.message),
+    ),
+  };
+}
+
+/** Shape check of one measurement request (used for readings). */
+export function parseRequest(input: unknown, path: string): { request?: TreeRequest; findings: Finding[] } {
+  const result = requestSchema.safeParse(input);
+  if (result.success) return { request: result.data, findings: [] };
+  return {
+    findings: result.error.issues.map((issue) =>
+      finding(`reading.request.${issue.code}`, [path, pathOf(issue.path)].filter(Boolean).join('.'), issue.message),
+    ),
+  };
+}

@@ -1,0 +1,64 @@
+/**
+ * The measurement vocabulary shared by every part of Tracebay: what a technician measured, where, and under
+ * which conditions. The HTTP layer, the circuit model and the fault trees all speak it, so a test's `request`
+ * can be posted back as a measurement unchanged.
+ */
+
+export const QUANTITIES = ['dc_volts', 'ohms', 'amps', 'scan_value'] as const;
+export type Quantity = (typeof QUANTITIES)[number];
+
+/** Probe points: the three sensor-circuit wires and the vehicle's fixed references. */
+export const POINTS = ['reference', 'signal', 'ground', 'battery_negative', 'battery_positive', 'chassis_ground'] as const;
+export type Point = (typeof POINTS)[number];
+
+export const LOCATIONS = ['sensor_connector', 'module_connector'] as const;
+export type Location = (typeof LOCATIONS)[number];
+
+export const CONNECTOR_STATES = ['plugged', 'unplugged', 'backprobed'] as const;
+export type ConnectorState = (typeof CONNECTOR_STATES)[number];
+
+export const KEY_STATES = ['off', 'on'] as const;
+export type KeyState = (typeof KEY_STATES)[number];
+
+export const ENGINE_STATES = ['off', 'cranking', 'running'] as const;
+export type EngineState = (typeof ENGINE_STATES)[number];
+
+/** What a jumper carries: a fused wire, a resistor of given ohms, or a variable voltage source of given volts. */
+export type JumperVia =
+  | { kind: 'fused_jumper' }
+  | { kind: 'resistor'; ohms: number }
+  | { kind: 'voltage_source'; volts: number };
+export const JUMPER_VIA_KINDS = ['fused_jumper', 'resistor', 'voltage_source'] as const;
+
+export interface Jumper {
+  from: Point;
+  to: Point;
+  via: JumperVia;
+}
+
+/** Where the leads go and in which state the vehicle is: everything but the value. */
+export interface MeasurementRequest {
+  quantity: Quantity;
+  at: Point;
+  /** Second lead; absent for `scan_value` (read from the scan tool). */
+  against?: Point;
+  location: Location;
+  connector: ConnectorState;
+  key: KeyState;
+  engine: EngineState;
+  jumpers: Jumper[];
+  /** For `scan_value`: the parameter read, e.g. an SAE J1979 PID such as "11" or a free name. */
+  pid?: string;
+}
+
+export const PHASES = ['diagnosis', 'verification'] as const;
+export type Phase = (typeof PHASES)[number];
+
+/** Default input resistance of a digital meter on DC volts (the usual 10 MΩ). */
+export const DEFAULT_METER_OHMS = 10_000_000;
+
+export const CIRCUIT_KINDS = ['three_wire_5v', 'two_wire_thermistor'] as const;
+export type CircuitKind = (typeof CIRCUIT_KINDS)[number];
+
+export const CAVITY_ROLES = ['reference', 'signal', 'ground', 'unknown'] as const;
+export type CavityRole = (typeof CAVITY_ROLES)[number];

@@ -1,0 +1,13 @@
+import { Module } from '@nestjs/common';
+import { RepairOrdersModule } from '../repair-orders/repair-orders.module';
+import { CircuitsController } from './circuits.controller';
+import { CircuitsRepository } from './circuits.repository';
+import { CircuitsService } from './circuits.service';
+
+@Module({
+  imports: [RepairOrdersModule],
+  controllers: [CircuitsController],
+  providers: [CircuitsRepository, CircuitsService],
+  exports: [CircuitsRepository],
+})
+export class CircuitsModule {}

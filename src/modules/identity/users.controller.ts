@@ -1,0 +1,23 @@
+import { Controller, Get } from '@nestjs/common';
+import { ApiSecurity, ApiTags } from '@nestjs/swagger';
+import { CurrentActor, type Actor } from './actor';
+import { UsersRepository } from './users.repository';
+
+@ApiTags('people')
+@ApiSecurity('user')
+@Controller('api')
+export class UsersController {
+  constructor(private readonly users: UsersRepository) {}
+
+  /** The caller and their shop. */
+  @Get('me')
+  async me(@CurrentActor() actor: Actor) {
+    return { user: actor, shop: await this.users.shop(actor.shopId) };
+  }
+
+  /** Everyone in the caller's shop (to assign technicians, to filter the board). */
+  @Get('users')
+  async list(@CurrentActor() actor: Actor) {
+    return { items: await this.users.listInShop(actor.shopId) };
+  }
+}

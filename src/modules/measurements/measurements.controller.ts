@@ -1,0 +1,29 @@
+import { Body, Controller, Get, Post } from '@nestjs/common';
+import { ApiBody, ApiOperation, ApiSecurity, ApiTags } from '@nestjs/swagger';
+import { openApiSchema, UuidParam, ZQuery } from '../../common/validation/zod-input';
+import { CurrentActor, type Actor } from '../identity/actor';
+import { ListMeasurements, MeasurementBody } from './measurements.dto';
+import { MeasurementsService } from './measurements.service';
+
+@ApiTags('measurements')
+@ApiSecurity('user')
+@Controller('api/repair-orders/:id/measurements')
+export class MeasurementsController {
+  constructor(private readonly service: MeasurementsService) {}
+
+  @Post()
+  @ApiOperation({
+    summary: 'Record a reading, or a batch of readings stored all-or-nothing',
+    description: 'A correction is a new reading with `supersedes` naming the one it replaces; nothing is edited or deleted.',
+  })
+  @ApiBody({ schema: openApiSchema(MeasurementBody) })
+  record(@CurrentActor() actor: Actor, @UuidParam('id') id: string, @Body() body: unknown) {
+    return this.service.record(actor, id, body);
+  }
+
+  @Get()
+  @ApiOperation({ summary: 'Readings of a repair order in the order taken; corrected ones only with includeSuperseded=true' })
+  list(@CurrentActor() actor: Actor, @UuidParam('id') id: string, @ZQuery(ListMeasurements) query: ListMeasurements) {
+    return this.service.list(actor, id, query);
+  }
+}

@@ -1,0 +1,97 @@
+import { z } from 'zod';
+import { checkReading } from '../../engine/units';
+import {
+  ConnectorEnum,
+  EngineEnum,
+  IsoTime,
+  JumperSchema,
+  KeyEnum,
+  LocationEnum,
+  optionalText,
+  PhaseEnum,
+  PointEnum,
+  QuantityEnum,
+} from '../../common/validation/domain-schemas';
+
+export const MeasurementInput = z
+  .strictObject({
+    circuitId: z.uuid(),
+    quantity: QuantityEnum,
+    at: PointEnum,
+    against: PointEnum.optional().describe('second lead; omit for scan_value'),
+    location: LocationEnum,
+    connector: ConnectorEnum,
+    key: KeyEnum,
+    engine: EngineEnum,
+    jumpers: z.array(JumperSchema).max(4, 'at most 4 jumpers').default([]),
+    pid: z
+      .string()
+      .trim()
+      .min(1)
+      .max(32)
+      .regex(/^[A-Za-z0-9 _.-]+$/, 'a PID such as "11" or a short parameter name')
+      .optional(),
+    value: z
+      .union([z.number(), z.literal('OL')])
+      .describe('the reading as shown on the meter, or "OL" when it showed over-range (e.g. ohms across an open)'),
+    unit: z.string().max(16),
+    meterOhms: z.number().positive('a meter input resistance above 0 Ω').max(1e12).default(10_000_000),
+    phase: PhaseEnum.default('diagnosis'),
+    note: optionalText(2000).default(''),
+    supersedes: z.uuid().optional().describe('id of the reading this one corrects'),
+    takenAt: IsoTime.optional(),
+  })
+  .superRefine((m, ctx) => {
+    if (m.quantity !== 'scan_value' && !m.against) {
+      ctx.addIssue({ code: 'custom', path: ['against'], message: `a ${m.quantity} reading needs the second lead: against one of reference, signal, ground, battery_negative, battery_positive, chassis_ground` });
+    }
+    if (m.quantity === 'scan_value' && m.against) {
+      ctx.addIssue({ code: 'custom', path: ['against'], message: 'a scan_value is read from the scan tool: leave against out' });
+    }
+    if (m.against && m.against === m.at) {
+      ctx.addIssue({ code: 'custom', path: ['against'], message: 'the two leads must be on different points' });
+    }
+    if (m.pid && m.quantity !== 'scan_value') {
+      ctx.addIssue({ code: 'custom', path: ['pid'], message: 'pid belongs to scan_value readings only' });
+    }
+    if (m.takenAt && Date.parse(m.takenAt) > Date.now() + 5 * 60_000) {
+      ctx.addIssue({ code: 'custom', path: ['takenAt'], message: 'a reading cannot be taken in the future' });
+    }
+  })
+  .transform((m, ctx) => {
+    if (m.value === 'OL') {
+      if (m.quantity === 'scan_value') {
+        ctx.addIssue({ code: 'custom', path: ['value'], message: 'a scan value is a number; "OL" is for meter readings' });
+        return z.NEVER;
+      }
+      // Check the unit all the same: an over-range ohms reading still has to be in ohms.
+      const unitOnly = checkReading(0, m.unit, m.quantity);
+      if (!unitOnly.ok) {
+        for (const f of unitOnly.findings) ctx.addIssue({ code: 'custom', path: [f.path], message: f.message });
+        return z.NEVER;
+      }
+      return { ...m, value: null, overload: true, unit: unitOnly.unit, valueSi: null, siUnit: unitOnly.siUnit };
+    }
+    const reading = checkReading(m.value, m.unit, m.quantity);
+    if (!reading.ok) {
+      for (const f of reading.findings) ctx.addIssue({ code: 'custom', path: [f.path], message: f.message });
+      return z.NEVER;
+    }
+    return { ...m, value: m.value as number | null, overload: false, unit: reading.unit, valueSi: reading.siValue as number | null, siUnit: reading.siUnit };
+  });
+export type MeasurementInput = z.output<typeof MeasurementInput>;
+
+export const MeasurementBatch = z.array(MeasurementInput).min(1, 'at least one reading').max(500, 'at most 500 readings in one batch');
+
+/** For the OpenAPI document: one reading, or a batch stored all-or-nothing. */
+export const MeasurementBody = z.union([MeasurementInput, MeasurementBatch]);
+
+export const ListMeasurements = z.strictObject({
+  circuitId: z.uuid().optional(),
+  phase: PhaseEnum.optional(),
+  includeSuperseded: z
+    .enum(['true', 'false'])
+    .transform((v) => v === 'true')
+    .default(false),
+});
+export type ListMeasurements = z.output<typeof ListMeasurements>;

@@ -1,0 +1,55 @@
+import { Inject, Injectable } from '@nestjs/common';
+import { DATABASE, type Db, type OpenDatabase } from '../../common/database/database.tokens';
+import type { Prisma } from '../../generated/prisma/client';
+
+export const measurementInclude = {
+  takenBy: { select: { id: true, name: true } },
+  supersededBy: { select: { id: true, takenAt: true, takenBy: { select: { id: true, name: true } } } },
+} satisfies Prisma.MeasurementInclude;
+
+export type MeasurementRow = Prisma.MeasurementGetPayload<{ include: typeof measurementInclude }>;
+
+@Injectable()
+export class MeasurementsRepository {
+  readonly prisma;
+
+  constructor(@Inject(DATABASE) database: OpenDatabase) {
+    this.prisma = database.prisma;
+  }
+
+  transaction<T>(work: (tx: Prisma.TransactionClient) => Promise<T>): Promise<T> {
+    return this.prisma.$transaction(work);
+  }
+
+  circuitIds(repairOrderId: string, db: Db): Promise<Array<{ id: string }>> {
+    return db.circuit.findMany({ where: { repairOrderId }, select: { id: true } });
+  }
+
+  /** The rows a batch wants to correct, with whether each is already corrected. */
+  correctionTargets(repairOrderId: string, ids: string[], db: Db) {
+    return db.measurement.findMany({
+      where: { repairOrderId, id: { in: ids } },
+      select: { id: true, circuitId: true, phase: true, supersededBy: { select: { id: true } } },
+    });
+  }
+
+  async insertMany(db: Db, rows: Prisma.MeasurementUncheckedCreateInput[]): Promise<MeasurementRow[]> {
+    const created: MeasurementRow[] = [];
+    // One by one inside the caller's transaction: the batch keeps its order and a failure undoes all of it.
+    for (const data of rows) created.push(await db.measurement.create({ data, include: measurementInclude }));
+    return created;
+  }
+
+  list(repairOrderId: string, filter: { circuitId?: string; phase?: 'diagnosis' | 'verification'; includeSuperseded: boolean }, db: Db = this.prisma) {
+    return db.measurement.findMany({
+      where: {
+        repairOrderId,
+        ...(filter.circuitId ? { circuitId: filter.circuitId } : {}),
+        ...(filter.phase ? { phase: filter.phase } : {}),
+        ...(filter.includeSuperseded ? {} : { supersededBy: { is: null } }),
+      },
+      include: measurementInclude,
+      orderBy: [{ takenAt: 'asc' }, { seq: 'asc' }],
+    });
+  }
+}

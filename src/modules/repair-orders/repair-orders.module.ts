@@ -1,0 +1,13 @@
+import { Module } from '@nestjs/common';
+import { IdentityModule } from '../identity/identity.module';
+import { RepairOrdersController } from './repair-orders.controller';
+import { RepairOrdersRepository } from './repair-orders.repository';
+import { RepairOrdersService } from './repair-orders.service';
+
+@Module({
+  imports: [IdentityModule],
+  controllers: [RepairOrdersController],
+  providers: [RepairOrdersRepository, RepairOrdersService],
+  exports: [RepairOrdersRepository],
+})
+export class RepairOrdersModule {}

@@ -1,0 +1,114 @@
+import { Inject, Injectable } from '@nestjs/common';
+import { DATABASE, type Db, type OpenDatabase } from '../../common/database/database.tokens';
+import type { Prisma, RepairOrderStatus } from '../../generated/prisma/client';
+import type { ListRepairOrders } from './repair-orders.dto';
+
+const summarySelect = {
+  id: true,
+  number: true,
+  status: true,
+  complaint: true,
+  codes: true,
+  version: true,
+  createdAt: true,
+  updatedAt: true,
+  vehicle: { select: { id: true, vin: true, year: true, make: true, model: true } },
+  technician: { select: { id: true, name: true } },
+} satisfies Prisma.RepairOrderSelect;
+
+const detailInclude = {
+  vehicle: true,
+  technician: { select: { id: true, name: true, role: true } },
+  createdBy: { select: { id: true, name: true } },
+  statusLog: { orderBy: [{ at: 'asc' }, { id: 'asc' }], include: { by: { select: { id: true, name: true } } } },
+  circuits: { orderBy: [{ createdAt: 'asc' }, { id: 'asc' }] },
+} satisfies Prisma.RepairOrderInclude;
+
+export type RepairOrderDetail = Prisma.RepairOrderGetPayload<{ include: typeof detailInclude }>;
+
+@Injectable()
+export class RepairOrdersRepository {
+  readonly prisma;
+
+  constructor(@Inject(DATABASE) database: OpenDatabase) {
+    this.prisma = database.prisma;
+  }
+
+  transaction<T>(work: (tx: Prisma.TransactionClient) => Promise<T>): Promise<T> {
+    return this.prisma.$transaction(work);
+  }
+
+  async list(shopId: string, q: ListRepairOrders) {
+    const where: Prisma.RepairOrderWhereInput = {
+      shopId,
+      ...(q.status?.length ? { status: { in: q.status } } : {}),
+      ...(q.technicianId ? { technicianId: q.technicianId } : {}),
+      ...(q.changedSince ? { updatedAt: { gte: new Date(q.changedSince) } } : {}),
+      ...(q.q
+        ? {
+            OR: [
+              { number: { contains: q.q, mode: 'insensitive' } },
+              { vehicle: { vin: { contains: q.q.toUpperCase() } } },
+              { complaint: { contains: q.q, mode: 'insensitive' } },
+            ],
+          }
+        : {}),
+    };
+    const [items, total] = await Promise.all([
+      this.prisma.repairOrder.findMany({
+        where,
+        select: summarySelect,
+        orderBy: [{ updatedAt: 'desc' }, { id: 'asc' }],
+        skip: (q.page - 1) * q.pageSize,
+        take: q.pageSize,
+      }),
+      this.prisma.repairOrder.count({ where }),
+    ]);
+    return { items, total };
+  }
+
+  find(shopId: string, id: string, db: Db = this.prisma): Promise<RepairOrderDetail | null> {
+    return db.repairOrder.findFirst({ where: { id, shopId }, include: detailInclude });
+  }
+
+  findHeader(shopId: string, id: string, db: Db = this.prisma) {
+    return db.repairOrder.findFirst({ where: { id, shopId }, select: { id: true, status: true, version: true, number: true } });
+  }
+
+  vehicleInShop(shopId: string, id: string, db: Db) {
+    return db.vehicle.findFirst({ where: { id, shopId }, select: { id: true, odometer: true } });
+  }
+
+  vehicleByVin(shopId: string, vin: string, db: Db) {
+    return db.vehicle.findUnique({ where: { shopId_vin: { shopId, vin } }, select: { id: true } });
+  }
+
+  createVehicle(db: Db, data: Prisma.VehicleUncheckedCreateInput) {
+    return db.vehicle.create({ data, select: { id: true } });
+  }
+
+  countInShop(shopId: string, db: Db) {
+    return db.repairOrder.count({ where: { shopId } });
+  }
+
+  async numberTaken(shopId: string, number: string, db: Db): Promise<boolean> {
+    return (await db.repairOrder.findUnique({ where: { shopId_number: { shopId, number } }, select: { id: true } })) !== null;
+  }
+
+  create(db: Db, data: Prisma.RepairOrderUncheckedCreateInput) {
+    return db.repairOrder.create({ data, select: { id: true } });
+  }
+
+  /** Optimistic update: only the row still at `version` changes; returns how many rows did. */
+  async updateAtVersion(db: Db, id: string, version: number, data: Prisma.RepairOrderUncheckedUpdateManyInput) {
+    const { count } = await db.repairOrder.updateMany({
+      where: { id, version },
+      data: { ...data, version: { increment: 1 }, updatedAt: new Date() },
+    });
+    return count;
+  }
+
+  logStatus(db: Db, repairOrderId: string, from: RepairOrderStatus | null, to: RepairOrderStatus, byId: string, reason = '') {
+    return db.statusChange.create({ data: { repairOrderId, fromStatus: from, toStatus: to, byId, reason } });
+  }
+}

@@ -1,0 +1,150 @@
+import { Injectable } from '@nestjs/common';
+import { ConflictException, InvalidInputException, NotFoundException } from '../../common/errors/domain.exception';
+import { isUniqueViolation } from '../../common/database/prisma-errors';
+import { checkMove } from '../../engine/status';
+import type { Prisma } from '../../generated/prisma/client';
+import type { Actor } from '../identity/actor';
+import { UsersRepository } from '../identity/users.repository';
+import type { ChangeStatus, CreateRepairOrder, ListRepairOrders, UpdateRepairOrder } from './repair-orders.dto';
+import { RepairOrdersRepository } from './repair-orders.repository';
+import { toDetailView } from './repair-orders.view';
+
+@Injectable()
+export class RepairOrdersService {
+  constructor(
+    private readonly orders: RepairOrdersRepository,
+    private readonly users: UsersRepository,
+  ) {}
+
+  async list(actor: Actor, query: ListRepairOrders) {
+    const { items, total } = await this.orders.list(actor.shopId, query);
+    return { items, page: query.page, pageSize: query.pageSize, total };
+  }
+
+  async get(actor: Actor, id: string) {
+    const order = await this.orders.find(actor.shopId, id);
+    if (!order) throw new NotFoundException('repair_order', id);
+    return toDetailView(order);
+  }
+
+  async create(actor: Actor, input: CreateRepairOrder) {
+    try {
+      const id = await this.orders.transaction(async (tx) => {
+        await this.requireTechnician(actor, input.technicianId, 'body.technicianId', tx);
+        const vehicleId = await this.resolveVehicle(actor, input, tx);
+        const number = input.number ?? (await this.nextNumber(actor.shopId, tx));
+        const created = await this.orders.create(tx, {
+          shopId: actor.shopId,
+          number,
+          vehicleId,
+          technicianId: input.technicianId ?? null,
+          complaint: input.complaint,
+          codes: input.codes,
+          odometerIn: input.vehicle?.odometer ?? null,
+          createdById: actor.userId,
+        });
+        await this.orders.logStatus(tx, created.id, null, 'open', actor.userId);
+        return created.id;
+      });
+      return this.get(actor, id);
+    } catch (error) {
+      if (isUniqueViolation(error, 'number')) {
+        throw new ConflictException('repair_order.number_taken', `Repair order number ${input.number} is already used in this shop.`, {}, [
+          { code: 'repair_order.number_taken', path: 'body.number', message: 'already used in this shop' },
+        ]);
+      }
+      throw error;
+    }
+  }
+
+  async update(actor: Actor, id: string, input: UpdateRepairOrder) {
+    await this.orders.transaction(async (tx) => {
+      const current = await this.orders.find(actor.shopId, id, tx);
+      if (!current) throw new NotFoundException('repair_order', id);
+      if (current.status === 'closed') {
+        throw new ConflictException('repair_order.closed', 'A closed repair order cannot be changed; reopen it with a reason first.');
+      }
+      if (input.technicianId) await this.requireTechnician(actor, input.technicianId, 'body.technicianId', tx);
+      const { version, ...changes } = input;
+      this.requireVersion(current, version);
+      await this.orders.updateAtVersion(tx, id, version, changes);
+    });
+    return this.get(actor, id);
+  }
+
+  async changeStatus(actor: Actor, id: string, input: ChangeStatus) {
+    await this.orders.transaction(async (tx) => {
+      const current = await this.orders.find(actor.shopId, id, tx);
+      if (!current) throw new NotFoundException('repair_order', id);
+      if (input.version !== undefined) this.requireVersion(current, input.version);
+      const move = checkMove(current.status, input.to, input.reason);
+      if (!move.ok) {
+        const f = move.finding;
+        if (f.code === 'status.reason_required') {
+          throw new InvalidInputException([{ code: f.code, path: 'body.reason', message: f.message }]);
+        }
+        throw new ConflictException(f.code, f.message, { from: current.status, to: input.to, allowed: f.allowed });
+      }
+      const changed = await this.orders.updateAtVersion(tx, id, current.version, { status: input.to });
+      if (changed !== 1) this.raceLost(id);
+      await this.orders.logStatus(tx, id, current.status, input.to, actor.userId, input.reason ?? '');
+    });
+    return this.get(actor, id);
+  }
+
+  private requireVersion(current: { version: number; updatedAt: Date }, version: number): void {
+    if (current.version !== version) {
+      throw new ConflictException(
+        'repair_order.stale_version',
+        `This repair order changed since you read it (you sent version ${version}, it is now at ${current.version}); reload and apply your change again.`,
+        { currentVersion: current.version, changedAt: current.updatedAt.toISOString() },
+      );
+    }
+  }
+
+  private raceLost(id: string): never {
+    throw new ConflictException('repair_order.stale_version', `Repair order ${id} was changed by someone else at the same moment; reload and try again.`);
+  }
+
+  private async requireTechnician(actor: Actor, userId: string | undefined, path: string, tx: Prisma.TransactionClient) {
+    if (!userId) return;
+    const user = await this.users.findInShop(actor.shopId, userId, tx);
+    if (!user || !user.active) {
+      throw new InvalidInputException([{ code: 'user.not_in_shop', path, message: 'names no active user of this shop' }]);
+    }
+  }
+
+  private async resolveVehicle(actor: Actor, input: CreateRepairOrder, tx: Prisma.TransactionClient): Promise<string> {
+    if (input.vehicleId) {
+      const vehicle = await this.orders.vehicleInShop(actor.shopId, input.vehicleId, tx);
+      if (!vehicle) throw new InvalidInputException([{ code: 'vehicle.not_found', path: 'body.vehicleId', message: 'names no vehicle of this shop' }]);
+      return vehicle.id;
+    }
+    const v = input.vehicle!;
+    const existing = await this.orders.vehicleByVin(actor.shopId, v.vin, tx);
+    if (existing) return existing.id;
+    const created = await this.orders.createVehicle(tx, {
+      shopId: actor.shopId,
+      vin: v.vin,
+      outsideNorthAmerica: v.builtOutsideNorthAmerica,
+      year: v.year,
+      make: v.make,
+      model: v.model,
+      engine: v.engine,
+      odometer: v.odometer,
+      odometerUnit: v.odometerUnit,
+      createdById: actor.userId,
+    });
+    return created.id;
+  }
+
+  /** Next free "RO-nnnnn" number in the shop; a clash with a hand-typed number is skipped. */
+  private async nextNumber(shopId: string, tx: Prisma.TransactionClient): Promise<string> {
+    let n = (await this.orders.countInShop(shopId, tx)) + 1;
+    for (;;) {
+      const candidate = `RO-${String(n).padStart(5, '0')}`;
+      if (!(await this.orders.numberTaken(shopId, candidate, tx))) return candidate;
+      n += 1;
+    }
+  }
+}

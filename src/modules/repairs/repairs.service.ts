@@ -1,0 +1,70 @@
+import { Injectable } from '@nestjs/common';
+import { ConflictException, InvalidInputException, NotFoundException } from '../../common/errors/domain.exception';
+import type { Actor } from '../identity/actor';
+import { CircuitsRepository } from '../circuits/circuits.repository';
+import { RepairOrdersRepository } from '../repair-orders/repair-orders.repository';
+import type { RecordRepair } from './repairs.dto';
+import { RepairsRepository, type RepairRow } from './repairs.repository';
+
+export function repairView(r: RepairRow) {
+  return {
+    id: r.id,
+    circuitId: r.circuitId,
+    part: r.part,
+    action: r.action,
+    location: r.location,
+    parts: r.parts as Array<{ name: string; number?: string; quantity: number }>,
+    note: r.note,
+    by: r.by,
+    at: r.at.toISOString(),
+  };
+}
+
+@Injectable()
+export class RepairsService {
+  constructor(
+    private readonly repairs: RepairsRepository,
+    private readonly orders: RepairOrdersRepository,
+    private readonly circuits: CircuitsRepository,
+  ) {}
+
+  /** Records a repair; the first one on a diagnosing repair order marks it repaired (ready for verification). */
+  async record(actor: Actor, repairOrderId: string, input: RecordRepair) {
+    const row = await this.repairs.transaction(async (tx) => {
+      const order = await this.orders.findHeader(actor.shopId, repairOrderId, tx);
+      if (!order) throw new NotFoundException('repair_order', repairOrderId);
+      if (order.status !== 'diagnosing' && order.status !== 'repaired') {
+        throw new ConflictException(
+          'repair.wrong_status',
+          `Repair order ${order.number} is ${order.status}: repairs are recorded while diagnosing or repaired.`,
+          { status: order.status },
+        );
+      }
+      if (input.circuitId && !(await this.circuits.findInOrder(repairOrderId, input.circuitId, tx))) {
+        throw new InvalidInputException([{ code: 'circuit.not_found', path: 'body.circuitId', message: 'names no circuit of this repair order' }]);
+      }
+      const created = await this.repairs.create(tx, {
+        repairOrderId,
+        circuitId: input.circuitId ?? null,
+        part: input.part,
+        action: input.action,
+        location: input.location,
+        parts: input.parts,
+        note: input.note,
+        byId: actor.userId,
+      });
+      if (order.status === 'diagnosing') {
+        await this.orders.updateAtVersion(tx, repairOrderId, order.version, { status: 'repaired' });
+        await this.orders.logStatus(tx, repairOrderId, 'diagnosing', 'repaired', actor.userId, 'repair recorded');
+      }
+      return created;
+    });
+    return repairView(row);
+  }
+
+  async list(actor: Actor, repairOrderId: string) {
+    const order = await this.orders.findHeader(actor.shopId, repairOrderId);
+    if (!order) throw new NotFoundException('repair_order', repairOrderId);
+    return { items: (await this.repairs.listForOrder(repairOrderId)).map(repairView) };
+  }
+}

@@ -1,0 +1,13 @@
+import { Module } from '@nestjs/common';
+import { RepairOrdersModule } from '../repair-orders/repair-orders.module';
+import { ReviewsController } from './reviews.controller';
+import { ReviewsRepository } from './reviews.repository';
+import { ReviewsService } from './reviews.service';
+
+@Module({
+  imports: [RepairOrdersModule],
+  controllers: [ReviewsController],
+  providers: [ReviewsRepository, ReviewsService],
+  exports: [ReviewsRepository],
+})
+export class ReviewsModule {}

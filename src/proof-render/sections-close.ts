@@ -1,0 +1,191 @@
+/** Verification, sign-off, safety cautions and the evidence digest. */
+import QRCode from 'qrcode';
+import { circuitName, heading, notice, type RenderContext } from './blocks';
+import { chartStartHeight, drawCircuitChart } from './chart';
+import { qrPayload } from './digest';
+import { conditionLines, formatRange, formatTime, formatTimeOr, personLine, sameConditions } from './format';
+import type { Block } from './layout';
+import { correctionSpan, supersededCell, testCell } from './sections-work';
+import { approvalStatus } from './sections-head';
+import { drawTable, tableStartHeight, type TableSpec } from './table';
+import { COLOR, SIZE } from './theme';
+import type { CautionCode, VerificationCheck } from './view';
+import { CAUTION_CODES } from './view';
+
+const T = SIZE.table;
+
+export function drawVerification(ctx: RenderContext): void {
+  const { flow, view } = ctx;
+  if (view.verification.length === 0) {
+    heading(ctx, 'Verification after the repair', 60);
+    notice(flow, [
+      { text: 'NOT VERIFIED', font: 'bold', size: SIZE.heading, color: COLOR.fail },
+      { text: 'No readings were taken after the repair, so this document does not prove that the repair worked.', size: SIZE.body, gap: 3 },
+    ], { strong: true, color: COLOR.fail });
+    return;
+  }
+  const spec: TableSpec = {
+    caption: 'Verification after the repair',
+    columns: [
+      { title: 'Check', width: 40 },
+      { title: 'Test repeated and conditions', width: 'flex' },
+      { title: 'Expected', width: 72 },
+      { title: 'Before', width: 62 },
+      { title: 'After', width: 66 },
+      { title: 'Result', width: 48 },
+    ],
+    rows: view.verification.map((c) => {
+      const repeated = ctx.steps.get(c.repeatsStepId)!;
+      const conditions = sameConditions(c.request, repeated.request)
+        ? [`Same conditions as diagnostic step ${repeated.seq}`]
+        : [`Repeats diagnostic step ${repeated.seq}, now:`, ...conditionLines(c.request)];
+      return {
+        cells: [
+          [{ text: String(c.seq), font: 'bold', size: T }],
+          testCell(c.title, circuitName(ctx, c.circuitId), conditions, c.takenAt, c.takenBy),
+          [{ text: formatRange(c.expected), size: T }],
+          [{ text: c.before.entered, size: T + 1 }],
+          [{ text: c.after.entered, font: 'bold', size: T + 1 }, ...supersededCell(c.superseded)],
+          [{ text: c.pass ? 'PASS' : 'FAIL', font: 'bold', size: T, badge: c.pass ? COLOR.pass : COLOR.fail }],
+        ],
+        span: [...correctionSpan(c.superseded), ...(c.note ? [{ text: `Note: ${c.note}`, size: SIZE.small, gap: 1 }] : [])],
+      };
+    }),
+  };
+  heading(ctx, 'Verification after the repair', tableStartHeight(flow, spec));
+  drawTable(flow, spec);
+
+  const panels = view.circuits
+    .map((circuit) => ({ circuit, checks: view.verification.filter((c: VerificationCheck) => c.circuitId === circuit.id) }))
+    .filter((p) => p.checks.length > 0);
+  flow.y += 12;
+  flow.ensure(flow.lineHeight(SIZE.body + 1) + 4 + chartStartHeight(flow, panels[0]!.checks));
+  flow.paragraph({ text: 'Before and after, by circuit', font: 'bold', size: SIZE.body + 1 });
+  flow.y += 4;
+  for (const { circuit, checks } of panels) {
+    drawCircuitChart(flow, circuit, checks);
+    flow.y += 10;
+  }
+}
+
+export function drawSignOff(ctx: RenderContext): void {
+  const { flow, view } = ctx;
+  heading(ctx, 'Sign-off', 110);
+  const s = view.signOff;
+  const colW = (flow.width - 16) / 2;
+  const cell = (role: string, who: string, at: string | null): Block[] => [
+    { text: role.toUpperCase(), font: 'bold', size: SIZE.small - 1, color: COLOR.muted },
+    { text: who, font: 'bold', size: SIZE.body + 0.5, gap: 1 },
+    at === null
+      ? { text: 'Not signed', font: 'bold', size: SIZE.body, color: COLOR.fail, gap: 2 }
+      : { text: `Signed ${formatTime(at)}`, size: SIZE.body, gap: 2 },
+  ];
+  const cols = [cell('Technician', personLine(view.technician), s.technicianSignedAt), cell('Foreman', personLine(view.foreman), s.foremanSignedAt)];
+  const laid = cols.map((blocks) => blocks.map((b) => flow.lay(b, colW)));
+  const h = Math.max(...laid.map((l) => l.reduce((a, b) => a + b.height, 0))) + 6;
+  flow.ensure(h);
+  laid.forEach((blocks, i) => {
+    let y = flow.y;
+    for (const b of blocks) y += flow.drawBlock(b, flow.left + i * (colW + 16), y, colW);
+  });
+  flow.y += h + 4;
+
+  const status = approvalStatus(view);
+  const latest = s.decisions[s.decisions.length - 1];
+  const blocks: Block[] = [{ text: status.text, font: 'bold', size: SIZE.body + 2, color: status.good ? COLOR.pass : COLOR.fail }];
+  if (latest?.comment) blocks.push({ text: `Foreman's comment: ${latest.comment}`, size: SIZE.body, gap: 3 });
+  notice(flow, blocks, { strong: true, color: status.good ? COLOR.pass : COLOR.fail });
+  if (s.decisions.length > 1) {
+    flow.y += 4;
+    flow.paragraph({ text: 'Earlier decisions', font: 'bold', size: SIZE.small });
+    s.decisions.slice(0, -1).forEach((d) => {
+      flow.paragraph({
+        text: `${formatTimeOr(d.at, '')}: ${d.decision === 'approved' ? 'approved' : 'returned for rework'} by ${d.by}${d.comment ? `: ${d.comment}` : ''}`,
+        size: SIZE.small,
+      });
+    });
+  }
+}
+
+/** Caution wording, one entry per code (printed in `CAUTION_CODES` order whatever the view's order). */
+export const CAUTION_TEXT: Record<CautionCode, { lead: string; text: string }> = {
+  engine_in_bay: {
+    lead: 'Engine cranked or running in the bay.',
+    text: 'Extract or ventilate the exhaust, set the parking brake and block the wheels, and keep hands, sleeves and test leads clear of belts, pulleys and the cooling fan, which can start on its own.',
+  },
+  fused_jumpers_only: {
+    lead: 'Fused jumpers only.',
+    text: 'Never put battery voltage on a 5 V reference or signal circuit: it can destroy the control module.',
+  },
+  no_ohmmeter_on_airbag: {
+    lead: 'Airbag circuits.',
+    text: 'Never connect an ohmmeter or test light to an airbag or seat-belt pretensioner circuit; the meter current can fire it. Disable the system as the service information describes.',
+  },
+  high_voltage_system: {
+    lead: 'High-voltage hybrid or electric system.',
+    text: 'Work on or near high-voltage parts (orange cables) only if you are qualified and equipped for it, with the system made safe first.',
+  },
+  backprobe_gently: {
+    lead: 'Back-probing.',
+    text: 'Use back-probe pins along the wire seal; never force or spread the terminals, which causes the next intermittent fault.',
+  },
+};
+
+export function drawCautions(ctx: RenderContext): void {
+  const { flow, view } = ctx;
+  heading(ctx, 'Safety cautions for this work', 60);
+  const applying = CAUTION_CODES.filter((c) => view.cautions.includes(c));
+  if (applying.length === 0) flow.paragraph({ text: 'No particular cautions recorded for this work.', size: SIZE.body });
+  for (const code of applying) {
+    const { lead, text } = CAUTION_TEXT[code];
+    const laid = [flow.lay({ text: lead, font: 'bold', size: SIZE.body }, flow.width - 18), flow.lay({ text, size: SIZE.body }, flow.width - 18)];
+    const h = laid[0]!.height + laid[1]!.height + 5;
+    flow.ensure(h);
+    flow.doc.save().rect(flow.left, flow.y + 2, 5, h - 6).fill(COLOR.ink).restore();
+    let y = flow.y;
+    for (const b of laid) y += flow.drawBlock(b, flow.left + 14, y, flow.width - 18);
+    flow.y += h;
+  }
+  flow.y += 4;
+  flow.paragraph({
+    text: "The vehicle manufacturer's service information and local regulations take precedence over this document and over these cautions.",
+    font: 'bold',
+    size: SIZE.body,
+  });
+}
+
+export function drawDigest(ctx: RenderContext): void {
+  const { flow, digest } = ctx;
+  const qr = QRCode.create(qrPayload(digest), { errorCorrectionLevel: 'M' });
+  const n = qr.modules.size;
+  const quiet = 4; // ISO/IEC 18004 quiet zone, in modules
+  const module = 2.3;
+  const side = (n + 2 * quiet) * module;
+  heading(ctx, 'Evidence digest', side + 4);
+  const textW = flow.width - side - 16;
+  const top = flow.y;
+  const blocks: Block[] = [
+    { text: 'SHA-256 of the RFC 8785 canonical JSON of everything this document states:', size: SIZE.body },
+    { text: digest, font: 'mono', size: SIZE.body - 0.5, gap: 4 },
+    {
+      text: 'To check this proof, hash the same proof data again (for example through the verification service) and compare all 64 characters. The QR code carries the same digest.',
+      size: SIZE.small, color: COLOR.muted, gap: 6,
+    },
+  ];
+  let y = top;
+  for (const b of blocks) y += flow.drawBlock(flow.lay(b, textW), flow.left, y, textW);
+
+  // QR modules as vector squares, one path, one fill; white quiet zone around it.
+  const x0 = flow.right - side;
+  const doc = flow.doc;
+  doc.save().rect(x0, top, side, side).fill(COLOR.white).restore();
+  doc.save();
+  for (let row = 0; row < n; row++) {
+    for (let col = 0; col < n; col++) {
+      if (qr.modules.get(row, col)) doc.rect(x0 + (quiet + col) * module, top + (quiet + row) * module, module, module);
+    }
+  }
+  doc.fill(COLOR.ink).restore();
+  ctx.qr = { page: flow.pageCount, x: x0 + quiet * module, y: top + quiet * module, module, size: n };
+  flow.y = Math.max(y, top + side);
+}

@@ -1,0 +1,151 @@
+/** First sections of the proof: the document head, the vehicle, the three Cs and the trouble codes. */
+import { grid, heading, type RenderContext } from './blocks';
+import { formatTimeOr, personLine } from './format';
+import { drawStack, stackHeight, type Block } from './layout';
+import { drawTable } from './table';
+import { COLOR, SIZE } from './theme';
+import type { ProofView, TroubleCode, VinCheck } from './view';
+
+export interface Status {
+  text: string;
+  good: boolean;
+}
+
+export function verificationStatus(view: ProofView): Status {
+  const checks = view.verification;
+  if (checks.length === 0) return { text: 'NOT VERIFIED: no readings were taken after the repair', good: false };
+  const failed = checks.filter((c) => !c.pass).length;
+  if (failed > 0) return { text: `VERIFICATION FAILED: ${failed} of ${checks.length} checks outside the expected range`, good: false };
+  return { text: `Verified: all ${checks.length} checks within the expected range`, good: true };
+}
+
+export function approvalStatus(view: ProofView): Status {
+  const latest = view.signOff.decisions[view.signOff.decisions.length - 1];
+  if (latest?.decision === 'approved') return { text: `Approved by ${latest.by}, ${formatTimeOr(latest.at, '')}`, good: true };
+  if (latest?.decision === 'returned') return { text: `NOT YET APPROVED: returned for rework by ${latest.by}, ${formatTimeOr(latest.at, '')}`, good: false };
+  return { text: 'NOT YET APPROVED: no foreman decision recorded', good: false };
+}
+
+export function drawHead(ctx: RenderContext): void {
+  const { flow, view } = ctx;
+  const top = flow.y;
+  const leftWidth = flow.width * 0.52;
+  const rightWidth = flow.width - leftWidth - 10;
+  const left = [
+    flow.lay({ text: 'PROOF OF REPAIR', font: 'bold', size: SIZE.title }, leftWidth),
+    flow.lay({ text: 'Sensor-circuit diagnosis, repair and after-repair readings', size: SIZE.small, color: COLOR.muted, gap: 2 }, leftWidth),
+  ];
+  const shop: Block[] = [
+    { text: view.shop.name, font: 'bold', size: SIZE.body + 1.5 },
+    ...view.shop.addressLines.map((l) => ({ text: l, size: SIZE.small + 0.5 })),
+    ...(view.shop.phone ? [{ text: `Tel. ${view.shop.phone}`, size: SIZE.small + 0.5 }] : []),
+  ];
+  const right = shop.map((b) => flow.lay(b, rightWidth));
+  drawStack(flow, left, flow.left, top, leftWidth);
+  // Right-aligned shop block: each line placed at the right margin.
+  let y = top;
+  for (const b of right) {
+    for (const line of b.lines) {
+      const w = flow.width_(line, b.font ?? 'sans', b.size);
+      flow.drawBlock({ ...b, lines: [line], gap: 0, height: 0 }, flow.right - w, y, rightWidth);
+      y += flow.lineHeight(b.size);
+    }
+  }
+  flow.y = Math.max(top + stackHeight(left), y) + 6;
+  flow.rule(flow.y, 1.6, COLOR.ink);
+  flow.y += 8;
+
+  const ro = view.repairOrder;
+  grid(flow, [
+    { label: 'Repair order', value: [{ text: ro.number, font: 'bold', size: SIZE.heading }] },
+    { label: 'Opened', value: [{ text: formatTimeOr(ro.openedAt, '') }] },
+    { label: 'Repaired', value: [{ text: formatTimeOr(ro.repairedAt, 'not repaired yet') }] },
+    { label: 'Verified', value: [{ text: formatTimeOr(ro.verifiedAt, 'not verified') }] },
+    { label: 'Technician', value: [{ text: personLine(view.technician) }] },
+    { label: 'Foreman', value: [{ text: personLine(view.foreman) }] },
+  ], [1, 1, 1]);
+
+  // Status box: verification and approval, in words, visible without reading further.
+  const statuses = [verificationStatus(view), approvalStatus(view)];
+  const pad = 7;
+  const laid = statuses.map((s) => flow.lay({ text: s.text, font: 'bold', size: SIZE.body, color: s.good ? COLOR.pass : COLOR.fail }, flow.width - 2 * pad));
+  const h = stackHeight(laid) + 2 * pad + 3;
+  flow.y += 2;
+  flow.ensure(h);
+  flow.doc.save().lineWidth(1.4).strokeColor(COLOR.ink).rect(flow.left, flow.y, flow.width, h).stroke().restore();
+  let sy = flow.y + pad;
+  laid.forEach((b) => {
+    sy += flow.drawBlock(b, flow.left + pad, sy, flow.width - 2 * pad) + 3;
+  });
+  flow.y += h;
+}
+
+const VIN_WORDS: Record<VinCheck, { text: string; good: boolean }> = {
+  valid: { text: 'Check digit valid (49 CFR 565)', good: true },
+  invalid: { text: 'CHECK DIGIT DOES NOT MATCH: confirm the VIN on the vehicle', good: false },
+  not_checked_outside_na: { text: 'Check digit not checked: vehicle built outside North America', good: true },
+};
+
+export function drawVehicle(ctx: RenderContext): void {
+  const { flow, view } = ctx;
+  const v = view.vehicle;
+  heading(ctx, 'Vehicle', 60);
+  const vinWords = VIN_WORDS[v.vinCheck];
+  grid(flow, [
+    {
+      label: 'VIN',
+      value: [
+        { text: v.vin, font: 'mono', size: SIZE.body + 2 },
+        { text: vinWords.text, size: SIZE.small, color: vinWords.good ? COLOR.muted : COLOR.fail, font: vinWords.good ? 'sans' : 'bold' },
+      ],
+    },
+    { label: 'Year, make, model', value: [{ text: `${v.year} ${v.make} ${v.model}` }] },
+    { label: 'Engine', value: [{ text: v.engine }] },
+    { label: 'Odometer', value: [{ text: `${groupThousands(v.odometer.value)} ${v.odometer.unit}` }] },
+  ], [1.55, 1.1, 1.1, 0.6]);
+}
+
+export function drawConcern(ctx: RenderContext): void {
+  const { flow, view } = ctx;
+  heading(ctx, 'Complaint, cause and correction', 50);
+  const parts: Array<[string, string]> = [
+    ['Complaint', view.concern.complaint],
+    ['Cause', view.concern.cause],
+    ['Correction', view.concern.correction],
+  ];
+  parts.forEach(([label, text], i) => {
+    flow.ensure(flow.lineHeight(SIZE.small) + flow.lineHeight(SIZE.body) * 2 + (i ? 6 : 0));
+    flow.paragraph({ text: label.toUpperCase(), font: 'bold', size: SIZE.small - 1, color: COLOR.muted, gap: i ? 6 : 0 });
+    flow.paragraph({ text, size: SIZE.body });
+  });
+
+  flow.y += 8;
+  const rows = (stage: string, codes: TroubleCode[]) =>
+    codes.length
+      ? codes.map((c, i) => ({
+          cells: [
+            [{ text: i === 0 ? stage : '', font: 'bold' as const, size: SIZE.table }],
+            [{ text: c.code, font: 'mono' as const, size: SIZE.table + 0.5 }],
+            [{ text: c.description, size: SIZE.table }],
+            [{ text: c.status, size: SIZE.table }],
+          ],
+        }))
+      : [{ cells: [[{ text: stage, font: 'bold' as const, size: SIZE.table }], [{ text: '—', size: SIZE.table }], [{ text: 'No codes stored', size: SIZE.table }], [{ text: '', size: SIZE.table }]] }];
+  drawTable(flow, {
+    caption: 'Trouble codes',
+    columns: [
+      { title: 'When read', width: 96 },
+      { title: 'Code', width: 58 },
+      { title: 'Description', width: 'flex' },
+      { title: 'Status', width: 66 },
+    ],
+    rows: [...rows('Before repair', view.troubleCodes.found), ...rows('After repair', view.troubleCodes.afterRepair)],
+  });
+}
+
+/** "84215" → "84,215" without locale data (the integer part only). */
+export function groupThousands(value: number): string {
+  const [int, frac] = String(value).split('.');
+  const grouped = int!.replace(/\B(?=(\d{3})+(?!\d))/g, ',');
+  return frac ? `${grouped}.${frac}` : grouped;
+}

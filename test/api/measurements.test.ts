@@ -1,0 +1,133 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { BACKENDS } from '../support/db';
+import { FOREMAN_A, newVehicle, TECH_A, TECH_B } from '../support/fixtures';
+import { startApi, type TestApi } from '../support/http';
+
+const koeoBackprobe = { location: 'sensor_connector', connector: 'backprobed', key: 'on', engine: 'off' } as const;
+
+describe.each(BACKENDS)('circuits and measurements over HTTP on the %s database', (backend) => {
+  let api: TestApi;
+  let roId: string;
+  let circuitId: string;
+
+  beforeAll(async () => {
+    api = await startApi(backend);
+    const ro = await api.call('POST', '/api/repair-orders', { user: FOREMAN_A, body: { vehicle: newVehicle(), complaint: 'P0122 set', codes: ['P0122'], technicianId: TECH_A } });
+    roId = ro.body.id;
+    const circuit = await api.call('POST', `/api/repair-orders/${roId}/circuits`, {
+      user: TECH_A,
+      body: { kind: 'three_wire_5v', sensor: 'TP', label: 'TP sensor 1', cavities: { A: 'reference', B: 'signal', C: 'ground' } },
+    });
+    expect(circuit.status).toBe(201);
+    circuitId = circuit.body.id;
+  });
+  afterAll(async () => api?.close());
+
+  const reading = (overrides: Record<string, unknown> = {}) => ({
+    circuitId,
+    quantity: 'dc_volts',
+    at: 'signal',
+    against: 'battery_negative',
+    ...koeoBackprobe,
+    value: 4.87,
+    unit: 'V',
+    ...overrides,
+  });
+  const post = (body: unknown, user = TECH_A) => api.call('POST', `/api/repair-orders/${roId}/measurements`, { user, body });
+
+  it('names the SAE J1930 sensor term of a new circuit', async () => {
+    const list = await api.call('GET', `/api/repair-orders/${roId}/circuits`, { user: TECH_A });
+    expect(list.body.items[0]).toMatchObject({ sensor: 'TP', sensorTerm: { term: 'TP', name: 'throttle position' } });
+  });
+
+  it.each([
+    ['two cavities both marked signal', 'body.cavities.B', { kind: 'three_wire_5v', sensor: 'MAP', label: 'x', cavities: { A: 'signal', B: 'signal' } }],
+    ['an unknown role', 'body.cavities.A', { kind: 'three_wire_5v', sensor: 'MAP', label: 'x', cavities: { A: 'power' } }],
+    ['a reference on a two-wire thermistor', 'body.cavities.A', { kind: 'two_wire_thermistor', sensor: 'ECT', label: 'x', cavities: { A: 'reference' } }],
+    ['an unknown circuit kind', 'body.kind', { kind: 'four_wire', sensor: 'MAP', label: 'x' }],
+  ])('refuses a circuit with %s at %s', async (_name, path, body) => {
+    const res = await api.call('POST', `/api/repair-orders/${roId}/circuits`, { user: TECH_A, body });
+    expect(res.status).toBe(400);
+    expect(res.body.error.findings.map((f: { path: string }) => f.path)).toContain(path);
+  });
+
+  it('records a reading with its value in SI, who took it, and starts the diagnosis', async () => {
+    const res = await post(reading({ value: 4870, unit: 'mV', note: 'module side' }));
+    expect(res.status).toBe(201);
+    expect(res.body).toMatchObject({
+      request: { quantity: 'dc_volts', at: 'signal', against: 'battery_negative', connector: 'backprobed', jumpers: [] },
+      value: { entered: 4870, unit: 'mV', si: 4.87, siUnit: 'V' },
+      meterOhms: 10_000_000,
+      phase: 'diagnosis',
+      takenBy: { id: TECH_A },
+      supersededBy: null,
+    });
+    const ro = await api.call('GET', `/api/repair-orders/${roId}`, { user: TECH_A });
+    expect(ro.body.status).toBe('diagnosing');
+  });
+
+  it('converts ohms, kilohms and pressure units to SI (NIST SP 811: 1 inHg = 3386.389 Pa)', async () => {
+    const res = await post([
+      reading({ quantity: 'ohms', key: 'off', connector: 'unplugged', value: 253, unit: 'kohm' }),
+      reading({ quantity: 'scan_value', against: undefined, pid: '0B', value: 10, unit: 'inHg' }),
+    ]);
+    expect(res.status).toBe(201);
+    expect(res.body.items.map((m: { value: { si: number } }) => m.value.si)).toEqual([253_000, 33_863.89]);
+  });
+
+  it('stores a batch all-or-nothing: one bad reading and none are kept, with the bad one’s path', async () => {
+    const before = (await api.call('GET', `/api/repair-orders/${roId}/measurements`, { user: TECH_A })).body.items.length;
+    const res = await post([reading({ value: 5.0 }), reading({ quantity: 'ohms', value: 4.8, unit: 'V' })]);
+    expect(res.status).toBe(400);
+    expect(res.body.error.findings[0]).toMatchObject({ path: 'body.1.unit', message: expect.stringContaining('Ω') });
+    const after = (await api.call('GET', `/api/repair-orders/${roId}/measurements`, { user: TECH_A })).body.items.length;
+    expect(after).toBe(before);
+  });
+
+  it.each([
+    ['volts without the second lead', 'body.against', { against: undefined }],
+    ['both leads on one point', 'body.against', { against: 'signal' }],
+    ['a negative resistance', 'body.value', { quantity: 'ohms', value: -5, unit: 'ohm' }],
+    ['a meter of 0 Ω', 'body.meterOhms', { meterOhms: 0 }],
+    ['a value given as text', 'body.value', { value: '4.87 V' }],
+    ['a jumper through an unknown device', 'body.jumpers.0.via.kind', { jumpers: [{ from: 'reference', to: 'signal', via: { kind: 'paperclip' } }] }],
+    ['an unknown circuit', 'body.circuitId', { circuitId: '00000000-0000-4000-8000-000000000000' }],
+    ['an unknown field', 'body', { colour: 'red' }],
+  ])('refuses %s with a 400 at %s', async (_name, path, overrides) => {
+    const res = await post(reading(overrides));
+    expect(res.status).toBe(400);
+    expect(res.body.error.findings.map((f: { path: string }) => f.path)).toContain(path);
+  });
+
+  it('keeps a corrected reading, hides it from the default list and shows it with includeSuperseded', async () => {
+    const wrong = (await post(reading({ at: 'reference', value: 4.1 }))).body;
+    const fixed = await post(reading({ at: 'reference', value: 5.01, supersedes: wrong.id }));
+    expect(fixed.status).toBe(201);
+    const visible = (await api.call('GET', `/api/repair-orders/${roId}/measurements`, { user: TECH_A })).body.items;
+    expect(visible.map((m: { id: string }) => m.id)).not.toContain(wrong.id);
+    const all = (await api.call('GET', `/api/repair-orders/${roId}/measurements?includeSuperseded=true`, { user: TECH_A })).body.items;
+    expect(all.find((m: { id: string }) => m.id === wrong.id)).toMatchObject({ supersededBy: { id: fixed.body.id, by: { id: TECH_A } } });
+    const twice = await post(reading({ at: 'reference', value: 5.0, supersedes: wrong.id }));
+    expect(twice.status).toBe(400);
+    expect(twice.body.error.findings[0].code).toBe('measurement.already_corrected');
+  });
+
+  it('refuses to change or delete a stored reading, even straight in the database', async () => {
+    const row = await api.db.prisma.measurement.findFirstOrThrow({ where: { repairOrderId: roId } });
+    await expect(api.db.prisma.measurement.update({ where: { id: row.id }, data: { valueSi: 1 } })).rejects.toThrow(/append-only/);
+    await expect(api.db.prisma.measurement.delete({ where: { id: row.id } })).rejects.toThrow(/append-only/);
+  });
+
+  it('refuses diagnosis readings once the repair order is repaired, and takes verification readings', async () => {
+    await api.call('POST', `/api/repair-orders/${roId}/status`, { user: TECH_A, body: { to: 'repaired' } });
+    const diag = await post(reading());
+    expect(diag.status).toBe(409);
+    expect(diag.body.error).toMatchObject({ code: 'measurement.wrong_phase', acceptedPhases: ['verification'] });
+    expect((await post(reading({ phase: 'verification', value: 0.61 }))).status).toBe(201);
+  });
+
+  it('hides the readings from another shop behind a 404', async () => {
+    expect((await api.call('GET', `/api/repair-orders/${roId}/measurements`, { user: TECH_B })).status).toBe(404);
+    expect((await post(reading({ phase: 'verification' }), TECH_B)).status).toBe(404);
+  });
+});

@@ -1,0 +1,128 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { BACKENDS } from '../support/db';
+import { FOREMAN_A, INACTIVE_A, newVehicle, TECH_A, TECH_B, VIN_SAMPLE, VIN_TEXTBOOK } from '../support/fixtures';
+import { startApi, type TestApi } from '../support/http';
+
+describe.each(BACKENDS)('repair orders over HTTP on the %s database', (backend) => {
+  let api: TestApi;
+  beforeAll(async () => {
+    api = await startApi(backend);
+  });
+  afterAll(async () => api?.close());
+
+  const open = (body: Record<string, unknown>, user = FOREMAN_A) => api.call('POST', '/api/repair-orders', { user, body });
+
+  it('opens a repair order with a new vehicle whose VIN passes the 49 CFR 565 check digit', async () => {
+    // 1M8GDM9AXKP042788: the textbook VIN with check digit X (49 CFR 565, weighted sum 351).
+    const res = await open({ vehicle: newVehicle(), complaint: 'Stalls at idle', codes: ['p0122'], technicianId: TECH_A });
+    expect(res.status).toBe(201);
+    expect(res.body).toMatchObject({
+      status: 'open',
+      version: 1,
+      codes: ['P0122'],
+      vehicle: { vin: VIN_TEXTBOOK, checkDigit: 'valid' },
+      technician: { id: TECH_A },
+      statusLog: [{ from: null, to: 'open', by: { id: FOREMAN_A } }],
+    });
+    expect(res.body.number).toMatch(/^RO-\d{5}$/);
+  });
+
+  it('refuses a VIN whose check digit does not match, naming the field and the expected digit', async () => {
+    // 1M8GDM9A1KP042788: the textbook VIN with a wrong check digit (49 CFR 565 computes X).
+    const res = await open({ vehicle: newVehicle({ vin: '1M8GDM9A1KP042788' }), complaint: 'No start' });
+    expect(res.status).toBe(400);
+    expect(res.body.error.findings).toEqual([
+      expect.objectContaining({ path: 'body.vehicle.vin', message: expect.stringContaining("'X'") }),
+    ]);
+  });
+
+  it('accepts that VIN when the vehicle is marked as built for outside North America', async () => {
+    const res = await open({ vehicle: newVehicle({ vin: '1M8GDM9A1KP042788', builtOutsideNorthAmerica: true }), complaint: 'No start' });
+    expect(res.status).toBe(201);
+    expect(res.body.vehicle.checkDigit).toBe('not_applicable');
+  });
+
+  it.each([
+    ['a VIN with the letter O', 'body.vehicle.vin', { vehicle: newVehicle({ vin: '1M8GDM9AXKPO42788' }), complaint: 'x' }],
+    ['a 16-character VIN', 'body.vehicle.vin', { vehicle: newVehicle({ vin: '1M8GDM9AXKP04278' }), complaint: 'x' }],
+    ['a trouble code not in SAE J2012 form', 'body.codes.0', { vehicle: newVehicle(), complaint: 'x', codes: ['P01222'] }],
+    ['a trouble code with a first digit above 3', 'body.codes.0', { vehicle: newVehicle(), complaint: 'x', codes: ['P4122'] }],
+    ['an empty complaint', 'body.complaint', { vehicle: newVehicle(), complaint: '  ' }],
+    ['an unknown field', 'body', { vehicle: newVehicle(), complaint: 'x', colour: 'red' }],
+    ['both a vehicle and a vehicleId', 'body.vehicle', { vehicle: newVehicle(), vehicleId: TECH_A, complaint: 'x' }],
+    ['a negative odometer', 'body.vehicle.odometer', { vehicle: newVehicle({ odometer: -1 }), complaint: 'x' }],
+    ['a technician of another shop', 'body.technicianId', { vehicle: newVehicle(), complaint: 'x', technicianId: TECH_B }],
+    ['an inactive technician', 'body.technicianId', { vehicle: newVehicle(), complaint: 'x', technicianId: INACTIVE_A }],
+  ])('refuses %s with a 400 at %s', async (_name, path, body) => {
+    const before = await api.db.prisma.repairOrder.count();
+    const res = await open(body);
+    expect(res.status).toBe(400);
+    expect(res.body.error.findings.map((f: { path: string }) => f.path)).toContain(path);
+    expect(await api.db.prisma.repairOrder.count()).toBe(before);
+  });
+
+  it('refuses a repair order number already used in the shop with a 409', async () => {
+    expect((await open({ number: 'T-100', vehicle: newVehicle({ vin: VIN_SAMPLE }), complaint: 'x' })).status).toBe(201);
+    const again = await open({ number: 'T-100', vehicle: newVehicle({ vin: VIN_SAMPLE }), complaint: 'y' });
+    expect(again.status).toBe(409);
+    expect(again.body.error.code).toBe('repair_order.number_taken');
+  });
+
+  it('reuses the vehicle already on file for the same VIN', async () => {
+    const a = await open({ vehicle: newVehicle({ vin: VIN_SAMPLE }), complaint: 'first visit' });
+    const b = await open({ vehicle: newVehicle({ vin: VIN_SAMPLE }), complaint: 'second visit' });
+    expect(b.body.vehicle.id).toBe(a.body.vehicle.id);
+  });
+
+  it('moves along the status chain and refuses a skipped step with a 409 listing the allowed moves', async () => {
+    const ro = (await open({ vehicle: newVehicle(), complaint: 'chain' })).body;
+    const move = (to: string, reason?: string) => api.call('POST', `/api/repair-orders/${ro.id}/status`, { user: TECH_A, body: { to, ...(reason ? { reason } : {}) } });
+    const skip = await move('verified');
+    expect(skip.status).toBe(409);
+    expect(skip.body.error).toMatchObject({ code: 'status.illegal_move', from: 'open', allowed: expect.arrayContaining(['diagnosing']) });
+    for (const to of ['diagnosing', 'repaired', 'verified', 'closed']) expect((await move(to)).status).toBe(200);
+    const noReason = await move('diagnosing');
+    expect(noReason.status).toBe(400);
+    expect(noReason.body.error.findings[0].path).toBe('body.reason');
+    const reopened = await move('diagnosing', 'Customer back: code returned after two days');
+    expect(reopened.status).toBe(200);
+    expect(reopened.body.statusLog.map((s: { to: string }) => s.to)).toEqual(['open', 'diagnosing', 'repaired', 'verified', 'closed', 'diagnosing']);
+    expect(reopened.body.dates.repaired).not.toBeNull();
+  });
+
+  it('refuses an update made against a stale version with a 409 saying what it is now', async () => {
+    const ro = (await open({ vehicle: newVehicle(), complaint: 'versions' })).body;
+    const first = await api.call('PATCH', `/api/repair-orders/${ro.id}`, { user: TECH_A, body: { version: 1, cause: 'Chafed signal wire' } });
+    expect(first.status).toBe(200);
+    expect(first.body.version).toBe(2);
+    const stale = await api.call('PATCH', `/api/repair-orders/${ro.id}`, { user: TECH_A, body: { version: 1, cause: 'Something else' } });
+    expect(stale.status).toBe(409);
+    expect(stale.body.error).toMatchObject({ code: 'repair_order.stale_version', currentVersion: 2 });
+    expect((await api.call('GET', `/api/repair-orders/${ro.id}`, { user: TECH_A })).body.cause).toBe('Chafed signal wire');
+  });
+
+  it('lists with filters by status and technician, and pages', async () => {
+    await open({ vehicle: newVehicle(), complaint: 'for the list', technicianId: TECH_A });
+    const mine = await api.call('GET', `/api/repair-orders?technicianId=${TECH_A}&status=open,diagnosing&pageSize=1`, { user: TECH_A });
+    expect(mine.status).toBe(200);
+    expect(mine.body.items).toHaveLength(1);
+    expect(mine.body.total).toBeGreaterThanOrEqual(1);
+    expect(mine.body.items[0].technician.id).toBe(TECH_A);
+    const bad = await api.call('GET', '/api/repair-orders?status=finished', { user: TECH_A });
+    expect(bad.status).toBe(400);
+    expect(bad.body.error.findings[0].path).toMatch(/^query\.status/);
+  });
+
+  it('hides another shop’s repair orders behind a 404', async () => {
+    const ro = (await open({ vehicle: newVehicle(), complaint: 'private' })).body;
+    expect((await api.call('GET', `/api/repair-orders/${ro.id}`, { user: TECH_B })).status).toBe(404);
+    const list = await api.call('GET', '/api/repair-orders', { user: TECH_B });
+    expect(list.body.items).toEqual([]);
+  });
+
+  it('asks for the user header, and answers a malformed id with a 400 and an unknown one with a 404', async () => {
+    expect((await api.call('GET', '/api/repair-orders')).status).toBe(401);
+    expect((await api.call('GET', '/api/repair-orders/not-a-uuid', { user: TECH_A })).body.error.findings[0].path).toBe('params.id');
+    expect((await api.call('GET', '/api/repair-orders/00000000-0000-4000-8000-000000000000', { user: TECH_A })).status).toBe(404);
+  });
+});

@@ -1,0 +1,141 @@
+/**
+ * Cross-check against an outside simulator: ngspice (Debian package `ngspice`, batch mode, `.op` analysis) solves
+ * the SPICE export of the very netlist our solver stamps, for 40 seeded random circuits with random faults,
+ * connector states, jumpers and meters. Every node voltage must agree within 1e-6 relative, with an absolute floor
+ * of 1e-9 V for nodes near zero (where a relative bound means nothing).
+ */
+import { execFileSync } from 'node:child_process';
+import { mkdtempSync, writeFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, describe, expect, it } from 'vitest';
+import {
+  circuitNetlist,
+  defaultCircuit,
+  faultsFor,
+  HYPOTHESIS_IDS,
+  meterWith,
+  type Netlist,
+  mulberry32,
+  parseSpiceNodeVoltages,
+  solveNodeVoltages,
+  toSpice,
+  type FaultSpec,
+  type Random,
+  type WireRole,
+} from '../../../src/engine/circuit';
+import type { MeasurementRequest, Point } from '../../../src/engine/vocabulary';
+import type { Result } from '../../../src/engine/calc';
+
+const RELATIVE = 1e-6;
+const ABSOLUTE_FLOOR_VOLTS = 1e-9;
+const CIRCUITS = 48;
+
+const pick = <T>(random: Random, items: readonly T[]): T => items[Math.floor(random() * items.length)]!;
+const between = (random: Random, lo: number, hi: number) => lo + (hi - lo) * random();
+
+function randomFault(random: Random, wires: WireRole[], sensor: string): FaultSpec {
+  const wire = pick(random, wires);
+  const other = pick(random, wires.filter((w) => w !== wire));
+  const internal = sensor === 'potentiometer' ? ['open_track', 'worn_spot', 'stuck'] : sensor === 'pressure' ? ['open_track', 'stuck', 'shorted'] : ['open_track', 'stuck', 'shorted'];
+  const kinds: Array<() => FaultSpec> = [
+    () => ({ kind: 'open', wire }),
+    () => ({ kind: 'short_to_ground', wire, ohms: between(random, 0.01, 50) }),
+    () => ({ kind: 'short_to_voltage', wire, ohms: between(random, 0.05, 100) }),
+    () => ({ kind: 'short_between', wires: [wire, other], ohms: between(random, 0.01, 1000) }),
+    () => ({ kind: 'high_resistance', wire, ohms: between(random, 1, 50_000) }),
+    () => {
+      const variant = pick(random, internal) as 'stuck' | 'worn_spot' | 'shorted' | 'open_track';
+      const stuckValue = sensor === 'thermistor' ? between(random, -30, 110) : between(random, 0.05, 0.95);
+      return { kind: 'sensor_internal', variant, value: variant === 'stuck' ? stuckValue : between(random, 0.5, 2e6) };
+    },
+    () => ({ kind: 'module_internal', variant: pick(random, ['dead_regulator', 'weak_regulator', 'dead_input'] as const), ohms: between(random, 10, 1000) }),
+  ];
+  return pick(random, kinds)();
+}
+
+function randomCase(seed: number) {
+  const random = mulberry32(seed);
+  const kind = random() < 0.3 ? 'two_wire_thermistor' : 'three_wire_5v';
+  const circuit = defaultCircuit(kind, {
+    sensor: random() < 0.5 ? 'pressure' : 'potentiometer',
+    position: random(),
+    pressureKpa: between(random, 15, 110),
+    temperatureC: between(random, -30, 120),
+    wireOhms: between(random, 0.02, 2),
+    regulatorVolts: between(random, 4.9, 5.1),
+    bias:
+      kind === 'two_wire_thermistor'
+        ? { kind: 'pull_up', ohms: between(random, 1000, 20_000) }
+        : pick(random, [{ kind: 'pull_up', ohms: between(random, 100e3, 1e6) }, { kind: 'pull_down', ohms: between(random, 100e3, 1e6) }, { kind: 'none' }] as const),
+  });
+  const wires = circuit.wires.map((w) => w.role);
+  const faults = Array.from({ length: Math.floor(random() * 3) }, () => randomFault(random, wires, circuit.sensor.kind));
+  const points: Point[] = [...wires, 'battery_negative', 'battery_positive', 'chassis_ground'];
+  const at = pick(random, points);
+  const against = pick(random, points.filter((p) => p !== at));
+  const key = random() < 0.8 ? 'on' : 'off';
+  const request: MeasurementRequest = {
+    quantity: pick(random, ['dc_volts', 'dc_volts', 'amps', 'scan_value'] as const),
+    at,
+    against,
+    location: pick(random, ['sensor_connector', 'module_connector'] as const),
+    connector: pick(random, ['plugged', 'unplugged', 'backprobed'] as const),
+    key,
+    engine: key === 'on' ? pick(random, ['off', 'cranking', 'running'] as const) : 'off',
+    jumpers:
+      random() < 0.3
+        ? [{ from: pick(random, wires), to: 'battery_negative', via: pick(random, [{ kind: 'resistor', ohms: between(random, 100, 1e6) }, { kind: 'voltage_source', volts: between(random, 0, 5) }, { kind: 'fused_jumper' }] as const) }]
+        : [],
+  };
+  if (request.quantity === 'scan_value') request.key = 'on';
+  return { circuit, faults, request, meterOhms: between(random, 1e6, 20e6) };
+}
+
+function ngspiceVersion(): string {
+  try {
+    return execFileSync('ngspice', ['--version'], { encoding: 'utf8' }).split('\n').find((l) => l.includes('ngspice')) ?? 'ngspice';
+  } catch {
+    throw new Error('ngspice is not installed: apt-get update && apt-get install -y ngspice');
+  }
+}
+
+
+function crossCheck(name: string, built: Result<Netlist>): void {
+  if (!built.ok) throw new Error(`${name} did not build: ${JSON.stringify(built.findings)}`);
+  const ours = solveNodeVoltages(built.value);
+  expect(ours, 'our solver found the system singular').toBeDefined();
+  const deck = join(workdir, `${name}.cir`);
+  writeFileSync(deck, toSpice(built.value, { title: name, printNodeVoltages: true }));
+  const spice = parseSpiceNodeVoltages(execFileSync('ngspice', ['-b', deck], { encoding: 'utf8', stdio: ['ignore', 'pipe', 'pipe'] }));
+  const nodes = [...ours!.keys()].filter((n) => n !== 'bn');
+  expect(spice.size, 'ngspice printed every node').toBe(nodes.length);
+  for (const node of nodes) {
+    const theirs = spice.get(node.toLowerCase());
+    expect(theirs, `ngspice value for ${node}`).toBeDefined();
+    const mine = ours!.get(node)!;
+    const allowed = RELATIVE * Math.abs(theirs!) + ABSOLUTE_FLOOR_VOLTS;
+    expect(Math.abs(mine - theirs!), `node ${node}: ours ${mine}, ngspice ${theirs}`).toBeLessThanOrEqual(allowed);
+  }
+}
+
+const workdir = mkdtempSync(join(tmpdir(), 'tracebay-spice-'));
+afterAll(() => rmSync(workdir, { recursive: true, force: true }));
+
+describe('node voltages agree with ngspice (.op, batch mode) within 1e-6 relative, 1e-9 V floor', () => {
+  it('finds ngspice on the path', () => {
+    expect(ngspiceVersion()).toMatch(/ngspice/);
+  });
+
+  it.each(Array.from({ length: CIRCUITS }, (_, i) => [1000 + i]))('agrees with ngspice on seeded random circuit %i', (seed) => {
+    const c = randomCase(seed);
+    crossCheck(`case-${seed}`, circuitNetlist(c.circuit, c.faults, c.request, meterWith({ inputOhms: c.meterOhms })));
+  });
+
+  // Every hypothesis's faults once, so each fault kind and variant meets ngspice at least once.
+  it.each(HYPOTHESIS_IDS.map((id) => [id]))('agrees with ngspice on a KOEO back-probe with %s', (id) => {
+    const circuit = defaultCircuit('three_wire_5v', { sensor: id.includes('shorted') ? 'pressure' : 'potentiometer' });
+    const request: MeasurementRequest = { quantity: 'dc_volts', at: 'signal', against: 'ground', location: 'sensor_connector', connector: 'backprobed', key: 'on', engine: 'off', jumpers: [] };
+    crossCheck(`hypothesis-${id}`, circuitNetlist(circuit, faultsFor(id), request));
+  });
+});

@@ -1,0 +1,35 @@
+import { describe, expect, it } from 'vitest';
+import { builtInDocuments } from '../../../src/engine/diagnosis';
+import { BUILT_IN_DERIVATION, deriveLikelihoods } from '../../../src/engine/diagnosis/derive-likelihoods';
+import { parseTreeDocument } from '../../../src/engine/diagnosis/tree-schema';
+
+// The stored tables must be what the circuit model gives (scripts/derive-likelihoods.ts, fixed seed, 2000 samples
+// per cell). A change to the circuit model or to a tree's outcome ranges shows up here until the script is rerun.
+describe('likelihood tables derived from the circuit model', () => {
+  it.each(['three-wire-5v', 'two-wire-thermistor'])('stores for %s exactly the tables and bands a recomputation gives', (id) => {
+    const stored = parseTreeDocument(builtInDocuments().find((d) => d.id === id)).document!;
+    expect(stored.derivation).toMatchObject({ method: 'circuit_model_monte_carlo', ...BUILT_IN_DERIVATION });
+    const { document } = deriveLikelihoods(stored, BUILT_IN_DERIVATION);
+    for (const [i, test] of stored.tests.entries()) {
+      expect(test.likelihoods, test.id).toEqual(document.tests[i]!.likelihoods);
+      expect(test.bands, test.id).toEqual(document.tests[i]!.bands);
+    }
+  });
+
+  it('keeps the hand-given tables of the shared-reference tree (the circuit model has no multi-sensor reference)', () => {
+    const stored = parseTreeDocument(builtInDocuments().find((d) => d.id === 'shared-reference')).document!;
+    const { document, findings } = deriveLikelihoods(stored, BUILT_IN_DERIVATION);
+    expect(findings[0]!.code).toBe('derive.unknown_circuit_kind');
+    expect(document).toBe(stored);
+  });
+
+  it('predicts the unplugged biased signal near 4.88 V through a 10 MΩ meter (meter loading: V·Rm/(Rm + Rs), computed)', () => {
+    // 5 V behind a 250 kΩ pull-up read by 10 MΩ: 5 × 10/10.25 = 4.878 V (computed from the divider formula).
+    const stored = parseTreeDocument(builtInDocuments().find((d) => d.id === 'three-wire-5v')).document!;
+    const band = stored.tests.find((t) => t.id === 'signal_unplugged')!.bands!['signal_short_reference']!;
+    expect(band.p50).toBeCloseTo(5.0, 0);
+    const up = deriveLikelihoods({ ...stored, tests: stored.tests.filter((t) => t.id === 'signal_unplugged'), derivation: { method: 'circuit_model_monte_carlo', variants: [{ id: 'up', weight: 1, circuit: { bias: { kind: 'pull_up', ohms: 250000 } } }] } }, { seed: 1, samples: 400 });
+    const p50 = up.document.tests[0]!.bands!['sensor_internal']!.p50 as number;
+    expect(Math.abs(p50 - 4.878)).toBeLessThan(0.1);
+  });
+});
