@@ -26,12 +26,13 @@ async function main(): Promise<void> {
   const lines = [
     '',
     `Tracebay is running on the ${where}.`,
+    `  Bay tablet:  ${url}/`,
     `  API:         ${url}/api`,
     `  API docs:    ${url}/api/docs`,
     `  Health:      ${url}/api/health`,
   ];
   if (config.demo) {
-    lines.push('  Demo users (send one as the X-Tracebay-User header):');
+    lines.push('  Demo shop "Kestrel Row Motor Works"; its people (pick one on the tablet, or send the id as the X-Tracebay-User header):');
     for (const u of DEMO_USERS) lines.push(`    ${u.role.padEnd(10)} ${u.name.padEnd(16)} ${u.id}`);
   }
   lines.push('Stop with Ctrl+C.', '');

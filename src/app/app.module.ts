@@ -6,9 +6,13 @@ import { HttpErrorFilter } from '../common/errors/http-error.filter';
 import { CalculatorsModule } from '../modules/calculators/calculators.module';
 import { CircuitModelModule } from '../modules/circuit-model/circuit-model.module';
 import { CircuitsModule } from '../modules/circuits/circuits.module';
+import { DiagnosisModule } from '../modules/diagnosis/diagnosis.module';
+import { FaultTreesModule } from '../modules/fault-trees/fault-trees.module';
+import { ProofsModule } from '../modules/proofs/proofs.module';
 import { HealthModule } from '../modules/health/health.module';
 import { IdentityModule } from '../modules/identity/identity.module';
 import { MeasurementsModule } from '../modules/measurements/measurements.module';
+import { PagesModule } from '../modules/pages/pages.module';
 import { RepairOrdersModule } from '../modules/repair-orders/repair-orders.module';
 import { RepairsModule } from '../modules/repairs/repairs.module';
 import { ReviewsModule } from '../modules/reviews/reviews.module';
@@ -43,9 +47,13 @@ export class AppModule {
         CircuitsModule,
         MeasurementsModule,
         RepairsModule,
+        FaultTreesModule,
+        DiagnosisModule,
         ReviewsModule,
+        ProofsModule,
         CircuitModelModule,
         CalculatorsModule,
+        PagesModule,
       ],
     };
   }

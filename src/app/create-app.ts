@@ -2,7 +2,7 @@ import type { INestApplication } from '@nestjs/common';
 import { NestFactory } from '@nestjs/core';
 import type { NestExpressApplication } from '@nestjs/platform-express';
 import { DocumentBuilder, SwaggerModule } from '@nestjs/swagger';
-import { json, type NextFunction, type Request, type Response } from 'express';
+import { json, raw, type NextFunction, type Request, type Response } from 'express';
 import type { AppConfig } from '../config/config';
 import type { OpenDatabase } from '../common/database/database.tokens';
 import { AppLogger } from '../common/logging/app-logger';
@@ -30,6 +30,8 @@ export async function createApp(config: AppConfig, database: OpenDatabase, logge
   });
   app.use(requestContext((line) => logger.log(line, 'http')));
   app.use(json({ limit: config.bodyLimit, strict: false }));
+  // A proof PDF posted for checking comes as it is.
+  app.use('/api/proofs/verify', raw({ type: 'application/pdf', limit: '20mb' }));
   app.use(bodyErrors);
   app.disable('x-powered-by');
   app.enableShutdownHooks();

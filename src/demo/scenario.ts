@@ -2,7 +2,6 @@
  * The invented demo shop: people, vehicles and repair orders in every state. Nothing here describes a real
  * shop, person or vehicle; VINs are made up and given a valid 49 CFR 565 check digit at seeding time.
  */
-import type { MeasurementRequest } from '../engine/vocabulary';
 
 export const DEMO_SHOP = {
   id: '5a0e1c3d-7b2f-4e61-9d0a-1f2e3d4c5b6a',
@@ -32,16 +31,18 @@ export const DEMO_VEHICLES = [
 
 type Status = 'open' | 'diagnosing' | 'repaired' | 'verified' | 'closed';
 
-export interface DemoReading {
-  request: MeasurementRequest;
-  value: number;
-  unit: string;
-  phase?: 'diagnosis' | 'verification';
-  note?: string;
-  /** Minutes after the repair order was opened. */
-  minute: number;
-  /** This reading corrects the one with that index in the list. */
-  corrects?: number;
+/** A circuit whose readings the engine and the circuit model produce for an invented fault. */
+export interface DemoCircuit {
+  kind: 'three_wire_5v' | 'two_wire_thermistor';
+  sensor: string;
+  label: string;
+  cavities: Record<string, string>;
+  /** The fault the invented car has (a fault-tree hypothesis id). */
+  fault: string;
+  /** Stop the diagnosis after this many readings (a job still in progress). */
+  stopAfter?: number;
+  /** Type the reading with this index wrong first, then correct it (shows a struck correction on the proof). */
+  typoAt?: number;
 }
 
 export interface DemoOrder {
@@ -56,20 +57,11 @@ export interface DemoOrder {
   cause?: string;
   correction?: string;
   codesAfter?: string[];
-  circuit?: { kind: 'three_wire_5v' | 'two_wire_thermistor'; sensor: string; label: string; cavities: Record<string, string> };
-  readings?: DemoReading[];
+  circuit?: DemoCircuit;
+  repair?: { part: 'reference' | 'signal' | 'ground' | 'sensor' | 'module' | 'connector'; action: string; location: string; parts: Array<{ name: string; number?: string; quantity: number }> };
+  /** Foreman decisions, in order. */
+  reviews?: Array<{ decision: 'approved' | 'returned'; comment: string }>;
 }
-
-const koeo = { key: 'on', engine: 'off', jumpers: [] } as const;
-const v = (at: MeasurementRequest['at'], against: MeasurementRequest['against'], location: MeasurementRequest['location'], connector: MeasurementRequest['connector']): MeasurementRequest => ({
-  quantity: 'dc_volts',
-  at,
-  against,
-  location,
-  connector,
-  ...koeo,
-  jumpers: [],
-});
 
 export const DEMO_ORDERS: DemoOrder[] = [
   {
@@ -78,22 +70,21 @@ export const DEMO_ORDERS: DemoOrder[] = [
     technician: TEO,
     complaint: 'Reduced engine power message after rain; throttle pedal feels dead for a few seconds.',
     codes: ['P0122'],
-    openedDaysAgo: 6,
+    openedDaysAgo: 2,
     path: ['open', 'diagnosing', 'repaired', 'verified'],
     cause: 'TP sensor 1 signal wire chafed through on the intake bracket and open near the connector.',
     correction: 'Cut out the damaged section, spliced in new wire with sealed crimp sleeves, re-routed clear of the bracket.',
     codesAfter: [],
-    circuit: { kind: 'three_wire_5v', sensor: 'TP', label: 'TP sensor 1', cavities: { A: 'reference', B: 'signal', C: 'ground' } },
-    readings: [
-      { request: v('reference', 'battery_negative', 'sensor_connector', 'backprobed'), value: 5.01, unit: 'V', minute: 12 },
-      { request: v('signal', 'battery_negative', 'sensor_connector', 'backprobed'), value: 0.62, unit: 'V', minute: 15 },
-      { request: v('signal', 'battery_negative', 'module_connector', 'backprobed'), value: 4.78, unit: 'V', minute: 24, note: 'typed 4.78 by mistake' },
-      { request: v('signal', 'battery_negative', 'module_connector', 'backprobed'), value: 4.87, unit: 'V', minute: 26, corrects: 2 },
-      { request: v('ground', 'battery_negative', 'sensor_connector', 'backprobed'), value: 0.02, unit: 'V', minute: 29 },
-      { request: v('signal', 'battery_negative', 'module_connector', 'backprobed'), value: 0.63, unit: 'V', phase: 'verification', minute: 95 },
-      { request: v('reference', 'battery_negative', 'sensor_connector', 'backprobed'), value: 5.0, unit: 'V', phase: 'verification', minute: 97 },
-      { request: v('ground', 'battery_negative', 'sensor_connector', 'backprobed'), value: 0.02, unit: 'V', phase: 'verification', minute: 98 },
-    ],
+    circuit: { kind: 'three_wire_5v', sensor: 'TP', label: 'TP sensor 1', cavities: { A: 'reference', B: 'signal', C: 'ground' }, fault: 'signal_open', typoAt: 1 },
+    repair: {
+      part: 'signal',
+      action: 'Spliced the signal wire with sealed crimp sleeves and re-routed the harness clear of the intake bracket',
+      location: 'signal wire, 12 cm from the TP sensor connector',
+      parts: [
+        { name: 'Sealed crimp splice sleeve, 0.5 mm²', number: 'KR-SPL-05', quantity: 2 },
+        { name: 'Harness tape, cloth', quantity: 1 },
+      ],
+    },
   },
   {
     number: 'KR-24035',
@@ -103,11 +94,7 @@ export const DEMO_ORDERS: DemoOrder[] = [
     codes: ['P0118'],
     openedDaysAgo: 1,
     path: ['open', 'diagnosing'],
-    circuit: { kind: 'two_wire_thermistor', sensor: 'ECT', label: 'ECT sensor', cavities: { '1': 'signal', '2': 'ground' } },
-    readings: [
-      { request: v('signal', 'battery_negative', 'sensor_connector', 'backprobed'), value: 4.96, unit: 'V', minute: 8 },
-      { request: { ...v('signal', 'ground', 'sensor_connector', 'unplugged'), key: 'on' }, value: 4.99, unit: 'V', minute: 14 },
-    ],
+    circuit: { kind: 'two_wire_thermistor', sensor: 'ECT', label: 'ECT sensor', cavities: { '1': 'signal', '2': 'ground' }, fault: 'signal_open', stopAfter: 2 },
   },
   {
     number: 'KR-24036',
@@ -126,9 +113,17 @@ export const DEMO_ORDERS: DemoOrder[] = [
     codes: ['P2138'],
     openedDaysAgo: 12,
     path: ['open', 'diagnosing', 'repaired', 'verified', 'closed'],
-    cause: 'APP sensor connector terminal spread and loose on the signal cavity.',
-    correction: 'Replaced the connector terminal with a new one; verified signal sweep.',
+    cause: 'APP sensor 1 ground terminal corroded: high resistance in the sensor ground.',
+    correction: 'Replaced the ground terminal with a new one and sealed the connector.',
     codesAfter: [],
+    circuit: { kind: 'three_wire_5v', sensor: 'APP', label: 'APP sensor 1', cavities: { '1': 'reference', '2': 'signal', '3': 'ground' }, fault: 'ground_high_resistance' },
+    repair: {
+      part: 'ground',
+      action: 'Replaced the corroded sensor-ground terminal and sealed the connector',
+      location: 'sensor ground, cavity 3 of the APP sensor connector',
+      parts: [{ name: 'Connector terminal, 0.64 mm', number: 'KR-TRM-064', quantity: 1 }],
+    },
+    reviews: [{ decision: 'approved', comment: 'Terminal replaced, readings good.' }],
   },
   {
     number: 'KR-24037',
@@ -137,11 +132,7 @@ export const DEMO_ORDERS: DemoOrder[] = [
     complaint: 'Fuel-tank pressure code after refuelling.',
     codes: ['P0452'],
     openedDaysAgo: 3,
-    path: ['open', 'diagnosing', 'repaired'],
-    cause: 'FTP sensor ground terminal corroded (high resistance).',
-    correction: 'Cleaned and re-pinned the ground terminal; applied dielectric grease.',
-    codesAfter: [],
-    circuit: { kind: 'three_wire_5v', sensor: 'FTP', label: 'FTP sensor', cavities: { '1': 'ground', '2': 'signal', '3': 'reference' } },
-    readings: [{ request: v('ground', 'battery_negative', 'sensor_connector', 'backprobed'), value: 0.41, unit: 'V', minute: 18 }],
+    path: ['open', 'diagnosing'],
+    circuit: { kind: 'three_wire_5v', sensor: 'FTP', label: 'FTP sensor', cavities: { '1': 'ground', '2': 'signal', '3': 'reference' }, fault: 'reference_short_ground', stopAfter: 3 },
   },
 ];

@@ -1,89 +1,117 @@
 /**
  * Seeds the invented demo shop into an empty database, once. Readings go in exactly as a technician would
- * enter them: units parsed and converted by the same engine code the API uses.
+ * enter them (units parsed by the same engine code as the API), and each job's readings are the ones the
+ * fault-tree engine asks for, answered by the circuit model for that job's invented fault.
  */
-import type { PrismaClient } from '../generated/prisma/client';
+import type { Prisma, PrismaClient } from '../generated/prisma/client';
+import { builtInTrees } from '../engine/diagnosis';
 import { checkReading } from '../engine/units';
 import { withCheckDigit } from '../engine/vin';
-import { DEMO_ORDERS, DEMO_SHOP, DEMO_USERS, DEMO_VEHICLES, FOREMAN } from './scenario';
+import { DEMO_ORDERS, DEMO_SHOP, DEMO_USERS, DEMO_VEHICLES, FOREMAN, type DemoOrder } from './scenario';
+import { diagnosisReadings, meterShows, type SimulatedReading } from './simulate-readings';
 
 const DAY = 86_400_000;
 const MINUTE = 60_000;
+const TREE_FOR = { three_wire_5v: 'three-wire-5v', two_wire_thermistor: 'two-wire-thermistor' } as const;
 
 export async function seedDemo(prisma: PrismaClient, now = new Date()): Promise<'seeded' | 'already_present'> {
   if ((await prisma.shop.count()) > 0) return 'already_present';
+  const plans = await Promise.all(DEMO_ORDERS.map(async (order) => ({ order, readings: order.circuit ? await diagnosisReadings(order.circuit.kind, order.circuit.fault, order.circuit.stopAfter) : [] })));
   await prisma.$transaction(async (tx) => {
     await tx.shop.create({ data: DEMO_SHOP });
     for (const u of DEMO_USERS) await tx.user.create({ data: { ...u, shopId: DEMO_SHOP.id } });
     const vehicleIds = new Map<string, string>();
     for (const v of DEMO_VEHICLES) {
       const vin = withCheckDigit(v.vin.replace('?', '0'));
-      if (!vin.ok) throw new Error(`demo VIN ${v.vin}: ${vin.findings[0].message}`);
+      if (!vin.ok) throw new Error(`demo VIN ${v.vin}: ${vin.findings[0]!.message}`);
       const { key, ...rest } = v;
-      const created = await tx.vehicle.create({ data: { ...rest, vin: vin.vin, shopId: DEMO_SHOP.id, createdById: FOREMAN } });
-      vehicleIds.set(key, created.id);
+      vehicleIds.set(key, (await tx.vehicle.create({ data: { ...rest, vin: vin.vin, shopId: DEMO_SHOP.id, createdById: FOREMAN } })).id);
     }
-    for (const order of DEMO_ORDERS) {
-      const opened = new Date(now.getTime() - order.openedDaysAgo * DAY - 3 * 60 * MINUTE);
-      const ro = await tx.repairOrder.create({
-        data: {
-          shopId: DEMO_SHOP.id,
-          number: order.number,
-          vehicleId: vehicleIds.get(order.vehicle)!,
-          technicianId: order.technician,
-          status: order.path[order.path.length - 1],
-          complaint: order.complaint,
-          cause: order.cause ?? '',
-          correction: order.correction ?? '',
-          codes: order.codes,
-          codesAfter: order.codesAfter ?? [],
-          version: order.path.length,
-          createdById: FOREMAN,
-          createdAt: opened,
-          updatedAt: opened,
-        },
-      });
-      const circuit = order.circuit
-        ? await tx.circuit.create({ data: { ...order.circuit, repairOrderId: ro.id, createdById: order.technician, createdAt: new Date(opened.getTime() + 5 * MINUTE) } })
-        : undefined;
-      const ids: string[] = [];
-      for (const r of order.readings ?? []) {
-        const checked = checkReading(r.value, r.unit, r.request.quantity);
-        if (!checked.ok) throw new Error(`demo reading ${order.number}: ${checked.findings[0].message}`);
-        const row = await tx.measurement.create({
-          data: {
-            repairOrderId: ro.id,
-            circuitId: circuit!.id,
-            quantity: r.request.quantity,
-            at: r.request.at,
-            against: r.request.against ?? null,
-            location: r.request.location,
-            connector: r.request.connector,
-            key: r.request.key,
-            engine: r.request.engine,
-            jumpers: r.request.jumpers as object[],
-            valueEntered: r.value,
-            unitEntered: checked.unit,
-            valueSi: checked.siValue,
-            siUnit: checked.siUnit,
-            phase: r.phase ?? 'diagnosis',
-            note: r.note ?? '',
-            supersedesId: r.corrects === undefined ? null : ids[r.corrects],
-            takenById: order.technician,
-            takenAt: new Date(opened.getTime() + r.minute * MINUTE),
-          },
-        });
-        ids.push(row.id);
-      }
-      // Status history: each step an hour apart, the first by the foreman who opened it.
-      let from: (typeof order.path)[number] | null = null;
-      for (const [i, to] of order.path.entries()) {
-        const at = new Date(opened.getTime() + i * 60 * MINUTE + (i > 0 ? 40 * MINUTE : 0));
-        await tx.statusChange.create({ data: { repairOrderId: ro.id, fromStatus: from, toStatus: to, byId: i === 0 ? FOREMAN : order.technician, at } });
-        from = to;
-      }
-      await tx.repairOrder.update({ where: { id: ro.id }, data: { updatedAt: new Date(opened.getTime() + order.path.length * 60 * MINUTE) } });
-    }
+    for (const { order, readings } of plans) await seedOrder(tx, order, readings, vehicleIds.get(order.vehicle)!, now);
   });
   return 'seeded';
+}
+
+async function seedOrder(tx: Prisma.TransactionClient, order: DemoOrder, readings: SimulatedReading[], vehicleId: string, now: Date): Promise<void> {
+  let clock = now.getTime() - order.openedDaysAgo * DAY - 5 * 60 * MINUTE;
+  const tick = (minutes: number) => new Date((clock += minutes * MINUTE));
+  const opened = tick(0);
+  const ro = await tx.repairOrder.create({
+    data: {
+      shopId: DEMO_SHOP.id,
+      number: order.number,
+      vehicleId,
+      technicianId: order.technician,
+      status: order.path.at(-1)!,
+      complaint: order.complaint,
+      cause: order.cause ?? '',
+      correction: order.correction ?? '',
+      codes: order.codes,
+      codesAfter: order.codesAfter ?? [],
+      version: order.path.length,
+      createdById: FOREMAN,
+      createdAt: opened,
+      updatedAt: opened,
+    },
+  });
+  const status = async (from: string | null, to: string, at: Date, byId: string, reason = '') =>
+    tx.statusChange.create({ data: { repairOrderId: ro.id, fromStatus: from as never, toStatus: to as never, byId, at, reason } });
+  await status(null, 'open', opened, FOREMAN);
+  if (!order.circuit) return;
+
+  const c = order.circuit;
+  const tree = builtInTrees()[TREE_FOR[c.kind]]!;
+  const faultTree =
+    (await tx.faultTree.findFirst({ where: { shopId: null, treeId: tree.id, version: tree.version } })) ??
+    (await tx.faultTree.create({ data: { shopId: null, treeId: tree.id, version: tree.version, circuitKind: c.kind, label: tree.title, document: tree.document as object } }));
+  const circuit = await tx.circuit.create({
+    data: { repairOrderId: ro.id, kind: c.kind, sensor: c.sensor, label: c.label, cavities: c.cavities, faultTreeId: faultTree.id, createdById: order.technician, createdAt: tick(6) },
+  });
+  const insert = async (r: SimulatedReading, phase: 'diagnosis' | 'verification', extra: { supersedesId?: string; note?: string } = {}) => {
+    const typed = r.value === 'OL' ? 0 : r.value;
+    const checked = checkReading(typed, r.unit, r.request.quantity);
+    if (!checked.ok) throw new Error(`demo reading ${order.number}: ${checked.findings[0]!.message}`);
+    const overload = r.value === 'OL';
+    return tx.measurement.create({
+      data: {
+        repairOrderId: ro.id,
+        circuitId: circuit.id,
+        ...r.request,
+        against: r.request.against ?? null,
+        jumpers: r.request.jumpers as object[],
+        valueEntered: overload ? null : checked.value,
+        unitEntered: checked.unit,
+        valueSi: overload ? null : checked.siValue,
+        siUnit: checked.siUnit,
+        overload,
+        phase,
+        note: extra.note ?? '',
+        supersedesId: extra.supersedesId ?? null,
+        takenById: order.technician,
+        takenAt: tick(3),
+      },
+    });
+  };
+  for (const [i, r] of readings.entries()) {
+    if (i === 0) await status('open', 'diagnosing', new Date(clock + 3 * MINUTE), order.technician, 'first reading recorded');
+    if (i === c.typoAt && typeof r.value === 'number') {
+      const wrong = await insert({ ...r, value: Number((r.value * 10).toFixed(2)) }, 'diagnosis');
+      await insert(r, 'diagnosis', { supersedesId: wrong.id, note: 'Decimal point slipped on the first entry.' });
+    } else {
+      await insert(r, 'diagnosis');
+    }
+  }
+  if (!order.repair || !order.path.includes('repaired')) return;
+  const repairedAt = tick(35);
+  await tx.repair.create({ data: { repairOrderId: ro.id, circuitId: circuit.id, ...order.repair, byId: order.technician, at: repairedAt } });
+  await status('diagnosing', 'repaired', repairedAt, order.technician, 'repair recorded');
+  if (!order.path.includes('verified')) return;
+  // After the repair, the first tests again: the circuit now reads as a healthy one.
+  for (const r of readings.slice(0, 4)) await insert(meterShows(c.kind, 'good', r.request), 'verification');
+  await status('repaired', 'verified', tick(4), order.technician);
+  for (const review of order.reviews ?? []) {
+    await tx.review.create({ data: { repairOrderId: ro.id, decision: review.decision, comment: review.comment, byId: FOREMAN, at: tick(50) } });
+  }
+  if (order.path.includes('closed')) await status('verified', 'closed', tick(24 * 60), FOREMAN);
+  await tx.repairOrder.update({ where: { id: ro.id }, data: { updatedAt: new Date(clock) } });
 }

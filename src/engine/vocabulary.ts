@@ -49,6 +49,8 @@ export interface MeasurementRequest {
   jumpers: Jumper[];
   /** For `scan_value`: the parameter read, e.g. an SAE J1979 PID such as "11" or a free name. */
   pid?: string;
+  /** On a shared 5 V reference: which sensor's connector the reading concerns, or "all". */
+  sensor?: string;
 }
 
 export const PHASES = ['diagnosis', 'verification'] as const;
@@ -57,8 +59,13 @@ export type Phase = (typeof PHASES)[number];
 /** Default input resistance of a digital meter on DC volts (the usual 10 MΩ). */
 export const DEFAULT_METER_OHMS = 10_000_000;
 
+/** Circuits the circuit model solves: one sensor, its wires and its module input. */
 export const CIRCUIT_KINDS = ['three_wire_5v', 'two_wire_thermistor'] as const;
 export type CircuitKind = (typeof CIRCUIT_KINDS)[number];
+
+/** What a technician can put under test: a single sensor circuit, or one 5 V reference shared by several sensors. */
+export const CIRCUIT_UNDER_TEST_KINDS = [...CIRCUIT_KINDS, 'shared_5v_reference'] as const;
+export type CircuitUnderTestKind = (typeof CIRCUIT_UNDER_TEST_KINDS)[number];
 
 export const CAVITY_ROLES = ['reference', 'signal', 'ground', 'unknown'] as const;
 export type CavityRole = (typeof CAVITY_ROLES)[number];

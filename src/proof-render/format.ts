@@ -85,6 +85,7 @@ export function conditionLines(r: MeasurementRequest): string[] {
   } else {
     lines.push(`${QUANTITY_WORDS[r.quantity]}: red lead at ${POINT_WORDS[r.at]}, black at ${POINT_WORDS[r.against ?? r.at]}`);
   }
+  if (r.sensor) lines.push(`Sensor on the shared reference: ${r.sensor}`);
   for (const j of r.jumpers) lines.push(`Jumper: ${jumperWords(j)}`);
   return lines;
 }

@@ -4,7 +4,7 @@
  */
 import { z } from 'zod';
 import {
-  CIRCUIT_KINDS, CONNECTOR_STATES, ENGINE_STATES, KEY_STATES, LOCATIONS, POINTS, QUANTITIES,
+  CIRCUIT_UNDER_TEST_KINDS, CONNECTOR_STATES, ENGINE_STATES, KEY_STATES, LOCATIONS, POINTS, QUANTITIES,
 } from '../engine/vocabulary';
 import { hasLoneSurrogate } from './digest';
 import { CAUTION_CODES, DECISIONS, DTC_STATUSES, PROOF_FORMAT, VIN_CHECKS } from './view';
@@ -54,6 +54,7 @@ const request = z.strictObject({
   engine: z.enum(ENGINE_STATES),
   jumpers: z.array(z.strictObject({ from: z.enum(POINTS), to: z.enum(POINTS), via: jumperVia })).max(4),
   pid: z.string().min(1).max(40).optional(),
+  sensor: z.string().min(1).max(64).optional(),
 });
 
 const superseded = z.strictObject({
@@ -72,7 +73,7 @@ const step = z.strictObject({
   title: shortText,
   request,
   reading,
-  expected,
+  expected: expected.nullable(),
   outcome: z.strictObject({ code: id, label: shortText }),
   takenAt: time,
   takenBy: name,
@@ -125,7 +126,7 @@ export const proofViewSchema = z.strictObject({
   }),
   concern: z.strictObject({ complaint: longText, cause: longText, correction: longText }),
   troubleCodes: z.strictObject({ found: z.array(troubleCode).max(40), afterRepair: z.array(troubleCode).max(40) }),
-  circuits: z.array(z.strictObject({ id, name: shortText, kind: z.enum(CIRCUIT_KINDS) })).min(1).max(20),
+  circuits: z.array(z.strictObject({ id, name: shortText, kind: z.enum(CIRCUIT_UNDER_TEST_KINDS) })).min(1).max(20),
   diagnosis: z.array(step).max(600),
   rootCause: z
     .strictObject({

@@ -9,6 +9,8 @@ import { correctionSpan, supersededCell, testCell } from './sections-work';
 import { approvalStatus } from './sections-head';
 import { drawTable, tableStartHeight, type TableSpec } from './table';
 import { COLOR, SIZE } from './theme';
+
+const DECISION_WORDS = { approved: 'approved', returned: 'returned for rework', withdrawn: 'approval withdrawn' } as const;
 import type { CautionCode, VerificationCheck } from './view';
 import { CAUTION_CODES } from './view';
 
@@ -100,7 +102,7 @@ export function drawSignOff(ctx: RenderContext): void {
     flow.paragraph({ text: 'Earlier decisions', font: 'bold', size: SIZE.small });
     s.decisions.slice(0, -1).forEach((d) => {
       flow.paragraph({
-        text: `${formatTimeOr(d.at, '')}: ${d.decision === 'approved' ? 'approved' : 'returned for rework'} by ${d.by}${d.comment ? `: ${d.comment}` : ''}`,
+        text: `${formatTimeOr(d.at, '')}: ${DECISION_WORDS[d.decision]} by ${d.by}${d.comment ? `: ${d.comment}` : ''}`,
         size: SIZE.small,
       });
     });

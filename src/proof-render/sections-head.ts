@@ -23,6 +23,7 @@ export function approvalStatus(view: ProofView): Status {
   const latest = view.signOff.decisions[view.signOff.decisions.length - 1];
   if (latest?.decision === 'approved') return { text: `Approved by ${latest.by}, ${formatTimeOr(latest.at, '')}`, good: true };
   if (latest?.decision === 'returned') return { text: `NOT YET APPROVED: returned for rework by ${latest.by}, ${formatTimeOr(latest.at, '')}`, good: false };
+  if (latest?.decision === 'withdrawn') return { text: `NOT APPROVED: approval withdrawn by ${latest.by}, ${formatTimeOr(latest.at, '')}`, good: false };
   return { text: 'NOT YET APPROVED: no foreman decision recorded', good: false };
 }
 

@@ -55,7 +55,7 @@ export function drawDiagnosis(ctx: RenderContext): void {
       [{ text: String(s.seq), font: 'bold', size: T }],
       testCell(s.title, circuitName(ctx, s.circuitId), conditionLines(s.request), s.takenAt, s.takenBy),
       [{ text: s.reading.entered, font: 'bold', size: T + 1 }, ...supersededCell(s.superseded)],
-      [{ text: formatRange(s.expected), size: T }],
+      [{ text: s.expected ? formatRange(s.expected) : 'no band set', size: T }],
       [{ text: s.outcome.label, size: T }],
     ],
     span: [...correctionSpan(s.superseded), ...(s.note ? [{ text: `Note: ${s.note}`, size: S, gap: 1 }] : [])],
@@ -88,7 +88,7 @@ export function drawRootCause(ctx: RenderContext): void {
           [{ text: String(s.seq), font: 'bold', size: T }],
           [{ text: s.title, size: T }],
           [{ text: s.reading.entered, font: 'bold', size: T + 1 }],
-          [{ text: formatRange(s.expected), size: T }],
+          [{ text: s.expected ? formatRange(s.expected) : 'no band set', size: T }],
           [{ text: s.outcome.label, size: T }],
         ],
       };

@@ -165,7 +165,7 @@ const RULES: Rule[] = [
   (v) =>
     v.diagnosis.flatMap((s, i) => [
       ...readingFindings(s.reading, `/diagnosis/${i}/reading`),
-      ...rangeFindings(s.expected, s.reading.siUnit, `/diagnosis/${i}/expected`),
+      ...(s.expected ? rangeFindings(s.expected, s.reading.siUnit, `/diagnosis/${i}/expected`) : []),
       ...requestFindings(s.request, s.reading.siUnit, `/diagnosis/${i}/request`),
       ...supersededFindings(s.superseded, `/diagnosis/${i}/superseded`),
     ]),
@@ -190,7 +190,7 @@ const RULES: Rule[] = [
     const d = v.signOff.decisions;
     d.forEach((dec, i) => {
       if (i > 0 && ms(dec.at) < ms(d[i - 1]!.at)) out.push(f('order.decisions_not_chronological', `/signOff/decisions/${i}/at`, 'list foreman decisions oldest first'));
-      if (dec.decision === 'returned' && !dec.comment) out.push(f('sign_off.returned_without_comment', `/signOff/decisions/${i}/comment`, 'a returned proof says why'));
+      if (dec.decision !== 'approved' && !dec.comment) out.push(f('sign_off.returned_without_comment', `/signOff/decisions/${i}/comment`, `a ${dec.decision} decision says why`));
     });
     const latest = d[d.length - 1];
     if (v.signOff.foremanSignedAt !== null && latest?.decision !== 'approved') {

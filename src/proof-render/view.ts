@@ -6,7 +6,7 @@
  * Times are ISO 8601 strings with an explicit offset ("2025-03-14T09:42:00+01:00" or "...Z"); the document prints
  * them in the offset they carry, so the same view prints the same text on every server.
  */
-import type { CircuitKind, MeasurementRequest } from '../engine/vocabulary';
+import type { CircuitUnderTestKind, MeasurementRequest } from '../engine/vocabulary';
 
 /** Version tag of this view shape; part of the digested data, so a later shape can never collide with this one. */
 export const PROOF_FORMAT = 'tracebay.proof/1' as const;
@@ -95,7 +95,7 @@ export interface Circuit {
   id: string;
   /** Printed name, e.g. "Throttle position sensor 1". */
   name: string;
-  kind: CircuitKind;
+  kind: CircuitUnderTestKind;
 }
 
 /**
@@ -151,7 +151,8 @@ export interface DiagnosticStep {
   request: MeasurementRequest;
   /** The reading in force. */
   reading: Reading;
-  expected: ExpectedRange;
+  /** What a healthy circuit reads on this test; null when the tree sets no band for it (printed as such). */
+  expected: ExpectedRange | null;
   outcome: Outcome;
   takenAt: string;
   takenBy: string;
@@ -215,14 +216,15 @@ export interface VerificationCheck {
   note?: string;
 }
 
-export const DECISIONS = ['approved', 'returned'] as const;
+/** `withdrawn`: an earlier approval taken back (with a comment); the proof is then not approved. */
+export const DECISIONS = ['approved', 'returned', 'withdrawn'] as const;
 export type Decision = (typeof DECISIONS)[number];
 
 export interface ForemanDecision {
   decision: Decision;
   by: string;
   at: string;
-  /** Required when returned; optional when approved. */
+  /** Required when returned or withdrawn; optional when approved. */
   comment?: string;
 }
 

@@ -84,7 +84,7 @@ function buildSample(): ProofView {
 
   const check = (id: string, seq: number, step: DiagnosticStep, after: Reading, takenAt: string, extra: Partial<VerificationCheck> = {}): VerificationCheck => ({
     id, seq, circuitId: step.circuitId, repeatsStepId: step.id, title: step.title, request: step.request,
-    before: step.reading, after, expected: step.expected, pass: true, takenAt, takenBy: TECH, superseded: [], ...extra,
+    before: step.reading, after, expected: step.expected!, pass: true, takenAt, takenBy: TECH, superseded: [], ...extra,
   });
   const verification: VerificationCheck[] = [
     check('v1', 1, diagnosis[5]!, rd('0.3 Ω', 0.3, 'Ω', 0.3, 'Ω'), '2025-03-11T13:02:00-05:00'),
@@ -204,7 +204,7 @@ export function manyReadingsView(n = 200): ProofView {
   for (const s of diagnosis) if (s.note === undefined) delete s.note;
   const verification: VerificationCheck[] = diagnosis.slice(0, 12).map((s, i) => ({
     id: `c${i + 1}`, seq: i + 1, circuitId: s.circuitId, repeatsStepId: s.id, title: s.title, request: s.request,
-    before: s.reading, after: s.reading, expected: s.expected, pass: true, takenAt: '2025-03-12T15:00:00-05:00', takenBy: TECH, superseded: [],
+    before: s.reading, after: s.reading, expected: s.expected!, pass: true, takenAt: '2025-03-12T15:00:00-05:00', takenBy: TECH, superseded: [],
   }));
   return {
     ...base,

@@ -30,7 +30,7 @@ describe('malformed views give coded, path-addressed findings', () => {
     ['a reading whose SI value disagrees with its unit (253 kΩ is 253 000 Ω)', (v) => { v.diagnosis[1]!.reading = rd('253 kΩ', 253, 'kΩ', 253, 'Ω'); }, 'reading.si_mismatch', '/diagnosis/1/reading/si'],
     ['a reading whose unit does not convert to its SI unit', (v) => { v.diagnosis[1]!.reading = rd('5 V', 5, 'V', 5, 'Ω'); }, 'reading.unit_not_convertible', '/diagnosis/1/reading/siUnit'],
     ['an over-range reading with a number in si', (v) => { v.diagnosis[5]!.reading = rd('OL', null, 'Ω', 1e9, 'Ω'); }, 'reading.over_range_mismatch', '/diagnosis/5/reading'],
-    ['a voltage test recorded in ohms', (v) => { v.diagnosis[1]!.reading = rd('5 Ω', 5, 'Ω', 5, 'Ω'); v.diagnosis[1]!.expected.unit = 'Ω'; }, 'request.unit_quantity_mismatch', '/diagnosis/1/request'],
+    ['a voltage test recorded in ohms', (v) => { v.diagnosis[1]!.reading = rd('5 Ω', 5, 'Ω', 5, 'Ω'); v.diagnosis[1]!.expected!.unit = 'Ω'; }, 'request.unit_quantity_mismatch', '/diagnosis/1/request'],
     ['an expected range without bounds', (v) => { v.diagnosis[0]!.expected = { min: null, max: null, unit: '%' }; }, 'expected.no_bounds', '/diagnosis/0/expected'],
     ['an expected range upside down', (v) => { v.diagnosis[0]!.expected = { min: 25, max: 10, unit: '%' }; }, 'expected.min_above_max', '/diagnosis/0/expected'],
     ['a NaN reading', (v) => { v.diagnosis[1]!.reading.value = Number.NaN; }, 'schema.invalid_type', '/diagnosis/1/reading/value'],

@@ -24,9 +24,10 @@ export interface TestApi {
   close(): Promise<void>;
 }
 
-export async function startApi(backend: Backend): Promise<TestApi> {
+/** `fixtures: false` starts on an empty (migrated) database instead of the two test shops. */
+export async function startApi(backend: Backend, options: { fixtures?: boolean } = {}): Promise<TestApi> {
   const db = await testDatabase(backend);
-  await seedShops(db.prisma);
+  if (options.fixtures !== false) await seedShops(db.prisma);
   const config = loadConfig({ PORT: '0', TRACEBAY_DEMO: 'false', LOG_LEVEL: 'error' });
   const app = await createApp(config, db, new AppLogger('error'));
   await app.listen(0, '127.0.0.1');

@@ -5,7 +5,7 @@ CREATE TYPE "Role" AS ENUM ('technician', 'foreman', 'admin');
 CREATE TYPE "RepairOrderStatus" AS ENUM ('open', 'diagnosing', 'repaired', 'verified', 'closed');
 
 -- CreateEnum
-CREATE TYPE "CircuitKind" AS ENUM ('three_wire_5v', 'two_wire_thermistor');
+CREATE TYPE "CircuitKind" AS ENUM ('three_wire_5v', 'two_wire_thermistor', 'shared_5v_reference');
 
 -- CreateEnum
 CREATE TYPE "Quantity" AS ENUM ('dc_volts', 'ohms', 'amps', 'scan_value');
@@ -133,6 +133,7 @@ CREATE TABLE "Measurement" (
     "engine" "EngineState" NOT NULL,
     "jumpers" JSONB NOT NULL DEFAULT '[]',
     "pid" VARCHAR(32),
+    "sensor" VARCHAR(64),
     "valueEntered" DOUBLE PRECISION,
     "unitEntered" VARCHAR(16) NOT NULL,
     "valueSi" DOUBLE PRECISION,
@@ -142,6 +143,7 @@ CREATE TABLE "Measurement" (
     "phase" "Phase" NOT NULL DEFAULT 'diagnosis',
     "note" TEXT NOT NULL DEFAULT '',
     "supersedesId" UUID,
+    "clientKey" VARCHAR(64),
     "takenById" UUID NOT NULL,
     "takenAt" TIMESTAMPTZ(3) NOT NULL DEFAULT CURRENT_TIMESTAMP,
 
@@ -174,6 +176,9 @@ CREATE INDEX "Circuit_repairOrderId_idx" ON "Circuit"("repairOrderId");
 
 -- CreateIndex
 CREATE UNIQUE INDEX "Measurement_supersedesId_key" ON "Measurement"("supersedesId");
+
+-- CreateIndex
+CREATE UNIQUE INDEX "Measurement_repairOrderId_clientKey_key" ON "Measurement"("repairOrderId", "clientKey");
 
 -- CreateIndex
 CREATE INDEX "Measurement_repairOrderId_takenAt_idx" ON "Measurement"("repairOrderId", "takenAt");

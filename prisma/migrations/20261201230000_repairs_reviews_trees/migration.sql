@@ -42,7 +42,7 @@ CREATE TABLE "FaultTree" (
     "id" UUID NOT NULL,
     "shopId" UUID,
     "treeId" VARCHAR(64) NOT NULL,
-    "version" VARCHAR(64) NOT NULL,
+    "version" VARCHAR(80) NOT NULL,
     "circuitKind" "CircuitKind" NOT NULL,
     "label" TEXT NOT NULL,
     "document" JSONB NOT NULL,

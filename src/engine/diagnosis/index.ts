@@ -32,6 +32,7 @@ export type { Verdict } from './reading-checks';
 export type { LoadResult } from './load-tree';
 export { TREE_FORMAT } from './tree-schema';
 export { requestKey } from './request-key';
+export { healthyOutcome, type HealthyOutcome } from './healthy-outcome';
 export { CAUTION_KINDS } from './cautions';
 export {
   expectedCostOfRepair,

@@ -4,13 +4,8 @@
  */
 import type { Jumper, MeasurementRequest } from '../vocabulary';
 
-/**
- * A measurement request as trees use it: the shared vocabulary plus, for circuits with several sensors on one
- * reference, which sensor's connector the connector state applies to (`sensor`).
- */
-export interface TreeRequest extends MeasurementRequest {
-  sensor?: string;
-}
+/** A measurement request as trees use it: the shared vocabulary (with `sensor` for shared references). */
+export type TreeRequest = MeasurementRequest;
 
 /** Stable JSON: object keys sorted, undefined dropped. Used for request keys and tree content hashes. */
 export function canonicalJson(value: unknown): string {

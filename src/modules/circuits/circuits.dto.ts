@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { CavityRoleEnum, CircuitKindEnum, text } from '../../common/validation/domain-schemas';
+import { CavityRoleEnum, CircuitUnderTestKindEnum, text } from '../../common/validation/domain-schemas';
 
 const CavityName = z
   .string()
@@ -10,9 +10,15 @@ const CavityName = z
 
 export const CreateCircuit = z
   .strictObject({
-    kind: CircuitKindEnum,
+    kind: CircuitUnderTestKindEnum,
     sensor: text(64).describe('SAE J1930 sensor term such as TP, APP, MAP, ECT, IAT, FTP, or free text'),
     label: text(80).describe('what the technician calls it, e.g. "TP sensor 2"'),
+    treeId: z
+      .string()
+      .min(1)
+      .max(64)
+      .optional()
+      .describe('fault tree to diagnose with (a shop tree id or a built-in one); by default the built-in tree for the kind'),
     cavities: z
       .record(CavityName, CavityRoleEnum)
       .default({})

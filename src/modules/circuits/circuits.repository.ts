@@ -10,15 +10,23 @@ export class CircuitsRepository {
     this.prisma = database.prisma;
   }
 
-  create(data: Prisma.CircuitUncheckedCreateInput) {
-    return this.prisma.circuit.create({ data });
+  transaction<T>(work: (tx: Prisma.TransactionClient) => Promise<T>): Promise<T> {
+    return this.prisma.$transaction(work);
+  }
+
+  create(db: Db, data: Prisma.CircuitUncheckedCreateInput) {
+    return db.circuit.create({ data, include: { faultTree: { select: { id: true, treeId: true, version: true } } } });
   }
 
   listForOrder(repairOrderId: string) {
-    return this.prisma.circuit.findMany({ where: { repairOrderId }, orderBy: [{ createdAt: 'asc' }, { id: 'asc' }] });
+    return this.prisma.circuit.findMany({
+      where: { repairOrderId },
+      orderBy: [{ createdAt: 'asc' }, { id: 'asc' }],
+      include: { faultTree: { select: { id: true, treeId: true, version: true } } },
+    });
   }
 
   findInOrder(repairOrderId: string, id: string, db: Db = this.prisma) {
-    return db.circuit.findFirst({ where: { id, repairOrderId } });
+    return db.circuit.findFirst({ where: { id, repairOrderId }, include: { faultTree: { select: { id: true, treeId: true, version: true } } } });
   }
 }

@@ -2,12 +2,15 @@ import { Injectable } from '@nestjs/common';
 import { ConflictException, NotFoundException } from '../../common/errors/domain.exception';
 import { sensorTerm } from '../../engine/sensors';
 import type { Circuit } from '../../generated/prisma/client';
+import { FaultTreeCatalog } from '../fault-trees/fault-tree-catalog.service';
 import type { Actor } from '../identity/actor';
 import { RepairOrdersRepository } from '../repair-orders/repair-orders.repository';
 import type { CreateCircuit } from './circuits.dto';
 import { CircuitsRepository } from './circuits.repository';
 
-export function circuitView(c: Circuit) {
+type CircuitWithTree = Circuit & { faultTree: { id: string; treeId: string; version: string } | null };
+
+export function circuitView(c: CircuitWithTree) {
   const term = sensorTerm(c.sensor);
   return {
     id: c.id,
@@ -17,6 +20,7 @@ export function circuitView(c: Circuit) {
     sensorTerm: term ? { term: term.term, name: term.name } : null,
     label: c.label,
     cavities: c.cavities as Record<string, string>,
+    faultTree: c.faultTree,
     createdAt: c.createdAt.toISOString(),
   };
 }
@@ -26,6 +30,7 @@ export class CircuitsService {
   constructor(
     private readonly circuits: CircuitsRepository,
     private readonly orders: RepairOrdersRepository,
+    private readonly trees: FaultTreeCatalog,
   ) {}
 
   async create(actor: Actor, repairOrderId: string, input: CreateCircuit) {
@@ -34,13 +39,17 @@ export class CircuitsService {
     if (order.status === 'closed' || order.status === 'verified') {
       throw new ConflictException('repair_order.finished', `Repair order ${order.number} is ${order.status}; reopen it with a reason to add a circuit.`);
     }
-    const created = await this.circuits.create({
-      repairOrderId,
-      kind: input.kind,
-      sensor: input.sensor,
-      label: input.label,
-      cavities: input.cavities,
-      createdById: actor.userId,
+    const created = await this.circuits.transaction(async (tx) => {
+      const tree = await this.trees.bindForCircuit(actor, input.kind, input.treeId, tx);
+      return this.circuits.create(tx, {
+        repairOrderId,
+        kind: input.kind,
+        sensor: input.sensor,
+        label: input.label,
+        cavities: input.cavities,
+        faultTreeId: tree.id,
+        createdById: actor.userId,
+      });
     });
     return circuitView(created);
   }

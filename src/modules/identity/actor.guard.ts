@@ -11,8 +11,20 @@ export const PublicRoute = () => SetMetadata(PUBLIC, true);
 
 const UserId = z.uuid();
 
+/** The bay pages remember who is at the tablet in this cookie; API clients send the header instead. */
+export const ACTOR_COOKIE = 'tracebay_user';
+
+function actorCookie(cookieHeader: string | undefined): string | undefined {
+  for (const part of cookieHeader?.split(';') ?? []) {
+    const [name, ...value] = part.trim().split('=');
+    if (name === ACTOR_COOKIE) return decodeURIComponent(value.join('='));
+  }
+  return undefined;
+}
+
 /**
- * Identifies the caller from the `X-Tracebay-User` header (a user id). Sign-in replaces the header with
+ * Identifies the caller from the `X-Tracebay-User` header (a user id), or for the pages the `tracebay_user`
+ * cookie. Sign-in replaces the header with
  * sessions and tokens; until then this still makes every write record who did it and scopes every query
  * to that user's shop.
  */
@@ -26,7 +38,7 @@ export class ActorGuard implements CanActivate {
   async canActivate(context: ExecutionContext): Promise<boolean> {
     if (this.reflector.getAllAndOverride<boolean>(PUBLIC, [context.getHandler(), context.getClass()])) return true;
     const request = context.switchToHttp().getRequest<RequestWithActor>();
-    const header = request.header(ACTOR_HEADER);
+    const header = request.header(ACTOR_HEADER) ?? actorCookie(request.header('cookie'));
     const finding = (message: string) =>
       new DomainException('unauthenticated', 'actor.missing', message, [
         { code: 'actor.invalid', path: `headers.${ACTOR_HEADER}`, message },

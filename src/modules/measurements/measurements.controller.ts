@@ -1,4 +1,5 @@
-import { Body, Controller, Get, Post } from '@nestjs/common';
+import { Body, Controller, Get, Post, Res } from '@nestjs/common';
+import type { Response } from 'express';
 import { ApiBody, ApiOperation, ApiSecurity, ApiTags } from '@nestjs/swagger';
 import { openApiSchema, UuidParam, ZQuery } from '../../common/validation/zod-input';
 import { CurrentActor, type Actor } from '../identity/actor';
@@ -17,8 +18,11 @@ export class MeasurementsController {
     description: 'A correction is a new reading with `supersedes` naming the one it replaces; nothing is edited or deleted.',
   })
   @ApiBody({ schema: openApiSchema(MeasurementBody) })
-  record(@CurrentActor() actor: Actor, @UuidParam('id') id: string, @Body() body: unknown) {
-    return this.service.record(actor, id, body);
+  async record(@CurrentActor() actor: Actor, @UuidParam('id') id: string, @Body() body: unknown, @Res({ passthrough: true }) res: Response) {
+    const { replayed, result } = await this.service.record(actor, id, body);
+    // A re-sent reading (same clientKey) is answered with what was stored, as 200 rather than 201.
+    if (replayed) res.status(200);
+    return result;
   }
 
   @Get()

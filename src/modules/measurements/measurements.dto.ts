@@ -1,36 +1,11 @@
 import { z } from 'zod';
 import { checkReading } from '../../engine/units';
-import {
-  ConnectorEnum,
-  EngineEnum,
-  IsoTime,
-  JumperSchema,
-  KeyEnum,
-  LocationEnum,
-  optionalText,
-  PhaseEnum,
-  PointEnum,
-  QuantityEnum,
-} from '../../common/validation/domain-schemas';
+import { IsoTime, MeasurementRequestFields, optionalText, PhaseEnum, refineRequest } from '../../common/validation/domain-schemas';
 
 export const MeasurementInput = z
   .strictObject({
     circuitId: z.uuid(),
-    quantity: QuantityEnum,
-    at: PointEnum,
-    against: PointEnum.optional().describe('second lead; omit for scan_value'),
-    location: LocationEnum,
-    connector: ConnectorEnum,
-    key: KeyEnum,
-    engine: EngineEnum,
-    jumpers: z.array(JumperSchema).max(4, 'at most 4 jumpers').default([]),
-    pid: z
-      .string()
-      .trim()
-      .min(1)
-      .max(32)
-      .regex(/^[A-Za-z0-9 _.-]+$/, 'a PID such as "11" or a short parameter name')
-      .optional(),
+    ...MeasurementRequestFields,
     value: z
       .union([z.number(), z.literal('OL')])
       .describe('the reading as shown on the meter, or "OL" when it showed over-range (e.g. ohms across an open)'),
@@ -39,21 +14,17 @@ export const MeasurementInput = z
     phase: PhaseEnum.default('diagnosis'),
     note: optionalText(2000).default(''),
     supersedes: z.uuid().optional().describe('id of the reading this one corrects'),
+    clientKey: z
+      .string()
+      .min(8)
+      .max(64)
+      .regex(/^[A-Za-z0-9_-]+$/, 'letters, digits, "-" and "_"')
+      .optional()
+      .describe('chosen by the client per reading: sending the same key again returns the stored reading instead of a second one'),
     takenAt: IsoTime.optional(),
   })
   .superRefine((m, ctx) => {
-    if (m.quantity !== 'scan_value' && !m.against) {
-      ctx.addIssue({ code: 'custom', path: ['against'], message: `a ${m.quantity} reading needs the second lead: against one of reference, signal, ground, battery_negative, battery_positive, chassis_ground` });
-    }
-    if (m.quantity === 'scan_value' && m.against) {
-      ctx.addIssue({ code: 'custom', path: ['against'], message: 'a scan_value is read from the scan tool: leave against out' });
-    }
-    if (m.against && m.against === m.at) {
-      ctx.addIssue({ code: 'custom', path: ['against'], message: 'the two leads must be on different points' });
-    }
-    if (m.pid && m.quantity !== 'scan_value') {
-      ctx.addIssue({ code: 'custom', path: ['pid'], message: 'pid belongs to scan_value readings only' });
-    }
+    refineRequest(m, ctx);
     if (m.takenAt && Date.parse(m.takenAt) > Date.now() + 5 * 60_000) {
       ctx.addIssue({ code: 'custom', path: ['takenAt'], message: 'a reading cannot be taken in the future' });
     }

@@ -33,6 +33,11 @@ export class MeasurementsRepository {
     });
   }
 
+  byClientKeys(repairOrderId: string, keys: string[], db: Db = this.prisma): Promise<MeasurementRow[]> {
+    if (keys.length === 0) return Promise.resolve([]);
+    return db.measurement.findMany({ where: { repairOrderId, clientKey: { in: keys } }, include: measurementInclude });
+  }
+
   async insertMany(db: Db, rows: Prisma.MeasurementUncheckedCreateInput[]): Promise<MeasurementRow[]> {
     const created: MeasurementRow[] = [];
     // One by one inside the caller's transaction: the batch keeps its order and a failure undoes all of it.

@@ -28,21 +28,41 @@ export class MeasurementsService {
     private readonly orders: RepairOrdersRepository,
   ) {}
 
-  /** One reading or a batch; a batch is stored all-or-nothing. */
-  async record(actor: Actor, repairOrderId: string, body: unknown) {
+  /**
+   * One reading or a batch; a batch is stored all-or-nothing. Readings whose `clientKey` is already stored are
+   * not stored again: the stored reading comes back instead (`replayed`), so a tablet may safely re-send.
+   */
+  async record(actor: Actor, repairOrderId: string, body: unknown): Promise<{ replayed: boolean; result: unknown }> {
     const batch = Array.isArray(body);
     const inputs = batch ? this.many.transform(body) : [this.one.transform(body)];
     const at = (i: number, field: string) => (batch ? `body.${i}.${field}` : `body.${field}`);
     try {
-      const rows = await this.measurements.transaction(async (tx) => {
-        const order = await this.orders.findHeader(actor.shopId, repairOrderId, tx);
-        if (!order) throw new NotFoundException('repair_order', repairOrderId);
-        this.requirePhases(order, inputs);
-        await this.requireReferences(repairOrderId, inputs, at, tx);
-        const now = Date.now();
-        const created = await this.measurements.insertMany(
-          tx,
-          inputs.map((m) => ({
+      return await this.store(actor, repairOrderId, inputs, batch, at);
+    } catch (error) {
+      if (isUniqueViolation(error, 'clientKey')) {
+        // The same reading arrived twice at once; the other request stored it, so this one replays it.
+        return this.store(actor, repairOrderId, inputs, batch, at);
+      }
+      if (isUniqueViolation(error, 'supersedes')) {
+        throw new ConflictException('measurement.already_corrected', 'That reading was corrected at the same moment by someone else; reload and correct the latest one.');
+      }
+      throw error;
+    }
+  }
+
+  private async store(actor: Actor, repairOrderId: string, inputs: MeasurementInput[], batch: boolean, at: (i: number, field: string) => string) {
+    const { rows, replayed } = await this.measurements.transaction(async (tx) => {
+      const order = await this.orders.findHeader(actor.shopId, repairOrderId, tx);
+      if (!order) throw new NotFoundException('repair_order', repairOrderId);
+      const stored = await this.replays(repairOrderId, inputs, at, tx);
+      const fresh = inputs.filter((m) => !m.clientKey || !stored.has(m.clientKey));
+      if (fresh.length === 0) return { rows: inputs.map((m) => stored.get(m.clientKey!)!), replayed: true };
+      this.requirePhases(order, fresh);
+      await this.requireReferences(repairOrderId, inputs, at, tx);
+      const now = Date.now();
+      const created = await this.measurements.insertMany(
+        tx,
+        fresh.map((m) => ({
             repairOrderId,
             circuitId: m.circuitId,
             quantity: m.quantity,
@@ -54,6 +74,8 @@ export class MeasurementsService {
             engine: m.engine,
             jumpers: m.jumpers,
             pid: m.pid ?? null,
+            sensor: m.sensor ?? null,
+            clientKey: m.clientKey ?? null,
             valueEntered: m.value,
             unitEntered: m.unit,
             valueSi: m.valueSi,
@@ -66,22 +88,32 @@ export class MeasurementsService {
             takenById: actor.userId,
             takenAt: new Date(m.takenAt ?? now),
           })),
-        );
-        if (order.status === 'open') {
-          // The first reading starts the diagnosis.
-          await this.orders.updateAtVersion(tx, repairOrderId, order.version, { status: 'diagnosing' });
-          await this.orders.logStatus(tx, repairOrderId, 'open', 'diagnosing', actor.userId, 'first reading recorded');
-        }
-        return created;
-      });
-      const views = rows.map(measurementView);
-      return batch ? { items: views } : views[0];
-    } catch (error) {
-      if (isUniqueViolation(error, 'supersedes')) {
-        throw new ConflictException('measurement.already_corrected', 'That reading was corrected at the same moment by someone else; reload and correct the latest one.');
+      );
+      if (order.status === 'open') {
+        // The first reading starts the diagnosis.
+        await this.orders.updateAtVersion(tx, repairOrderId, order.version, { status: 'diagnosing' });
+        await this.orders.logStatus(tx, repairOrderId, 'open', 'diagnosing', actor.userId, 'first reading recorded');
       }
-      throw error;
-    }
+      const byInput = new Map(fresh.map((m, i) => [m, created[i]!]));
+      return { rows: inputs.map((m) => byInput.get(m) ?? stored.get(m.clientKey!)!), replayed: false };
+    });
+    const views = rows.map(measurementView);
+    return { replayed, result: batch ? { items: views } : views[0] };
+  }
+
+  /** Stored readings for the batch's client keys; a key reused for a different reading is refused. */
+  private async replays(repairOrderId: string, inputs: MeasurementInput[], at: (i: number, field: string) => string, tx: Prisma.TransactionClient) {
+    const keys = inputs.flatMap((m) => (m.clientKey ? [m.clientKey] : []));
+    const stored = new Map((await this.measurements.byClientKeys(repairOrderId, keys, tx)).map((r) => [r.clientKey!, r]));
+    const findings: Finding[] = [];
+    inputs.forEach((m, i) => {
+      const row = m.clientKey ? stored.get(m.clientKey) : undefined;
+      if (row && (row.circuitId !== m.circuitId || row.valueEntered !== m.value || row.quantity !== m.quantity || row.at !== m.at)) {
+        findings.push({ code: 'measurement.client_key_reused', path: at(i, 'clientKey'), message: 'this key already names a different reading; use a new key for a new reading' });
+      }
+    });
+    if (findings.length) throw new ConflictException('measurement.client_key_reused', findings[0]!.message, {}, findings);
+    return stored;
   }
 
   async list(actor: Actor, repairOrderId: string, query: ListMeasurements) {

@@ -12,6 +12,7 @@ export function requestOf(m: MeasurementRow): MeasurementRequest {
     engine: m.engine,
     jumpers: m.jumpers as unknown as Jumper[],
     ...(m.pid ? { pid: m.pid } : {}),
+    ...(m.sensor ? { sensor: m.sensor } : {}),
   };
 }
 
@@ -27,6 +28,7 @@ export function measurementView(m: MeasurementRow) {
     takenBy: m.takenBy,
     takenAt: m.takenAt.toISOString(),
     supersedes: m.supersedesId,
+    clientKey: m.clientKey,
     supersededBy: m.supersededBy
       ? { id: m.supersededBy.id, by: m.supersededBy.takenBy, at: m.supersededBy.takenAt.toISOString() }
       : null,

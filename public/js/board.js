@@ -1,0 +1,25 @@
+// The foreman's decision on one repair order: approve, return with a comment, or withdraw an approval.
+import { api, busy, showError } from './api.js';
+
+const form = document.getElementById('review-form');
+if (form) {
+  form.addEventListener('submit', async (event) => {
+    event.preventDefault();
+    const decision = event.submitter?.value || 'approved';
+    const comment = form.querySelector('#review-comment').value.trim();
+    if (decision !== 'approved' && !comment) {
+      showError(form, new Error('Say why in the comment: the technician reads it.'));
+      form.querySelector('#review-comment').focus();
+      return;
+    }
+    await busy(form, async () => {
+      try {
+        showError(form, null);
+        await api('POST', `/api/repair-orders/${form.dataset.order}/reviews`, { decision, comment });
+        location.reload();
+      } catch (error) {
+        showError(form, error);
+      }
+    });
+  });
+}

@@ -1,0 +1,133 @@
+// The guided test screen: number pad, saving a reading through the unsent queue, and showing the new state.
+import { newKey } from './api.js';
+import { bindRepairForm, bindVerifiedForm } from './forms.js';
+import { discard, enqueue, flush, unsent } from './reading-queue.js';
+
+const main = document.getElementById('main');
+let orderId = null;
+
+function parseValue(text) {
+  const t = text.trim().replace(',', '.').replace('−', '-');
+  if (/^ol$/i.test(t)) return 'OL';
+  if (!/^-?(\d+\.?\d*|\.\d+)$/.test(t)) return null;
+  return Number(t);
+}
+
+function bindPad(form) {
+  const input = form.querySelector('#reading-value');
+  const help = form.querySelector('#reading-help');
+  form.querySelectorAll('.key').forEach((key) =>
+    key.addEventListener('click', () => {
+      const k = key.dataset.key;
+      let v = input.value === 'OL' ? '' : input.value;
+      if (k === 'back') v = v.slice(0, -1);
+      else if (k === 'clear') v = '';
+      else if (k === 'OL') v = 'OL';
+      else if (k === '-') v = v.startsWith('-') ? v.slice(1) : `-${v}`;
+      else if (k === '.') v = v.includes('.') ? v : `${v || '0'}.`;
+      else v = v === '0' ? k : v + k;
+      input.value = v;
+      input.removeAttribute('aria-invalid');
+    }),
+  );
+  form.addEventListener('submit', (event) => {
+    event.preventDefault();
+    const entry = JSON.parse(form.dataset.entry);
+    const value = parseValue(input.value);
+    const error = form.querySelector('.form-error');
+    if (value === null) {
+      error.textContent = input.value.trim() ? `“${input.value}” is not a number. Use digits and one decimal point, or OL.` : 'Enter the reading first.';
+      error.hidden = false;
+      input.setAttribute('aria-invalid', 'true');
+      return;
+    }
+    error.hidden = true;
+    const unit = form.querySelector('input[name=unit]:checked').value;
+    const note = form.querySelector('#reading-note').value.trim();
+    const body = {
+      ...entry.request,
+      circuitId: form.dataset.circuit,
+      value,
+      unit,
+      phase: entry.phase,
+      note,
+      clientKey: newKey(),
+      takenAt: new Date().toISOString(),
+      ...(entry.supersedes ? { supersedes: entry.supersedes } : {}),
+    };
+    enqueue(form.dataset.order, body, `${value === 'OL' ? 'OL' : value} ${unit} — ${entry.title}`);
+    input.value = '';
+    form.querySelector('#reading-note').value = '';
+    help.textContent = 'Kept on this tablet. Sending…';
+    flush();
+  });
+}
+
+function renderUnsent() {
+  const box = document.getElementById('unsent');
+  if (!box) return;
+  const list = unsent(orderId);
+  box.hidden = list.length === 0;
+  box.replaceChildren();
+  if (list.length === 0) return;
+  const h = document.createElement('h2');
+  h.textContent = `Not yet saved (${list.length})`;
+  const p = document.createElement('p');
+  p.textContent = navigator.onLine
+    ? 'These readings are on this tablet only. They are being sent; the next test appears once the service has them.'
+    : 'No connection. These readings are kept on this tablet only and are sent when the connection returns.';
+  const ul = document.createElement('ul');
+  for (const entry of list) {
+    const li = document.createElement('li');
+    li.dataset.unsent = entry.key;
+    const state = entry.state === 'refused' ? `refused: ${entry.error}` : entry.state === 'sending' ? 'sending…' : 'waiting for the connection';
+    li.textContent = `${entry.label} — ${state}`;
+    if (entry.state === 'refused') {
+      li.className = 'refused';
+      const b = document.createElement('button');
+      b.type = 'button';
+      b.className = 'button small';
+      b.textContent = 'Discard';
+      b.addEventListener('click', () => discard(entry.key));
+      li.append(' ', b);
+    }
+    ul.append(li);
+  }
+  box.append(h, p, ul);
+}
+
+function bind() {
+  const form = main.querySelector('#reading-form');
+  orderId = form?.dataset.order ?? main.querySelector('[data-order]')?.dataset.order ?? orderId;
+  if (form) bindPad(form);
+  bindRepairForm(main, () => refresh());
+  bindVerifiedForm(main, () => refresh());
+  renderUnsent();
+}
+
+/** Re-renders the screen from the server: the same page, without a correction or verification choice in the URL. */
+async function refresh() {
+  const url = location.pathname;
+  try {
+    const response = await fetch(url, { credentials: 'same-origin', headers: { accept: 'text/html' } });
+    if (!response.ok) return;
+    const doc = new DOMParser().parseFromString(await response.text(), 'text/html');
+    const fresh = doc.getElementById('main');
+    if (!fresh) return;
+    history.replaceState(null, '', url);
+    main.replaceChildren(...fresh.childNodes);
+    document.title = doc.title;
+    bind();
+    main.querySelector('#entry-h, #conclusion-h, #verify-h, h1')?.focus?.();
+  } catch {
+    /* offline: the queue keeps the readings, and the screen says so */
+  }
+}
+
+window.addEventListener('tracebay:queue', (event) => {
+  renderUnsent();
+  if (event.detail && event.detail.sent > 0) refresh();
+});
+window.addEventListener('online', renderUnsent);
+window.addEventListener('offline', renderUnsent);
+bind();

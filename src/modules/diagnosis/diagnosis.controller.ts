@@ -1,0 +1,23 @@
+import { Controller, Get } from '@nestjs/common';
+import { ApiOperation, ApiSecurity, ApiTags } from '@nestjs/swagger';
+import { UuidParam } from '../../common/validation/zod-input';
+import { CurrentActor, type Actor } from '../identity/actor';
+import { DiagnosisService } from './diagnosis.service';
+
+@ApiTags('diagnosis')
+@ApiSecurity('user')
+@Controller('api/repair-orders/:id/circuits/:circuitId/diagnosis')
+export class DiagnosisController {
+  constructor(private readonly service: DiagnosisService) {}
+
+  @Get()
+  @ApiOperation({
+    summary: 'What the readings so far say: ranked causes, the next test (post its `request` back with the value), the path, and the conclusion',
+    description:
+      'Recomputed on every call from the stored readings and repairs with the fault-tree version the circuit started with; deterministic, never stored.',
+  })
+  async get(@CurrentActor() actor: Actor, @UuidParam('id') id: string, @UuidParam('circuitId') circuitId: string) {
+    const { tree, diagnosis } = await this.service.forCircuit(actor, id, circuitId);
+    return { tree: { id: tree.id, version: tree.version, title: tree.title }, ...diagnosis };
+  }
+}

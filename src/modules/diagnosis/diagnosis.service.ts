@@ -1,0 +1,67 @@
+import { Inject, Injectable } from '@nestjs/common';
+import { APP_CONFIG, type AppConfig } from '../../config/config';
+import { NotFoundException } from '../../common/errors/domain.exception';
+import { diagnose, type Diagnosis, type Reading, type Repair, type Tree } from '../../engine/diagnosis';
+import type { Actor } from '../identity/actor';
+import { CircuitsRepository } from '../circuits/circuits.repository';
+import { FaultTreeCatalog } from '../fault-trees/fault-tree-catalog.service';
+import { MeasurementsRepository, type MeasurementRow } from '../measurements/measurements.repository';
+import { requestOf } from '../measurements/measurements.view';
+import { RepairOrdersRepository } from '../repair-orders/repair-orders.repository';
+import { RepairsRepository } from '../repairs/repairs.repository';
+
+export function engineReading(m: MeasurementRow): Reading {
+  return {
+    id: m.id,
+    request: requestOf(m),
+    value: m.overload ? 'overload' : (m.valueSi as number),
+    takenAt: m.takenAt.toISOString(),
+    phase: m.phase,
+    ...(m.supersededBy ? { supersededBy: m.supersededBy.id } : {}),
+  };
+}
+
+/**
+ * The diagnosis of a circuit, recomputed from the stored readings and repairs with the tree version the circuit
+ * started with. Nothing of it is stored: the readings are the truth.
+ */
+@Injectable()
+export class DiagnosisService {
+  constructor(
+    @Inject(APP_CONFIG) private readonly config: AppConfig,
+    private readonly orders: RepairOrdersRepository,
+    private readonly circuits: CircuitsRepository,
+    private readonly measurements: MeasurementsRepository,
+    private readonly repairs: RepairsRepository,
+    private readonly trees: FaultTreeCatalog,
+  ) {}
+
+  /**
+   * `asDiagnosed`: the diagnosis as it stood before any repair (diagnosis readings only, no repairs), which is
+   * what a proof of repair states as the root cause; by default, the diagnosis now.
+   */
+  async forCircuit(
+    actor: Actor,
+    repairOrderId: string,
+    circuitId: string,
+    options: { asDiagnosed?: boolean } = {},
+  ): Promise<{ tree: Tree; diagnosis: Diagnosis; readings: MeasurementRow[] }> {
+    const order = await this.orders.findHeader(actor.shopId, repairOrderId);
+    if (!order) throw new NotFoundException('repair_order', repairOrderId);
+    const circuit = await this.circuits.findInOrder(repairOrderId, circuitId);
+    if (!circuit) throw new NotFoundException('circuit', circuitId);
+    const tree = circuit.faultTreeId
+      ? await this.trees.byStoredId(actor, circuit.faultTreeId)
+      : (await this.trees.bindForCircuit(actor, circuit.kind, undefined, this.measurements.prisma)).tree;
+    const [readings, repairs] = await Promise.all([
+      this.measurements.list(repairOrderId, { circuitId, includeSuperseded: true }),
+      this.repairs.listForOrder(repairOrderId),
+    ]);
+    const engineRepairs: Repair[] = options.asDiagnosed
+      ? []
+      : repairs.filter((r) => r.circuitId === null || r.circuitId === circuitId).map((r) => ({ id: r.id, part: r.part, at: r.at.toISOString() }));
+    const counted = options.asDiagnosed ? readings.filter((m) => m.phase === 'diagnosis') : readings;
+    const diagnosis = await diagnose(tree, counted.map(engineReading), engineRepairs, { concludeAt: this.config.concludeAt });
+    return { tree, diagnosis, readings };
+  }
+}

@@ -1,0 +1,118 @@
+import { Injectable } from '@nestjs/common';
+import { ConflictException, DomainException, InvalidInputException, NotFoundException, type Finding } from '../../common/errors/domain.exception';
+import type { Db } from '../../common/database/database.tokens';
+import { builtInTrees, loadTree, type Tree } from '../../engine/diagnosis';
+import type { CircuitKind } from '../../generated/prisma/client';
+import type { Actor } from '../identity/actor';
+import { FaultTreesRepository } from './fault-trees.repository';
+
+/** The built-in tree each kind of circuit starts with. */
+const DEFAULT_TREE: Record<CircuitKind, string> = {
+  three_wire_5v: 'three-wire-5v',
+  two_wire_thermistor: 'two-wire-thermistor',
+  shared_5v_reference: 'shared-reference',
+};
+
+function treeFindings(findings: ReadonlyArray<{ code: string; path: string; message: string; severity?: string }>, root: string): Finding[] {
+  return findings
+    .filter((f) => (f.severity ?? 'error') === 'error')
+    .map((f) => ({ code: f.code, path: f.path ? `${root}.${f.path}` : root, message: f.message }));
+}
+
+/**
+ * Every fault tree a circuit can be diagnosed with: the built-in ones and each shop's uploads, by stored version.
+ * Loaded trees are kept in memory by content version (a version never changes).
+ */
+@Injectable()
+export class FaultTreeCatalog {
+  private readonly loaded = new Map<string, Tree>();
+
+  constructor(private readonly trees: FaultTreesRepository) {
+    for (const tree of Object.values(builtInTrees())) this.loaded.set(tree.version, tree);
+  }
+
+  /**
+   * The stored tree version a new circuit starts with: the named tree (the shop's newest version, or a built-in
+   * one), else the built-in tree for the kind. A tree for another kind of circuit is refused.
+   */
+  async bindForCircuit(actor: Actor, kind: CircuitKind, treeId: string | undefined, db: Db): Promise<{ id: string; tree: Tree }> {
+    const wanted = treeId ?? DEFAULT_TREE[kind];
+    const own = treeId ? await this.trees.latestForShop(actor.shopId, treeId, db) : null;
+    if (own) {
+      const stored = (await this.trees.findVisible(actor.shopId, own.id, db))!;
+      const tree = this.load(stored.document, stored.version);
+      this.requireKind(tree, kind);
+      return { id: own.id, tree };
+    }
+    const builtIn = builtInTrees()[wanted];
+    if (!builtIn) {
+      throw new InvalidInputException([{ code: 'fault_tree.not_found', path: 'body.treeId', message: `no fault tree "${wanted}" in this shop or built in` }]);
+    }
+    this.requireKind(builtIn, kind);
+    const { row } = await this.trees.ensure(db, {
+      shopId: null,
+      treeId: builtIn.id,
+      version: builtIn.version,
+      circuitKind: builtIn.circuitKind as CircuitKind,
+      label: builtIn.title,
+      document: builtIn.document as object,
+      createdById: null,
+    });
+    return { id: row.id, tree: builtIn };
+  }
+
+  /** The loaded tree of a stored version. */
+  async byStoredId(actor: Actor, id: string, db?: Db): Promise<Tree> {
+    const stored = await this.trees.findVisible(actor.shopId, id, db);
+    if (!stored) throw new NotFoundException('fault_tree', id);
+    return this.load(stored.document, stored.version);
+  }
+
+  /** Validates and stores a shop's tree; the same document twice is the same version. */
+  async upload(actor: Actor, document: unknown, db: Db) {
+    if (actor.role === 'technician') {
+      throw new DomainException('forbidden', 'fault_tree.foreman_only', 'Only a foreman (or an admin) uploads fault trees.');
+    }
+    const result = loadTree(document);
+    if (!result.ok) throw new InvalidInputException(treeFindings(result.findings, 'body'));
+    const tree = result.tree;
+    if (builtInTrees()[tree.id]) {
+      throw new ConflictException('fault_tree.builtin_id', `"${tree.id}" is the id of a built-in tree; give the shop's tree an id of its own.`, {}, [
+        { code: 'fault_tree.builtin_id', path: 'body.id', message: 'taken by a built-in tree' },
+      ]);
+    }
+    const { row, created } = await this.trees.ensure(db, {
+      shopId: actor.shopId,
+      treeId: tree.id,
+      version: tree.version,
+      circuitKind: tree.circuitKind as CircuitKind,
+      label: tree.title,
+      document: tree.document as object,
+      createdById: actor.userId,
+    });
+    this.loaded.set(tree.version, tree);
+    return { tree: row, created, warnings: result.findings.filter((f) => f.severity !== 'error') };
+  }
+
+  builtIns() {
+    return Object.values(builtInTrees()).map((t) => ({ treeId: t.id, version: t.version, circuitKind: t.circuitKind, label: t.title, builtIn: true }));
+  }
+
+  private load(document: unknown, version: string): Tree {
+    const cached = this.loaded.get(version);
+    if (cached) return cached;
+    const result = loadTree(document);
+    // A stored document was valid when stored; failing now means the tree format itself changed.
+    if (!result.ok) throw new Error(`stored fault tree ${version} no longer loads: ${result.findings[0]?.message}`);
+    this.loaded.set(version, result.tree);
+    return result.tree;
+  }
+
+  private requireKind(tree: Tree, kind: CircuitKind): void {
+    if (tree.circuitKind !== kind) {
+      throw new InvalidInputException([
+        { code: 'fault_tree.wrong_kind', path: 'body.treeId', message: `tree "${tree.id}" is for ${tree.circuitKind} circuits, not ${kind}` },
+      ]);
+    }
+  }
+}

@@ -1,0 +1,48 @@
+import { Inject, Injectable } from '@nestjs/common';
+import { DATABASE, type Db, type OpenDatabase } from '../../common/database/database.tokens';
+import type { CircuitKind, Prisma } from '../../generated/prisma/client';
+
+const summary = {
+  id: true,
+  shopId: true,
+  treeId: true,
+  version: true,
+  circuitKind: true,
+  label: true,
+  createdAt: true,
+  createdBy: { select: { id: true, name: true } },
+} satisfies Prisma.FaultTreeSelect;
+
+@Injectable()
+export class FaultTreesRepository {
+  readonly prisma;
+
+  constructor(@Inject(DATABASE) database: OpenDatabase) {
+    this.prisma = database.prisma;
+  }
+
+  /** The stored row of a tree version; created once (a tree version is never changed). */
+  async ensure(
+    db: Db,
+    data: { shopId: string | null; treeId: string; version: string; circuitKind: CircuitKind; label: string; document: object; createdById: string | null },
+  ) {
+    const existing = await db.faultTree.findFirst({ where: { shopId: data.shopId, treeId: data.treeId, version: data.version }, select: summary });
+    if (existing) return { row: existing, created: false };
+    return { row: await db.faultTree.create({ data, select: summary }), created: true };
+  }
+
+  /** The shop's own tree versions, newest first. */
+  listForShop(shopId: string) {
+    return this.prisma.faultTree.findMany({ where: { shopId }, select: summary, orderBy: [{ createdAt: 'desc' }, { id: 'asc' }] });
+  }
+
+  /** The newest version of a shop tree id. */
+  latestForShop(shopId: string, treeId: string, db: Db = this.prisma) {
+    return db.faultTree.findFirst({ where: { shopId, treeId }, select: summary, orderBy: [{ createdAt: 'desc' }, { id: 'asc' }] });
+  }
+
+  /** A stored version visible to the shop (its own or a built-in one), with the document. */
+  findVisible(shopId: string, id: string, db: Db = this.prisma) {
+    return db.faultTree.findFirst({ where: { id, OR: [{ shopId }, { shopId: null }] }, select: { ...summary, document: true } });
+  }
+}

@@ -1,0 +1,132 @@
+/** One repair order at the bay: its circuits, adding one (or identifying the wires first), repairs, sign-off. */
+import type { Actor } from '../identity/actor';
+import type { CircuitDiagnosis, OrderDetail, RepairItem, ReviewList } from './bay.service';
+import { html, type SafeHtml } from './html';
+import { ICON, page } from './layout.view';
+import { diagnosisStatus, orderHeader, proofLink, repairsList, reviewsList } from './parts.view';
+import { percent } from './words';
+
+const KIND_WORDS: Record<string, string> = {
+  three_wire_5v: 'Three-wire 5 V sensor (reference, signal, ground)',
+  two_wire_thermistor: 'Two-wire thermistor (signal, ground)',
+  shared_5v_reference: 'One 5 V reference shared by several sensors',
+};
+const ROLES = ['reference', 'signal', 'ground', 'unknown'] as const;
+const ROLE_WORDS: Record<string, string> = { reference: '5 V reference', signal: 'Signal', ground: 'Sensor ground', unknown: 'Not known yet' };
+
+export interface Prefill {
+  kind?: string;
+  cavities?: Array<[string, string]>;
+}
+
+function circuitCard(order: OrderDetail, c: CircuitDiagnosis): SafeHtml {
+  const top = c.diagnosis.ranked[0];
+  return html`<li class="circuit-card">
+    <div><strong class="circuit-name">${c.circuit.label}</strong> <span class="muted">${c.circuit.sensor} · ${KIND_WORDS[c.circuit.kind] ?? c.circuit.kind}</span></div>
+    <div>${diagnosisStatus(c.diagnosis)} ${top ? html`Leading cause: ${top.label} (${percent(top.probability)})` : ''}
+      · ${c.readings.length} reading${c.readings.length === 1 ? '' : 's'}</div>
+    <a class="button primary" href="/bay/orders/${order.id}/circuits/${c.circuit.id}">${order.status === 'repaired' ? 'Verify the repair' : 'Guided tests'}</a>
+  </li>`;
+}
+
+function cavityRows(prefill: Prefill, kind: string): SafeHtml {
+  const defaults: Array<[string, string]> = kind === 'two_wire_thermistor' ? [['1', 'unknown'], ['2', 'unknown']] : [['A', 'unknown'], ['B', 'unknown'], ['C', 'unknown']];
+  const rows = prefill.cavities?.length ? prefill.cavities : defaults;
+  return html`${rows.map(
+    ([name, role], i) => html`<div class="row cavity-row">
+      <div class="field narrow"><label for="cav-name-${i}">Cavity</label><input id="cav-name-${i}" name="cavity" value="${name}" maxlength="8" autocomplete="off"></div>
+      <div class="field"><label for="cav-role-${i}">Wire</label><select id="cav-role-${i}" name="role">
+        ${ROLES.map((r) => html`<option value="${r}" ${r === role ? 'selected' : ''}>${ROLE_WORDS[r]}</option>`)}
+      </select></div>
+    </div>`,
+  )}`;
+}
+
+function addCircuitForm(order: OrderDetail, prefill: Prefill): SafeHtml {
+  const kind = prefill.kind && KIND_WORDS[prefill.kind] ? prefill.kind : 'three_wire_5v';
+  return html`<section class="panel" id="add-circuit" aria-labelledby="add-circuit-h">
+    <h2 id="add-circuit-h">Add a circuit to test</h2>
+    <p><a class="button" href="/bay/orders/${order.id}/wires">No diagram? Identify the wires first</a></p>
+    <form id="circuit-form" class="form" data-order="${order.id}" novalidate>
+      <fieldset class="field choice"><legend>Kind of circuit</legend>
+        ${Object.entries(KIND_WORDS).map(
+          ([k, words]) => html`<label class="choice-item"><input type="radio" name="kind" value="${k}" ${k === kind ? 'checked' : ''}> ${words}</label>`,
+        )}
+      </fieldset>
+      <div class="row">
+        <div class="field"><label for="sensor">Sensor (SAE J1930 term)</label><input id="sensor" name="sensor" list="sensor-terms" maxlength="64" required autocomplete="off">
+          <datalist id="sensor-terms"><option value="TP"><option value="APP"><option value="MAP"><option value="FTP"><option value="ECT"><option value="IAT"></datalist></div>
+        <div class="field"><label for="label">What you call it</label><input id="label" name="label" maxlength="80" required placeholder="e.g. TP sensor 1"></div>
+      </div>
+      <fieldset class="field"><legend>Connector cavities</legend>${cavityRows(prefill, kind)}</fieldset>
+      <p class="form-error" role="alert" hidden></p>
+      <button class="button primary big" type="submit">Add the circuit and start testing</button>
+    </form>
+  </section>`;
+}
+
+export function orderPage(
+  actor: Actor,
+  data: { order: OrderDetail; circuits: CircuitDiagnosis[]; repairs: RepairItem[]; reviews: ReviewList },
+  prefill: Prefill,
+): SafeHtml {
+  const { order, circuits, repairs, reviews } = data;
+  const latest = reviews.latest;
+  const finished = order.status === 'verified' || order.status === 'closed';
+  const verifications = circuits.flatMap((c) => c.verification);
+  const taken = verifications.filter((v) => v.after).length;
+  return page(
+    { title: order.number, actor, page: 'bay-order', scripts: ['order.js'], back: { href: '/bay', label: 'My repair orders' } },
+    html`${orderHeader(order)}
+    ${latest?.decision === 'returned' ? html`<p class="notice returned" role="note">${ICON.flag} <strong>Returned by ${latest.by.name}:</strong> ${latest.comment}</p>` : ''}
+    ${latest?.decision === 'approved' ? html`<p class="notice approved" role="note">${ICON.check} <strong>Approved by ${latest.by.name}.</strong> ${latest.comment}</p>` : ''}
+    <section aria-labelledby="circuits-h">
+      <h2 id="circuits-h">Circuits under test</h2>
+      ${circuits.length ? html`<ul class="circuit-list">${circuits.map((c) => circuitCard(order, c))}</ul>` : html`<p class="empty">No circuit yet: add the one the trouble code points at.</p>`}
+    </section>
+    ${finished ? '' : addCircuitForm(order, prefill)}
+    <section class="panel" aria-labelledby="repairs-h"><h2 id="repairs-h">Repairs</h2>${repairsList(repairs)}</section>
+    ${
+      order.status === 'repaired'
+        ? html`<section class="panel" aria-labelledby="verify-h"><h2 id="verify-h">Verification</h2>
+          <p>${taken} of ${verifications.length} readings taken again after the repair.</p>
+          <form id="verified-form" data-order="${order.id}" data-version="${order.version}">
+            <p class="form-error" role="alert" hidden></p>
+            <button class="button primary big" type="submit" ${taken === 0 ? 'disabled' : ''}>Mark the repair verified</button>
+          </form></section>`
+        : ''
+    }
+    <section class="panel" aria-labelledby="reviews-h"><h2 id="reviews-h">Foreman decisions</h2>${reviewsList(reviews)}</section>
+    <p>${proofLink(order)}</p>`,
+  );
+}
+
+export function wiresPage(actor: Actor, order: OrderDetail): SafeHtml {
+  const row = (name: string, i: number) => html`<div class="row cavity-reading" data-row>
+    <div class="field narrow"><label for="w-cav-${i}">Cavity</label><input id="w-cav-${i}" name="cavity" value="${name}" maxlength="8" autocomplete="off"></div>
+    <div class="field"><label for="w-volts-${i}">Volts, key on (V)</label><input id="w-volts-${i}" name="volts" inputmode="decimal" autocomplete="off"></div>
+    <div class="field"><label for="w-ohms-${i}">Ohms, key off (Ω)</label><input id="w-ohms-${i}" name="ohms" inputmode="decimal" autocomplete="off"></div>
+    <label class="check"><input type="checkbox" name="open"> Meter shows OL</label>
+  </div>`;
+  return page(
+    { title: `Identify wires · ${order.number}`, actor, page: 'bay-wires', scripts: ['wires.js'], back: { href: `/bay/orders/${order.id}`, label: order.number } },
+    html`<h1>Which wire is which?</h1>
+    <p class="lead">Unplug the sensor. For each cavity of the harness side, read volts to battery negative with the key on, then ohms to battery negative with the key off.</p>
+    <section class="cautions" aria-label="Cautions">
+      <p class="caution">${ICON.caution}<strong>Caution:</strong> <span>Turn the key off before unplugging or plugging a connector.</span></p>
+      <p class="caution">${ICON.caution}<strong>Caution:</strong> <span>Ohms checks only with the key off; never use an ohmmeter on airbag (supplemental restraint) circuits.</span></p>
+      <p class="caution">${ICON.caution}<strong>Caution:</strong> <span>Probe the terminals without spreading them. Follow the manufacturer's service information where it differs.</span></p>
+    </section>
+    <form id="wires-form" class="form" data-order="${order.id}" novalidate>
+      <fieldset class="field segmented"><legend>Kind of circuit</legend>
+        <label><input type="radio" name="circuitKind" value="three_wire_5v" checked> Three-wire 5 V</label>
+        <label><input type="radio" name="circuitKind" value="two_wire_thermistor"> Two-wire thermistor</label>
+      </fieldset>
+      <div id="wire-rows">${['A', 'B', 'C'].map(row)}</div>
+      <p><button class="button" type="button" id="add-row">Add a cavity</button></p>
+      <p class="form-error" role="alert" hidden></p>
+      <button class="button primary big" type="submit">Propose the roles</button>
+    </form>
+    <section id="wires-result" class="panel" aria-live="polite" hidden></section>`,
+  );
+}

@@ -1,0 +1,147 @@
+import { Injectable } from '@nestjs/common';
+import { NotFoundException } from '../../common/errors/domain.exception';
+import { requestKey, type Diagnosis } from '../../engine/diagnosis';
+import type { MeasurementRequest } from '../../engine/vocabulary';
+import { DiagnosisService } from '../diagnosis/diagnosis.service';
+import type { Actor } from '../identity/actor';
+import type { MeasurementRow } from '../measurements/measurements.repository';
+import { requestOf } from '../measurements/measurements.view';
+import type { ListRepairOrders } from '../repair-orders/repair-orders.dto';
+import { RepairOrdersService } from '../repair-orders/repair-orders.service';
+import { RepairsService } from '../repairs/repairs.service';
+import { ReviewsService } from '../reviews/reviews.service';
+
+export type OrderDetail = Awaited<ReturnType<RepairOrdersService['get']>>;
+export type OrderSummary = Awaited<ReturnType<RepairOrdersService['list']>>['items'][number];
+export type RepairItem = Awaited<ReturnType<RepairsService['list']>>['items'][number];
+export type ReviewList = Awaited<ReturnType<ReviewsService['list']>>;
+export type CircuitItem = Omit<OrderDetail['circuits'][number], 'cavities'> & { cavities: Record<string, string> };
+
+export interface CircuitDiagnosis {
+  circuit: CircuitItem;
+  diagnosis: Diagnosis & { tree: { id: string; version: string; title: string } };
+  readings: MeasurementRow[];
+  /** Diagnosis readings to take again after the repair, each with its latest verification reading if any. */
+  verification: VerificationItem[];
+}
+
+export interface VerificationItem {
+  index: number;
+  key: string;
+  label: string;
+  request: MeasurementRequest;
+  before: MeasurementRow;
+  after: MeasurementRow | null;
+}
+
+/** What a reading entry on the test screen is for. */
+export interface Entry {
+  mode: 'next' | 'recheck' | 'correct' | 'verify';
+  title: string;
+  request: MeasurementRequest;
+  phase: 'diagnosis' | 'verification';
+  supersedes?: string;
+  /** verify mode: which verification item. */
+  index?: number;
+}
+
+const OPEN: NonNullable<ListRepairOrders['status']> = ['open', 'diagnosing', 'repaired', 'verified'];
+
+/** Gathers what the technician's pages show, from the same services the API uses. */
+@Injectable()
+export class BayService {
+  constructor(
+    private readonly orders: RepairOrdersService,
+    private readonly diagnoses: DiagnosisService,
+    private readonly repairs: RepairsService,
+    private readonly reviews: ReviewsService,
+  ) {}
+
+  async home(actor: Actor) {
+    const query = (technicianId?: string): ListRepairOrders => ({ status: OPEN, technicianId, page: 1, pageSize: 100 });
+    const [mine, all] = await Promise.all([this.orders.list(actor, query(actor.userId)), this.orders.list(actor, query())]);
+    const mineIds = new Set(mine.items.map((o) => o.id));
+    return { mine: mine.items as OrderSummary[], others: (all.items as OrderSummary[]).filter((o) => !mineIds.has(o.id)) };
+  }
+
+  /** The repair order alone (vehicle, status, circuits), without diagnosing its circuits. */
+  header(actor: Actor, id: string): Promise<OrderDetail> {
+    return this.orders.get(actor, id);
+  }
+
+  async order(actor: Actor, id: string) {
+    const order = await this.orders.get(actor, id);
+    const circuits: CircuitDiagnosis[] = [];
+    for (const c of order.circuits) circuits.push(await this.circuit(actor, order, c.id));
+    const [repairs, reviews] = await Promise.all([this.repairs.list(actor, id), this.reviews.list(actor, id)]);
+    return { order, circuits, repairs: repairs.items, reviews };
+  }
+
+  async circuit(actor: Actor, order: OrderDetail, circuitId: string): Promise<CircuitDiagnosis> {
+    const found = order.circuits.find((c) => c.id === circuitId);
+    if (!found) throw new NotFoundException('circuit', circuitId);
+    const circuit: CircuitItem = { ...found, cavities: (found.cavities ?? {}) as Record<string, string> };
+    const { tree, diagnosis, readings } = await this.diagnoses.forCircuit(actor, order.id, circuitId);
+    return {
+      circuit,
+      diagnosis: { tree: { id: tree.id, version: tree.version, title: tree.title }, ...diagnosis },
+      readings,
+      verification: verificationItems(diagnosis, readings),
+    };
+  }
+
+  /** The reading the pad takes now: a correction or a verification when asked for, else what the diagnosis wants. */
+  entryFor(order: OrderDetail, c: CircuitDiagnosis, ask: { correct?: string; verify?: number }): Entry | null {
+    if (order.status === 'verified' || order.status === 'closed') return null;
+    if (ask.correct) {
+      const target = c.readings.find((r) => r.id === ask.correct && !r.supersededBy);
+      const phaseOk = target && (order.status === 'repaired' ? target.phase === 'verification' : target.phase === 'diagnosis');
+      if (target && phaseOk) {
+        return { mode: 'correct', title: 'Correct a reading', request: requestOf(target), phase: target.phase, supersedes: target.id };
+      }
+    }
+    if (order.status === 'repaired') {
+      const items = c.verification;
+      const chosen = items[ask.verify ?? -1] ?? items.find((v) => !v.after) ?? null;
+      if (!chosen) return null;
+      return {
+        mode: 'verify',
+        title: `After the repair: ${chosen.label}`,
+        request: chosen.request,
+        phase: 'verification',
+        index: chosen.index,
+        ...(chosen.after ? { supersedes: chosen.after.id } : {}),
+      };
+    }
+    const next = c.diagnosis.nextTest;
+    if (!next || c.diagnosis.status === 'concluded' || c.diagnosis.status === 'exhausted') return null;
+    return {
+      mode: next.recheckOf ? 'recheck' : 'next',
+      title: next.label,
+      request: next.request,
+      phase: 'diagnosis',
+      ...(next.recheckOf ? { supersedes: next.recheckOf } : {}),
+    };
+  }
+}
+
+/**
+ * The diagnosis readings that decided something, each once (the latest standing one per test), to be taken again
+ * after the repair; with the verification reading already taken for the same request, if any.
+ */
+export function verificationItems(diagnosis: Diagnosis, readings: MeasurementRow[]): VerificationItem[] {
+  const labels = new Map(diagnosis.path.flatMap((p) => (p.testLabel ? [[p.readingId, p.testLabel] as const] : [])));
+  const standing = readings.filter((r) => !r.supersededBy);
+  const before = new Map<string, MeasurementRow>();
+  for (const r of standing) if (r.phase === 'diagnosis' && labels.has(r.id)) before.set(requestKey(requestOf(r)), r);
+  const after = new Map<string, MeasurementRow>();
+  for (const r of standing) if (r.phase === 'verification') after.set(requestKey(requestOf(r)), r);
+  return [...before.entries()].map(([key, row], index) => ({
+    index,
+    key,
+    label: labels.get(row.id)!,
+    request: requestOf(row),
+    before: row,
+    after: after.get(key) ?? null,
+  }));
+}

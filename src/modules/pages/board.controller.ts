@@ -1,0 +1,49 @@
+import { Controller, Get, Header, Query, UseFilters } from '@nestjs/common';
+import { ApiExcludeController } from '@nestjs/swagger';
+import { DomainException } from '../../common/errors/domain.exception';
+import { UuidParam } from '../../common/validation/zod-input';
+import { CurrentActor, type Actor } from '../identity/actor';
+import { BayService } from './bay.service';
+import { AGE_CHOICES, BoardService } from './board.service';
+import { boardPage, reviewPage } from './board.view';
+import { PagesErrorFilter } from './pages-error.filter';
+
+function foremanOnly(actor: Actor): void {
+  if (actor.role === 'technician') {
+    throw new DomainException('forbidden', 'board.foreman_only', 'The shop board is for the foreman. Your repair orders are under “My repair orders”.');
+  }
+}
+
+/** The foreman's pages: the shop board and the review of one repair order. */
+@ApiExcludeController()
+@UseFilters(PagesErrorFilter)
+@Controller('board')
+export class BoardController {
+  constructor(
+    private readonly board: BoardService,
+    private readonly bay: BayService,
+  ) {}
+
+  @Get()
+  @Header('Content-Type', 'text/html; charset=utf-8')
+  @Header('Cache-Control', 'no-store')
+  async list(@CurrentActor() actor: Actor, @Query('technician') technician: unknown, @Query('age') age: unknown) {
+    foremanOnly(actor);
+    const technicians = await this.board.technicians(actor);
+    const filter = {
+      technicianId: typeof technician === 'string' && technicians.some((t) => t.id === technician) ? technician : undefined,
+      minAgeDays: AGE_CHOICES.find((a) => String(a.days) === age)?.days || undefined,
+    };
+    return boardPage(actor, await this.board.list(actor, filter), technicians, filter).value;
+  }
+
+  @Get('orders/:id')
+  @Header('Content-Type', 'text/html; charset=utf-8')
+  @Header('Cache-Control', 'no-store')
+  async order(@CurrentActor() actor: Actor, @UuidParam('id') id: string) {
+    foremanOnly(actor);
+    const data = await this.bay.order(actor, id);
+    const [item] = await this.board.list(actor, { orderId: id });
+    return reviewPage(actor, data, item?.flags ?? []).value;
+  }
+}

@@ -1,0 +1,40 @@
+import { ArgumentsHost, Catch, ExceptionFilter, HttpException, Logger } from '@nestjs/common';
+import type { Response } from 'express';
+import { DomainException } from '../../common/errors/domain.exception';
+import type { RequestWithActor } from '../identity/actor';
+import { ACTOR_COOKIE } from '../identity/actor.guard';
+import { errorPage } from './layout.view';
+
+const STATUS: Record<string, number> = { invalid: 400, unauthenticated: 401, forbidden: 403, not_found: 404, conflict: 409, unavailable: 503 };
+
+/**
+ * Errors on page routes become pages, not JSON: no person chosen (or one no longer active) goes to the
+ * "who is at this tablet" page; anything else is shown in the page shell with the service's own message.
+ */
+@Catch()
+export class PagesErrorFilter implements ExceptionFilter {
+  private readonly logger = new Logger('pages');
+
+  catch(error: unknown, host: ArgumentsHost): void {
+    const request = host.switchToHttp().getRequest<RequestWithActor>();
+    const response = host.switchToHttp().getResponse<Response>();
+    if (error instanceof DomainException && error.kind === 'unauthenticated') {
+      response.clearCookie(ACTOR_COOKIE, { path: '/' });
+      const next = request.method === 'GET' && request.originalUrl !== '/' ? `?next=${encodeURIComponent(request.originalUrl)}` : '';
+      response.redirect(303, `/who${next}`);
+      return;
+    }
+    let status = 500;
+    let message = 'Something went wrong on our side. Try again; if it keeps happening, tell the shop admin.';
+    if (error instanceof DomainException) {
+      status = STATUS[error.kind] ?? 500;
+      message = error.message;
+    } else if (error instanceof HttpException) {
+      status = error.getStatus();
+      message = status === 404 ? 'There is no such page.' : error.message;
+    } else {
+      this.logger.error(error instanceof Error ? (error.stack ?? error.message) : String(error));
+    }
+    response.status(status).type('html').send(errorPage(status, message, request.actor).value);
+  }
+}

@@ -1,0 +1,36 @@
+import { Module, RequestMethod, type MiddlewareConsumer, type NestModule } from '@nestjs/common';
+import { urlencoded } from 'express';
+import { DiagnosisModule } from '../diagnosis/diagnosis.module';
+import { IdentityModule } from '../identity/identity.module';
+import { RepairOrdersModule } from '../repair-orders/repair-orders.module';
+import { RepairOrdersService } from '../repair-orders/repair-orders.service';
+import { RepairsModule } from '../repairs/repairs.module';
+import { RepairsService } from '../repairs/repairs.service';
+import { ReviewsModule } from '../reviews/reviews.module';
+import { ReviewsService } from '../reviews/reviews.service';
+import { CircuitsModule } from '../circuits/circuits.module';
+import { BayController } from './bay.controller';
+import { BayService } from './bay.service';
+import { BoardController } from './board.controller';
+import { BoardService } from './board.service';
+import { PagesRepository } from './pages.repository';
+import { staticAssets } from './static-assets';
+import { VinCheckController } from './vin-check.controller';
+import { WhoController } from './who.controller';
+
+/**
+ * The pages for the bay tablet and the foreman, rendered on the server, with their static assets. The feature
+ * services are stateless, so this module builds its own instances of the ones it reads through.
+ */
+@Module({
+  imports: [IdentityModule, RepairOrdersModule, CircuitsModule, RepairsModule, ReviewsModule, DiagnosisModule],
+  controllers: [WhoController, BayController, BoardController, VinCheckController],
+  providers: [PagesRepository, BayService, BoardService, RepairOrdersService, RepairsService, ReviewsService],
+})
+export class PagesModule implements NestModule {
+  configure(consumer: MiddlewareConsumer): void {
+    consumer.apply(staticAssets()).forRoutes({ path: 'assets/*path', method: RequestMethod.GET });
+    // The "who is at this tablet" form posts as a plain HTML form.
+    consumer.apply(urlencoded({ extended: false, limit: '4kb' })).forRoutes({ path: 'who', method: RequestMethod.POST });
+  }
+}

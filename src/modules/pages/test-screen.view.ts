@@ -1,0 +1,152 @@
+/** The guided test screen: what to measure next and how, the number pad, the causes, and the path so far. */
+import type { NextTest } from '../../engine/diagnosis';
+import type { Actor } from '../identity/actor';
+import { CIRCUIT_PARTS } from '../repairs/repairs.dto';
+import type { CircuitDiagnosis, Entry, OrderDetail } from './bay.service';
+import { html, jsonAttr, type SafeHtml } from './html';
+import { ICON, page } from './layout.view';
+import { cautionList, conclusionCard, diagnosisStatus, pathList, proofLink, rankedCauses, statusTag } from './parts.view';
+import { conditions, formatSi, leads, PART_WORDS, padUnits, percent, siUnitOf } from './words';
+
+const REASON_WORDS: Record<string, string> = {
+  recheck_indeterminate: 'The last reading fell between two outcomes. Check the probe points and the connector, then measure again.',
+  recheck_contradiction: 'The readings together do not fit any cause. This one is the most likely to be wrong: take it again.',
+  crank_and_reread: 'The scan value did not change with the engine stopped. Some modules refresh only with engine speed: crank and read again.',
+};
+const MODE_HEADINGS: Record<Entry['mode'], string> = { next: 'Next test', recheck: 'Measure again', correct: 'Correct a reading', verify: 'After the repair' };
+
+function instructions(entry: Entry, c: CircuitDiagnosis, next: NextTest | null): SafeHtml {
+  const l = leads(entry.request, c.circuit.cavities);
+  const useNext = next && entry.mode !== 'correct' && entry.mode !== 'verify' ? next : null;
+  const cautions = useNext?.cautions ?? [];
+  return html`${useNext && REASON_WORDS[useNext.reason] ? html`<p class="notice">${ICON.flag} ${REASON_WORDS[useNext.reason]}</p>` : ''}
+    ${cautionList(cautions)}
+    <dl class="conditions">${conditions(entry.request).map((x) => html`<div class="condition"><dt>${x.label}</dt><dd>${x.value}</dd></div>`)}</dl>
+    <div class="leads">
+      <p class="lead-line"><span class="lead-tag lead-red">${entry.request.quantity === 'scan_value' ? 'Read' : 'Red lead'}</span> ${l.red}</p>
+      ${l.black ? html`<p class="lead-line"><span class="lead-tag lead-black">Black lead</span> ${l.black}</p>` : ''}
+      <p class="muted">${l.where}</p>
+    </div>
+    ${
+      useNext?.setups.length
+        ? html`<div class="setups"><h3>First</h3>${useNext.setups.map((s) => html`<p><strong>${s.label}</strong></p><ol>${s.steps.map((st) => html`<li>${st}</li>`)}</ol>`)}</div>`
+        : ''
+    }
+    ${useNext ? html`<h3>How</h3><ol class="procedure">${useNext.procedure.map((p) => html`<li>${p}</li>`)}</ol>` : ''}
+    ${useNext?.preconditions.length ? html`<p class="muted">Before you start: ${useNext.preconditions.join(' ')}</p>` : ''}
+    ${useNext ? expectations(useNext, entry) : ''}`;
+}
+
+function expectations(next: NextTest, entry: Entry): SafeHtml {
+  const unit = siUnitOf(entry.request.quantity);
+  const outcome = (id: string) => next.outcomes.find((o) => o.id === id)?.label ?? id;
+  return html`<h3>What each leading cause would make it read</h3>
+    <ul class="expect">${next.predictions.map(
+      (p) => html`<li><strong>${p.label}</strong> <span class="muted">(${percent(p.probability)})</span>:
+        ${p.band ? html`about ${formatSi(p.band.p50, unit)} (${formatSi(p.band.p5, unit)} to ${formatSi(p.band.p95, unit)})` : 'no prediction'}
+        → ${outcome(p.likelyOutcome)}</li>`,
+    )}</ul>`;
+}
+
+function pad(order: OrderDetail, c: CircuitDiagnosis, entry: Entry): SafeHtml {
+  const units = padUnits(entry.request.quantity);
+  const keys = ['7', '8', '9', '4', '5', '6', '1', '2', '3', '−', '0', '.'];
+  const ol = entry.request.quantity !== 'scan_value';
+  return html`<form id="reading-form" class="pad-form" novalidate data-order="${order.id}" data-circuit="${c.circuit.id}"
+      data-entry="${jsonAttr({ request: entry.request, phase: entry.phase, supersedes: entry.supersedes ?? null, mode: entry.mode, title: entry.title })}">
+    <div class="pad-display">
+      <label for="reading-value">Reading</label>
+      <input id="reading-value" name="value" inputmode="decimal" autocomplete="off" spellcheck="false" aria-describedby="reading-help">
+      <p id="reading-help" class="field-state" aria-live="polite">Type or tap the value the meter shows${ol ? ', or OL for over-range' : ''}.</p>
+    </div>
+    <fieldset class="units"><legend>Unit</legend>
+      ${units.map((u, i) => html`<label class="unit"><input type="radio" name="unit" value="${u}" ${i === 0 ? 'checked' : ''}><span>${u}</span></label>`)}
+    </fieldset>
+    <div class="pad" role="group" aria-label="Number pad">
+      ${keys.map((k) => html`<button type="button" class="key" data-key="${k === '−' ? '-' : k}" aria-label="${k === '−' ? 'minus' : k === '.' ? 'decimal point' : k}">${k}</button>`)}
+      ${ol ? html`<button type="button" class="key key-wide" data-key="OL" aria-label="over-range, OL">OL</button>` : ''}
+      <button type="button" class="key key-wide" data-key="back" aria-label="delete last digit">⌫ Delete</button>
+      <button type="button" class="key key-wide" data-key="clear" aria-label="clear the reading">Clear</button>
+    </div>
+    <div class="field"><label for="reading-note">Note (optional)</label><input id="reading-note" name="note" maxlength="2000" autocomplete="off"></div>
+    <p class="form-error" role="alert" hidden></p>
+    <button class="button primary big" type="submit">Save reading</button>
+  </form>`;
+}
+
+function repairForm(order: OrderDetail, c: CircuitDiagnosis): SafeHtml {
+  const conclusion = c.diagnosis.conclusion;
+  const part = conclusion && (CIRCUIT_PARTS as readonly string[]).includes(conclusion.repair.part) ? conclusion.repair.part : 'other';
+  const open = c.diagnosis.status === 'concluded' || c.diagnosis.status === 'exhausted';
+  return html`<details class="panel" id="repair" ${open ? 'open' : ''}>
+    <summary><h2>Record the repair</h2></summary>
+    <form id="repair-form" class="form" data-order="${order.id}" data-circuit="${c.circuit.id}" novalidate>
+      <div class="field"><label for="repair-part">Part of the circuit repaired</label><select id="repair-part" name="part">
+        ${CIRCUIT_PARTS.map((p) => html`<option value="${p}" ${p === part ? 'selected' : ''}>${PART_WORDS[p] ?? p}</option>`)}</select></div>
+      <div class="field"><label for="repair-action">What you did</label><textarea id="repair-action" name="action" rows="2" required maxlength="500">${conclusion?.repair.action ?? ''}</textarea></div>
+      <div class="field"><label for="repair-location">Where on the circuit</label><input id="repair-location" name="location" maxlength="300" placeholder="e.g. signal wire 15 cm from the sensor connector"></div>
+      <fieldset class="field"><legend>Parts used</legend><div id="parts-rows">
+        <div class="row part-row"><div class="field"><label for="part-name-0">Part</label><input id="part-name-0" name="partName" maxlength="120"></div>
+        <div class="field"><label for="part-number-0">Part number</label><input id="part-number-0" name="partNumber" maxlength="60"></div>
+        <div class="field narrow"><label for="part-qty-0">Qty</label><input id="part-qty-0" name="partQty" inputmode="numeric" value="1"></div></div>
+      </div><button type="button" class="button" id="add-part">Add a part</button></fieldset>
+      <div class="field"><label for="repair-note">Note</label><input id="repair-note" name="note" maxlength="2000"></div>
+      <p class="form-error" role="alert" hidden></p>
+      <button class="button primary big" type="submit">Save the repair</button>
+    </form>
+  </details>`;
+}
+
+function verificationPanel(order: OrderDetail, c: CircuitDiagnosis, entry: Entry | null): SafeHtml {
+  const items = c.verification;
+  const done = items.filter((v) => v.after).length;
+  return html`<section class="panel" aria-labelledby="verify-h"><h2 id="verify-h">Prove the repair: ${done} of ${items.length} taken again</h2>
+    <ul class="verify-list">${items.map(
+      (v) => html`<li class="${v.after ? 'done' : 'todo'}">
+        <span>${v.after ? ICON.check : ICON.pending} ${v.label}</span>
+        <span class="muted">before ${v.before.overload ? 'OL' : `${v.before.valueEntered} ${v.before.unitEntered}`}${v.after ? `, after ${v.after.overload ? 'OL' : `${v.after.valueEntered} ${v.after.unitEntered}`}` : ''}</span>
+        ${entry?.mode === 'verify' && entry.index === v.index ? html`<span class="pill">measuring now</span>` : html`<a class="button small" href="?verify=${v.index}">${v.after ? 'Take again' : 'Measure'}</a>`}
+      </li>`,
+    )}</ul>
+    <form id="verified-form" data-order="${order.id}" data-version="${order.version}">
+      <p class="form-error" role="alert" hidden></p>
+      <button class="button primary big" type="submit" ${done === 0 ? 'disabled' : ''}>Mark the repair verified</button>
+    </form>
+  </section>`;
+}
+
+export function testScreenPage(actor: Actor, order: OrderDetail, c: CircuitDiagnosis, entry: Entry | null): SafeHtml {
+  const d = c.diagnosis;
+  const base = `/bay/orders/${order.id}/circuits/${c.circuit.id}`;
+  const correctable = order.status === 'repaired' ? 'verification' : order.status === 'open' || order.status === 'diagnosing' ? 'diagnosis' : null;
+  return page(
+    { title: `${c.circuit.label} · ${order.number}`, actor, page: 'bay-test', scripts: ['test-screen.js'], back: { href: `/bay/orders/${order.id}`, label: order.number } },
+    html`<header class="test-head">
+      <h1>${c.circuit.label} <span class="muted">${order.number}</span></h1>
+      <p>${statusTag(order.status)} ${diagnosisStatus(d)} <span class="muted">${d.tree.title}</span></p>
+    </header>
+    <section id="unsent" class="unsent" aria-live="polite" hidden></section>
+    <div class="test-grid" data-region="work">
+      <div class="test-main">
+        ${
+          entry
+            ? html`<section class="panel entry" aria-labelledby="entry-h">
+                <p class="kicker">${MODE_HEADINGS[entry.mode]}</p>
+                <h2 id="entry-h">${entry.mode === 'verify' ? entry.title.replace(/^After the repair: /, '') : entry.title}</h2>
+                ${entry.mode === 'correct' ? html`<p class="notice">${ICON.flag} The new reading replaces the old one in the diagnosis; the old one stays on record, marked corrected. <a href="${base}">Cancel</a></p>` : ''}
+                ${instructions(entry, c, d.nextTest)}
+                ${pad(order, c, entry)}
+              </section>`
+            : ''
+        }
+        ${order.status === 'open' || order.status === 'diagnosing' ? html`${conclusionCard(d)}${repairForm(order, c)}` : ''}
+        ${order.status === 'repaired' ? verificationPanel(order, c, entry) : ''}
+        ${order.status === 'verified' || order.status === 'closed' ? html`<section class="panel"><h2>${ICON.check} Repair verified</h2><p>The foreman reviews it next.</p><p>${proofLink(order)}</p></section>` : ''}
+      </div>
+      <div class="test-side">
+        <section class="panel" aria-labelledby="causes-h"><h2 id="causes-h">Likely causes</h2>${rankedCauses(d)}</section>
+        <section class="panel" aria-labelledby="path-h"><h2 id="path-h">Path so far</h2>${pathList(c, (r) => (r.phase === correctable ? `${base}?correct=${r.id}` : undefined))}</section>
+      </div>
+    </div>`,
+  );
+}

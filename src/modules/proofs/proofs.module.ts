@@ -1,0 +1,16 @@
+import { Module } from '@nestjs/common';
+import { DiagnosisModule } from '../diagnosis/diagnosis.module';
+import { IdentityModule } from '../identity/identity.module';
+import { RepairOrdersModule } from '../repair-orders/repair-orders.module';
+import { RepairsModule } from '../repairs/repairs.module';
+import { ReviewsModule } from '../reviews/reviews.module';
+import { ProofsController } from './proofs.controller';
+import { ProofsRepository } from './proofs.repository';
+import { ProofsService } from './proofs.service';
+
+@Module({
+  imports: [IdentityModule, RepairOrdersModule, RepairsModule, ReviewsModule, DiagnosisModule],
+  controllers: [ProofsController],
+  providers: [ProofsRepository, ProofsService],
+})
+export class ProofsModule {}

@@ -1,0 +1,83 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { builtInDocuments } from '../../src/engine/diagnosis';
+import { FOREMAN_A, newVehicle, TECH_A, TECH_B } from '../support/fixtures';
+import { startApi, type TestApi } from '../support/http';
+import { diagnoseToEnd } from '../support/simulate';
+
+const THREE_WIRE_FAULTS = [
+  'reference_open',
+  'reference_short_ground',
+  'reference_short_voltage',
+  'signal_open',
+  'signal_short_ground',
+  'signal_short_voltage',
+  'signal_short_reference',
+  'ground_open',
+  'ground_high_resistance',
+  'sensor_internal',
+  'module_internal',
+] as const;
+
+describe('diagnosis over HTTP, driven by readings simulated from the circuit model', () => {
+  let api: TestApi;
+  beforeAll(async () => {
+    api = await startApi('postgresql');
+  });
+  afterAll(async () => api?.close());
+
+  async function newCircuit(body: Record<string, unknown> = { kind: 'three_wire_5v', sensor: 'TP', label: 'TP sensor 1' }) {
+    const ro = (await api.call('POST', '/api/repair-orders', { user: FOREMAN_A, body: { vehicle: newVehicle(), complaint: 'P0122 stored', codes: ['P0122'] } })).body;
+    const circuit = await api.call('POST', `/api/repair-orders/${ro.id}/circuits`, { user: TECH_A, body });
+    return { ro, circuit };
+  }
+
+  // The end-to-end check the engine promises: each listed fault, answered with the readings that fault gives,
+  // concludes on that fault (physics from the circuit model, itself checked against ngspice).
+  it.each(THREE_WIRE_FAULTS)('concludes %s from the readings that fault produces', async (hypothesis) => {
+    const { ro, circuit } = await newCircuit();
+    const diagnosis = await diagnoseToEnd(api, TECH_A, ro.id, circuit.body.id, hypothesis);
+    expect(diagnosis.status).toBe('concluded');
+    expect(diagnosis.conclusion).toMatchObject({ hypothesisId: hypothesis });
+    expect(diagnosis.conclusion.probability).toBeGreaterThanOrEqual(0.95);
+    expect(diagnosis.conclusion.decidedBy.length).toBeGreaterThan(0);
+    expect(diagnosis.tree).toMatchObject({ id: 'three-wire-5v', version: expect.stringMatching(/^sha256:/) });
+  });
+
+  it('proposes a first test whose request can be posted back as it is, with its cost and cautions', async () => {
+    const { ro, circuit } = await newCircuit();
+    const diagnosis = (await api.call('GET', `/api/repair-orders/${ro.id}/circuits/${circuit.body.id}/diagnosis`, { user: TECH_A })).body;
+    expect(diagnosis.status).toBe('testing');
+    expect(diagnosis.ranked.map((h: { id: string }) => h.id)).toEqual(expect.arrayContaining([...THREE_WIRE_FAULTS, 'unknown']));
+    expect(diagnosis.nextTest).toMatchObject({ request: expect.objectContaining({ quantity: expect.any(String) }), minutes: expect.any(Number) });
+    expect(diagnosis.nextTest.procedure.length).toBeGreaterThan(0);
+  });
+
+  it('refuses a tree made for another kind of circuit with a 400 at body.treeId', async () => {
+    const { circuit } = await newCircuit({ kind: 'three_wire_5v', sensor: 'MAP', label: 'MAP', treeId: 'two-wire-thermistor' });
+    expect(circuit.status).toBe(400);
+    expect(circuit.body.error.findings[0]).toMatchObject({ path: 'body.treeId', code: 'fault_tree.wrong_kind' });
+  });
+
+  it('stores a shop tree as a version, keeps the version a circuit started with, and names paths in a bad upload', async () => {
+    const own = { ...(builtInDocuments()[0] as unknown as Record<string, unknown>), id: 'bay-three-wire', title: 'Our three-wire tree' };
+    const first = await api.call('POST', '/api/fault-trees', { user: FOREMAN_A, body: own });
+    expect(first.status).toBe(201);
+    const again = await api.call('POST', '/api/fault-trees', { user: FOREMAN_A, body: own });
+    expect(again.status).toBe(200);
+    expect(again.body.tree.version).toBe(first.body.tree.version);
+
+    const { circuit } = await newCircuit({ kind: 'three_wire_5v', sensor: 'TP', label: 'TP 1', treeId: 'bay-three-wire' });
+    expect(circuit.body.faultTree).toMatchObject({ treeId: 'bay-three-wire', version: first.body.tree.version });
+    const changed = { ...own, title: 'Our three-wire tree, revised' };
+    const second = await api.call('POST', '/api/fault-trees', { user: FOREMAN_A, body: changed });
+    expect(second.body.tree.version).not.toBe(first.body.tree.version);
+    const kept = await api.call('GET', `/api/fault-trees/${circuit.body.faultTree.id}`, { user: TECH_A });
+    expect(kept.body.label).toBe('Our three-wire tree');
+
+    const broken = await api.call('POST', '/api/fault-trees', { user: FOREMAN_A, body: { ...own, hypotheses: 'none' } });
+    expect(broken.status).toBe(400);
+    expect(broken.body.error.findings[0].path).toMatch(/^body\.hypotheses/);
+    expect((await api.call('POST', '/api/fault-trees', { user: TECH_A, body: own })).status).toBe(403);
+    expect((await api.call('GET', `/api/fault-trees/${circuit.body.faultTree.id}`, { user: TECH_B })).status).toBe(404);
+  });
+});

@@ -1,0 +1,58 @@
+/**
+ * Debian's Chromium driven by playwright-core: launching it, screenshots at tablet size for review, and an
+ * accessibility check with axe-core (Deque's open-source rules for WCAG 2.x).
+ */
+import { existsSync, mkdirSync, readFileSync } from 'node:fs';
+import { join, resolve } from 'node:path';
+import { chromium, type Browser, type Page } from 'playwright-core';
+
+export const CHROMIUM = '/usr/bin/chromium';
+export const SCREENSHOTS = resolve(__dirname, '..', '..', 'artifacts', 'screenshots');
+
+/** A 10-inch tablet in CSS pixels, upright and on its side. */
+export const PORTRAIT = { width: 800, height: 1280 };
+export const LANDSCAPE = { width: 1280, height: 800 };
+
+export async function launch(): Promise<Browser> {
+  if (!existsSync(CHROMIUM)) throw new Error(`${CHROMIUM} is missing: apt-get install -y chromium (.ci/run does it)`);
+  // playwright-core gives every launch a fresh temporary profile (its own --user-data-dir) and adds --headless.
+  return chromium.launch({
+    executablePath: CHROMIUM,
+    headless: true,
+    args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+  });
+}
+
+/** Full-page screenshots of the current page, portrait then landscape, back in portrait afterwards. */
+export async function snap(page: Page, name: string): Promise<string[]> {
+  mkdirSync(SCREENSHOTS, { recursive: true });
+  const files: string[] = [];
+  for (const [label, size] of [['portrait', PORTRAIT], ['landscape', LANDSCAPE]] as const) {
+    await page.setViewportSize(size);
+    const file = join(SCREENSHOTS, `${name}-${label}.png`);
+    await page.screenshot({ path: file, fullPage: true });
+    files.push(file);
+  }
+  await page.setViewportSize(PORTRAIT);
+  return files;
+}
+
+const AXE_SOURCE = readFileSync(require.resolve('axe-core/axe.min.js'), 'utf8');
+
+export interface AxeProblem {
+  id: string;
+  impact: string;
+  help: string;
+  targets: string[];
+}
+
+/** Serious and critical axe-core violations on the page as it is now (WCAG 2.0/2.1/2.2 A and AA rules, best practices). */
+export async function seriousViolations(page: Page): Promise<AxeProblem[]> {
+  if (!(await page.evaluate(() => 'axe' in window))) await page.addScriptTag({ content: AXE_SOURCE });
+  const violations = await page.evaluate(async () => {
+    const axe = (window as unknown as { axe: { run: (ctx: Document, opts: object) => Promise<{ violations: Array<{ id: string; impact: string; help: string; nodes: Array<{ target: string[] }> }> }> } }).axe;
+    const result = await axe.run(document, { resultTypes: ['violations'] });
+    return result.violations.map((v) => ({ id: v.id, impact: v.impact, help: v.help, targets: v.nodes.slice(0, 3).map((n) => n.target.join(' ')) }));
+  });
+  return violations.filter((v) => v.impact === 'serious' || v.impact === 'critical');
+}
