@@ -1,19 +1,10 @@
-import { Inject, Injectable } from '@nestjs/common';
-import { DATABASE, type Db, type OpenDatabase } from '../../common/database/database.tokens';
+import { Injectable } from '@nestjs/common';
+import type { Db } from '../../common/database/database.tokens';
+import { PrismaRepository } from '../../common/database/prisma-repository';
 import type { Prisma } from '../../generated/prisma/client';
 
 @Injectable()
-export class CircuitsRepository {
-  private readonly prisma;
-
-  constructor(@Inject(DATABASE) database: OpenDatabase) {
-    this.prisma = database.prisma;
-  }
-
-  transaction<T>(work: (tx: Prisma.TransactionClient) => Promise<T>): Promise<T> {
-    return this.prisma.$transaction(work);
-  }
-
+export class CircuitsRepository extends PrismaRepository {
   create(db: Db, data: Prisma.CircuitUncheckedCreateInput) {
     return db.circuit.create({ data, include: { faultTree: { select: { id: true, treeId: true, version: true } } } });
   }

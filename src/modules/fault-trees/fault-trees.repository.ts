@@ -1,5 +1,6 @@
-import { Inject, Injectable } from '@nestjs/common';
-import { DATABASE, type Db, type OpenDatabase } from '../../common/database/database.tokens';
+import { Injectable } from '@nestjs/common';
+import type { Db } from '../../common/database/database.tokens';
+import { PrismaRepository } from '../../common/database/prisma-repository';
 import type { CircuitKind, Prisma } from '../../generated/prisma/client';
 
 const summary = {
@@ -14,13 +15,7 @@ const summary = {
 } satisfies Prisma.FaultTreeSelect;
 
 @Injectable()
-export class FaultTreesRepository {
-  readonly prisma;
-
-  constructor(@Inject(DATABASE) database: OpenDatabase) {
-    this.prisma = database.prisma;
-  }
-
+export class FaultTreesRepository extends PrismaRepository {
   /** The stored row of a tree version; created once (a tree version is never changed). */
   async ensure(
     db: Db,

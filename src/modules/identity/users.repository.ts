@@ -1,24 +1,19 @@
-import { Inject, Injectable } from '@nestjs/common';
-import { DATABASE, type Db, type OpenDatabase } from '../../common/database/database.tokens';
+import { Injectable } from '@nestjs/common';
+import type { Db } from '../../common/database/database.tokens';
+import { PrismaRepository } from '../../common/database/prisma-repository';
 
 @Injectable()
-export class UsersRepository {
-  private readonly db: Db;
-
-  constructor(@Inject(DATABASE) database: OpenDatabase) {
-    this.db = database.prisma;
-  }
-
+export class UsersRepository extends PrismaRepository {
   findActive(id: string) {
-    return this.db.user.findFirst({ where: { id, active: true }, select: { id: true, shopId: true, name: true, role: true } });
+    return this.prisma.user.findFirst({ where: { id, active: true }, select: { id: true, shopId: true, name: true, role: true } });
   }
 
-  findInShop(shopId: string, id: string, db: Db = this.db) {
+  findInShop(shopId: string, id: string, db: Db = this.prisma) {
     return db.user.findFirst({ where: { id, shopId }, select: { id: true, name: true, role: true, active: true } });
   }
 
   listInShop(shopId: string) {
-    return this.db.user.findMany({
+    return this.prisma.user.findMany({
       where: { shopId },
       orderBy: [{ role: 'asc' }, { name: 'asc' }],
       select: { id: true, name: true, email: true, role: true, active: true },
@@ -26,6 +21,6 @@ export class UsersRepository {
   }
 
   shop(shopId: string) {
-    return this.db.shop.findUniqueOrThrow({ where: { id: shopId }, select: { id: true, name: true, address: true } });
+    return this.prisma.shop.findUniqueOrThrow({ where: { id: shopId }, select: { id: true, name: true, address: true } });
   }
 }

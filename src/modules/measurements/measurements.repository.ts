@@ -1,5 +1,6 @@
-import { Inject, Injectable } from '@nestjs/common';
-import { DATABASE, type Db, type OpenDatabase } from '../../common/database/database.tokens';
+import { Injectable } from '@nestjs/common';
+import type { Db } from '../../common/database/database.tokens';
+import { PrismaRepository } from '../../common/database/prisma-repository';
 import type { Prisma } from '../../generated/prisma/client';
 
 export const measurementInclude = {
@@ -10,17 +11,7 @@ export const measurementInclude = {
 export type MeasurementRow = Prisma.MeasurementGetPayload<{ include: typeof measurementInclude }>;
 
 @Injectable()
-export class MeasurementsRepository {
-  readonly prisma;
-
-  constructor(@Inject(DATABASE) database: OpenDatabase) {
-    this.prisma = database.prisma;
-  }
-
-  transaction<T>(work: (tx: Prisma.TransactionClient) => Promise<T>): Promise<T> {
-    return this.prisma.$transaction(work);
-  }
-
+export class MeasurementsRepository extends PrismaRepository {
   circuitIds(repairOrderId: string, db: Db): Promise<Array<{ id: string }>> {
     return db.circuit.findMany({ where: { repairOrderId }, select: { id: true } });
   }

@@ -1,15 +1,9 @@
-import { Inject, Injectable } from '@nestjs/common';
-import { DATABASE, type OpenDatabase } from '../../common/database/database.tokens';
+import { Injectable } from '@nestjs/common';
+import { PrismaRepository } from '../../common/database/prisma-repository';
 import type { Prisma } from '../../generated/prisma/client';
 
 @Injectable()
-export class ProofsRepository {
-  private readonly prisma;
-
-  constructor(@Inject(DATABASE) database: OpenDatabase) {
-    this.prisma = database.prisma;
-  }
-
+export class ProofsRepository extends PrismaRepository {
   /** Remembers what an issued document stated; the same digest twice is stored once. */
   async remember(repairOrderId: string, digest: string, view: object, issuedById: string): Promise<void> {
     await this.prisma.proofIssue.createMany({ data: [{ repairOrderId, digest, view: view as Prisma.InputJsonValue, issuedById }], skipDuplicates: true });

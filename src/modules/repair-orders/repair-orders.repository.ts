@@ -1,5 +1,6 @@
-import { Inject, Injectable } from '@nestjs/common';
-import { DATABASE, type Db, type OpenDatabase } from '../../common/database/database.tokens';
+import { Injectable } from '@nestjs/common';
+import type { Db } from '../../common/database/database.tokens';
+import { PrismaRepository } from '../../common/database/prisma-repository';
 import type { Prisma, RepairOrderStatus } from '../../generated/prisma/client';
 import type { ListRepairOrders } from './repair-orders.dto';
 
@@ -27,17 +28,7 @@ const detailInclude = {
 export type RepairOrderDetail = Prisma.RepairOrderGetPayload<{ include: typeof detailInclude }>;
 
 @Injectable()
-export class RepairOrdersRepository {
-  readonly prisma;
-
-  constructor(@Inject(DATABASE) database: OpenDatabase) {
-    this.prisma = database.prisma;
-  }
-
-  transaction<T>(work: (tx: Prisma.TransactionClient) => Promise<T>): Promise<T> {
-    return this.prisma.$transaction(work);
-  }
-
+export class RepairOrdersRepository extends PrismaRepository {
   async list(shopId: string, q: ListRepairOrders) {
     const where: Prisma.RepairOrderWhereInput = {
       shopId,
