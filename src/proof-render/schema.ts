@@ -3,6 +3,7 @@
  * No defaults or transforms: the parsed value is the input, so the digest of either is the same.
  */
 import { z } from 'zod';
+import { MeasurementRequestSchema } from '../engine/request-schema';
 import {
   CIRCUIT_UNDER_TEST_KINDS, CONNECTOR_STATES, ENGINE_STATES, KEY_STATES, LOCATIONS, POINTS, QUANTITIES,
 } from '../engine/vocabulary';
@@ -38,24 +39,7 @@ const expected = z.strictObject({
   unit: z.string().min(1).max(12),
 });
 
-const jumperVia = z.discriminatedUnion('kind', [
-  z.strictObject({ kind: z.literal('fused_jumper') }),
-  z.strictObject({ kind: z.literal('resistor'), ohms: finite.refine((v) => v > 0, 'positive ohms') }),
-  z.strictObject({ kind: z.literal('voltage_source'), volts: finite }),
-]);
-
-const request = z.strictObject({
-  quantity: z.enum(QUANTITIES),
-  at: z.enum(POINTS),
-  against: z.enum(POINTS).optional(),
-  location: z.enum(LOCATIONS),
-  connector: z.enum(CONNECTOR_STATES),
-  key: z.enum(KEY_STATES),
-  engine: z.enum(ENGINE_STATES),
-  jumpers: z.array(z.strictObject({ from: z.enum(POINTS), to: z.enum(POINTS), via: jumperVia })).max(4),
-  pid: z.string().min(1).max(40).optional(),
-  sensor: z.string().min(1).max(64).optional(),
-});
+const request = MeasurementRequestSchema;
 
 const superseded = z.strictObject({
   reading,

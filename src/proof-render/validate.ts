@@ -4,10 +4,11 @@
  * the cautions the readings themselves call for). Each rule is one entry of a table, run in order.
  */
 import type { MeasurementRequest } from '../engine/vocabulary';
+import { issueCode } from '../engine/request-schema';
 import type { Finding } from './findings';
 import { proofViewSchema } from './schema';
 import { convertTo, nearlyEqual } from './units';
-import { vinCheckDigitMatches } from './vin-check';
+import { computeCheckDigit } from '../engine/vin';
 import type { CautionCode, ExpectedRange, ProofView, Reading, SupersededReading } from './view';
 import { CAUTION_CODES } from './view';
 
@@ -19,7 +20,7 @@ export function validateProofView(input: unknown): ValidationResult {
     return {
       ok: false,
       findings: parsed.error.issues.map((issue) => ({
-        code: `schema.${issue.code}`,
+        code: issueCode(issue).startsWith('request.') ? issueCode(issue) : `schema.${issue.code}`,
         path: pointer(issue.path),
         message: issue.message,
       })),
@@ -82,17 +83,10 @@ function rangeFindings(e: ExpectedRange, siUnit: string, path: string): Finding[
 
 function requestFindings(r: MeasurementRequest, siUnit: string, path: string): Finding[] {
   const out: Finding[] = [];
-  if (r.quantity === 'scan_value') {
-    if (!r.pid) out.push(f('request.pid_missing', `${path}/pid`, 'a scan value names the parameter it read'));
-    if (r.against) out.push(f('request.against_on_scan', `${path}/against`, 'a scan value has no second lead'));
-  } else if (!r.against) {
-    out.push(f('request.against_missing', `${path}/against`, `a ${r.quantity} reading needs the second lead's point`));
-  }
   const want = QUANTITY_SI[r.quantity];
   if (want && siUnit.replace(/\u2126/g, 'Ω') !== want) {
     out.push(f('request.unit_quantity_mismatch', path, `a ${r.quantity} reading is in ${want}, but its siUnit is "${siUnit}"`));
   }
-  if (r.key === 'off' && r.engine !== 'off') out.push(f('request.engine_without_key', `${path}/engine`, `engine ${r.engine} with the key off`));
   return out;
 }
 
@@ -211,3 +205,9 @@ const RULES: Rule[] = [
     return out;
   },
 ];
+
+/** Whether position 9 carries the 49 CFR 565 check digit (the engine's VIN rule). */
+function vinCheckDigitMatches(vin: string): boolean {
+  const computed = computeCheckDigit(vin);
+  return computed.ok && vin[8] === computed.checkDigit;
+}

@@ -15,7 +15,7 @@ const koeo = (overrides: Record<string, unknown> = {}) => ({
   ...overrides,
 });
 const keyOffOhms = (overrides: Record<string, unknown> = {}) => koeo({ quantity: 'ohms', key: 'off', ...overrides });
-const scan = { quantity: 'scan_value', at: 'signal', location: 'module_connector', connector: 'plugged', key: 'on', engine: 'off' };
+const scan = { quantity: 'scan_value', at: 'signal', location: 'module_connector', connector: 'plugged', key: 'on', engine: 'off', pid: 'signal_volts' };
 
 /** Rows [title, body, path] → [title, path, body], so that the test name carries the path. */
 const byPath = (rows: Array<[string, Record<string, unknown>, string]>) => rows.map(([name, body, path]) => [name, path, body] as const);

@@ -93,6 +93,8 @@ describe.each(BACKENDS)('circuits and measurements over HTTP on the %s database'
     ['a jumper through an unknown device', 'body.jumpers.0.via.kind', { jumpers: [{ from: 'reference', to: 'signal', via: { kind: 'paperclip' } }] }],
     ['an unknown circuit', 'body.circuitId', { circuitId: '00000000-0000-4000-8000-000000000000' }],
     ['an unknown field', 'body', { colour: 'red' }],
+    ['a scan value that does not name its parameter', 'body.pid', { quantity: 'scan_value', against: undefined }],
+    ['the engine running with the key off', 'body.engine', { key: 'off', engine: 'running' }],
   ])('refuses %s with a 400 at %s', async (_name, path, overrides) => {
     const res = await post(reading(overrides));
     expect(res.status).toBe(400);

@@ -3,7 +3,6 @@ import {
   ProofViewError, renderProof, requiredCautions, tryRenderProof, validateProofView, type ProofView,
 } from '../../src/proof-render';
 import { convertTo } from '../../src/proof-render/units';
-import { vinCheckCharacter } from '../../src/proof-render/vin-check';
 import { manyReadingsView, notVerifiedView, rd, sampleView } from './fixtures';
 
 type Edit = (v: ProofView) => void;
@@ -110,14 +109,5 @@ describe('units and VIN helpers', () => {
     [29.9213, 'inHg', 'Pa', 101_325, '1 atm = 29.9213 inHg, computed from NIST SP 811 appendix B'],
   ])('converts %d %s to %d %s (%s)', (value, unit, siUnit, expected) => {
     expect(convertTo(value, unit, siUnit)).toBeCloseTo(expected, expected > 1000 ? 0 : 9);
-  });
-
-  it.each([
-    ['1M8GDM9AXKP042788', 'X', 'weighted sum 351 (check-value notes, 49 CFR 565.15)'],
-    ['1G4AH59H45G118341', '4', 'the regulation\'s own sample'],
-    ['11111111111111111', '1', 'all ones (check-value notes)'],
-    ['SGZCZ43D13S812715', 'X', 'sum 384 needs X (check-value notes)'],
-  ])('computes the 49 CFR 565.15 check character of %s as %s (%s)', (vin, check) => {
-    expect(vinCheckCharacter(vin)).toBe(check);
   });
 });

@@ -6,6 +6,7 @@
 import { Body, Param, PipeTransform, Query } from '@nestjs/common';
 import { ApiBody, ApiParam, ApiQuery } from '@nestjs/swagger';
 import { z, type ZodType } from 'zod';
+import { issueCode } from '../../engine/request-schema';
 import { InvalidInputException, type Finding } from '../errors/domain.exception';
 
 export function openApiSchema(schema: ZodType): Record<string, unknown> {
@@ -16,7 +17,7 @@ export function openApiSchema(schema: ZodType): Record<string, unknown> {
 
 export function zodFindings(error: z.ZodError, root: string): Finding[] {
   return error.issues.map((issue) => ({
-    code: `${root}.${issue.code}`,
+    code: issueCode(issue).startsWith('request.') ? issueCode(issue) : `${root}.${issue.code}`,
     path: [root, ...issue.path.map(String)].join('.'),
     message: issue.message,
   }));

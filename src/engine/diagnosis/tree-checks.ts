@@ -41,20 +41,6 @@ export const TREE_CHECKS: readonly TreeCheck[] = [
     },
   },
   {
-    name: 'request shape per quantity',
-    run: (doc) =>
-      doc.tests.flatMap((t, i) => {
-        const path = joinPath('tests', i, 'request');
-        if (t.request.quantity === 'scan_value') {
-          return [
-            ...(t.request.pid ? [] : [finding('tree.request.pid_missing', joinPath(path, 'pid'), 'a scan_value request names the parameter read (pid)')]),
-            ...(t.request.against ? [finding('tree.request.against_not_allowed', joinPath(path, 'against'), 'a scan_value is read from the scan tool: no second lead')] : []),
-          ];
-        }
-        return t.request.against ? [] : [finding('tree.request.against_missing', joinPath(path, 'against'), `a ${t.request.quantity} reading needs the second lead (against)`)];
-      }),
-  },
-  {
     name: 'distinct requests',
     run: (doc) => {
       const seen = new Map<string, string>();

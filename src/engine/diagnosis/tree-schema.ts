@@ -3,14 +3,7 @@
  * path; cross-references (ids, guard bands, likelihood rows) are checked afterwards in `load-tree.ts`.
  */
 import { z } from 'zod';
-import {
-  CONNECTOR_STATES,
-  ENGINE_STATES,
-  KEY_STATES,
-  LOCATIONS,
-  POINTS,
-  QUANTITIES,
-} from '../vocabulary';
+import { issueCode, MeasurementRequestSchema } from '../request-schema';
 import type { TreeRequest } from './request-key';
 import { finding, type Finding } from './findings';
 
@@ -20,25 +13,7 @@ const id = z.string().regex(/^[a-z][a-z0-9_]*$/, 'expected a lower-case id: lett
 const text = z.string().trim().min(1, 'expected non-empty text');
 const probability = z.number().min(0).max(1);
 
-const jumperVia = z.discriminatedUnion('kind', [
-  z.strictObject({ kind: z.literal('fused_jumper') }),
-  z.strictObject({ kind: z.literal('resistor'), ohms: z.number().positive() }),
-  z.strictObject({ kind: z.literal('voltage_source'), volts: z.number() }),
-]);
-
-export const requestSchema = z.strictObject({
-  quantity: z.enum(QUANTITIES),
-  at: z.enum(POINTS),
-  against: z.enum(POINTS).optional(),
-  location: z.enum(LOCATIONS),
-  connector: z.enum(CONNECTOR_STATES),
-  key: z.enum(KEY_STATES),
-  engine: z.enum(ENGINE_STATES),
-  jumpers: z.array(z.strictObject({ from: z.enum(POINTS), to: z.enum(POINTS), via: jumperVia })),
-  pid: z.string().min(1).optional(),
-  /** Which sensor on a shared reference the connector state applies to (see TreeRequest). */
-  sensor: id.optional(),
-});
+export const requestSchema = MeasurementRequestSchema;
 
 /** A json-rules-engine condition: `all` / `any` / `not` nodes over fact comparisons. */
 export type RuleCondition =
@@ -135,7 +110,7 @@ export function parseTreeDocument(input: unknown): { document?: TreeDocument; fi
   if (result.success) return { document: result.data, findings: [] };
   return {
     findings: result.error.issues.map((issue) =>
-      finding(`tree.schema.${issue.code}`, pathOf(issue.path) || '$', issue.message),
+      finding(`tree.${issueCode(issue).replace(/^(?!request\.)/, 'schema.')}`, pathOf(issue.path) || '$', issue.message),
     ),
   };
 }
@@ -146,7 +121,7 @@ export function parseRequest(input: unknown, path: string): { request?: TreeRequ
   if (result.success) return { request: result.data, findings: [] };
   return {
     findings: result.error.issues.map((issue) =>
-      finding(`reading.request.${issue.code}`, [path, pathOf(issue.path)].filter(Boolean).join('.'), issue.message),
+      finding(`reading.${issueCode(issue).replace(/^(?!request\.)/, 'request.')}`, [path, pathOf(issue.path)].filter(Boolean).join('.'), issue.message),
     ),
   };
 }

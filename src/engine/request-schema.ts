@@ -1,0 +1,69 @@
+/**
+ * The measurement request as a validation schema (zod): the one definition used by fault-tree documents, the
+ * proof view and the HTTP API, so a test's `request` and a posted reading are checked by the same rules.
+ */
+import { z } from 'zod';
+import { CONNECTOR_STATES, ENGINE_STATES, KEY_STATES, LOCATIONS, POINTS, QUANTITIES } from './vocabulary';
+
+export const PointSchema = z.enum(POINTS);
+
+export const JumperSchema = z.strictObject({
+  from: PointSchema,
+  to: PointSchema,
+  via: z.discriminatedUnion('kind', [
+    z.strictObject({ kind: z.literal('fused_jumper') }),
+    z.strictObject({ kind: z.literal('resistor'), ohms: z.number().positive('a resistance above 0 Ω').max(1e9) }),
+    z.strictObject({ kind: z.literal('voltage_source'), volts: z.number().min(-30).max(30, 'at most 30 V') }),
+  ]),
+});
+
+const label = (what: string, example: string) =>
+  z
+    .string()
+    .trim()
+    .min(1)
+    .max(64)
+    .regex(/^[A-Za-z0-9 _.()/-]+$/, `${what} such as ${example}: letters, digits, spaces and _ . ( ) / -`);
+
+/** The fields of a request, to embed in larger objects (a reading adds its value to them). */
+export const measurementRequestFields = {
+  quantity: z.enum(QUANTITIES),
+  at: PointSchema.describe('first (red) lead; for scan_value, the wire whose signal the parameter reports'),
+  against: PointSchema.optional().describe('second (black) lead; omit for scan_value'),
+  location: z.enum(LOCATIONS),
+  connector: z.enum(CONNECTOR_STATES),
+  key: z.enum(KEY_STATES),
+  engine: z.enum(ENGINE_STATES),
+  jumpers: z.array(JumperSchema).max(4, 'at most 4 jumpers').default([]),
+  pid: label('a PID', '"11" or a short parameter name').max(32).optional().describe('scan_value only: the parameter read, e.g. an SAE J1979 PID'),
+  sensor: label('a sensor name', '"MAP" or "all"').optional().describe('on a shared 5 V reference: which sensor the reading concerns, or "all"'),
+};
+
+type RequestShape = { quantity: string; at: string; against?: string; pid?: string; key: string; engine: string };
+
+/** The stable code of a rule broken across fields, read by `issueCode` (zod's own code is only "custom"). */
+function rule(ctx: z.RefinementCtx, code: string, field: string, message: string): void {
+  ctx.addIssue({ code: 'custom', path: [field], message, params: { code } });
+}
+
+/** Rules across the fields: leads for meter readings, a named parameter for scan values, a possible vehicle state. */
+export function refineMeasurementRequest(r: RequestShape, ctx: z.RefinementCtx): void {
+  if (r.key === 'off' && r.engine !== 'off') rule(ctx, 'request.engine_without_key', 'engine', `the engine cannot be ${r.engine} with the key off`);
+  if (r.quantity === 'scan_value') {
+    if (!r.pid) rule(ctx, 'request.pid_missing', 'pid', 'a scan_value names the parameter read (pid), e.g. an SAE J1979 PID such as "11"');
+    if (r.against) rule(ctx, 'request.against_on_scan', 'against', 'a scan_value is read from the scan tool: leave against out');
+    return;
+  }
+  const leads = 'one of reference, signal, ground, battery_negative, battery_positive, chassis_ground';
+  if (!r.against) rule(ctx, 'request.against_missing', 'against', `a ${r.quantity} reading needs the second lead: against ${leads}`);
+  if (r.against && r.at === r.against) rule(ctx, 'request.same_point', 'against', 'the two leads must be on different points');
+  if (r.pid) rule(ctx, 'request.pid_on_meter', 'pid', 'pid belongs to scan_value readings only');
+}
+
+/** A zod issue's code: the rule's own code where one was given, else zod's. */
+export function issueCode(issue: z.core.$ZodIssue): string {
+  const own = (issue as { params?: { code?: unknown } }).params?.code;
+  return typeof own === 'string' ? own : issue.code;
+}
+
+export const MeasurementRequestSchema = z.strictObject(measurementRequestFields).superRefine(refineMeasurementRequest);

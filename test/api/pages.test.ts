@@ -1,0 +1,152 @@
+/**
+ * The bay and board pages over plain HTTP: who is at the tablet (cookie), where each person lands, the VIN check
+ * the new-order page calls, escaping of everything a person typed, and who may see the board.
+ */
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { html, raw } from '../../src/modules/pages/html';
+import { BACKENDS } from '../support/db';
+import { FOREMAN_A, INACTIVE_A, newVehicle, TECH_A, TECH_B, VIN_SAMPLE, VIN_TEXTBOOK } from '../support/fixtures';
+import { startApi, type TestApi } from '../support/http';
+
+describe('the html template', () => {
+  it.each([
+    ['<script>alert(1)</script>', '&lt;script&gt;alert(1)&lt;/script&gt;'],
+    ['" onmouseover="x', '&quot; onmouseover=&quot;x'],
+    ["it's & <b>", 'it&#39;s &amp; &lt;b&gt;'],
+    ['`back`', '&#96;back&#96;'],
+  ])('escapes %j as %j', (input, expected) => {
+    expect(html`<p title="${input}">${input}</p>`.value).toBe(`<p title="${expected}">${expected}</p>`);
+  });
+
+  it('keeps nested templates and raw markup as they are, joins lists and drops null, undefined and booleans', () => {
+    const items = ['a<', 'b'].map((s) => html`<li>${s}</li>`);
+    expect(html`<ul>${items}</ul>${raw('<hr>')}${null}${undefined}${false}${0}`.value).toBe('<ul><li>a&lt;</li><li>b</li></ul><hr>0');
+  });
+});
+
+describe.each(BACKENDS)('bay and board pages over HTTP on the %s database', (backend) => {
+  let api: TestApi;
+  beforeAll(async () => {
+    api = await startApi(backend);
+  });
+  afterAll(async () => api?.close());
+
+  const page = (path: string, user?: string) =>
+    fetch(api.url + path, { redirect: 'manual', headers: user ? { cookie: `tracebay_user=${user}` } : {} });
+
+  it.each(['/', '/bay', '/board', '/bay/new'])('sends %s without a chosen person to the picker', async (path) => {
+    const res = await page(path);
+    expect(res.status).toBe(303);
+    expect(res.headers.get('location')).toBe(path === '/' ? '/who' : `/who?next=${encodeURIComponent(path)}`);
+  });
+
+  it('sends a cookie naming an inactive person to the picker too, and clears it', async () => {
+    const res = await page('/bay', INACTIVE_A);
+    expect(res.status).toBe(303);
+    expect(res.headers.get('set-cookie')).toMatch(/^tracebay_user=;/);
+  });
+
+  it('lists the active people of each shop on the picker, without the inactive one', async () => {
+    const res = await page('/who');
+    const text = await res.text();
+    expect(res.status).toBe(200);
+    expect(res.headers.get('content-type')).toContain('text/html');
+    expect(text).toContain('Fore Person');
+    expect(text).toContain('Tech One');
+    expect(text).toContain('Other Tech');
+    expect(text).not.toContain('Gone Away');
+  });
+
+  it.each([
+    [TECH_A, '/bay'],
+    [FOREMAN_A, '/board'],
+  ])('remembers %s in a SameSite=Lax, HttpOnly cookie and sends them to %s', async (user, home) => {
+    const res = await fetch(`${api.url}/who`, {
+      method: 'POST',
+      redirect: 'manual',
+      headers: { 'content-type': 'application/x-www-form-urlencoded' },
+      body: `user=${user}`,
+    });
+    expect(res.status).toBe(303);
+    expect(res.headers.get('location')).toBe(home);
+    const cookie = res.headers.get('set-cookie')!;
+    expect(cookie).toContain(`tracebay_user=${user}`);
+    expect(cookie).toMatch(/HttpOnly/i);
+    expect(cookie).toMatch(/SameSite=Lax/i);
+  });
+
+  it('returns to the page asked for after choosing, but never to another site', async () => {
+    const choose = (next: string) =>
+      fetch(`${api.url}/who`, { method: 'POST', redirect: 'manual', headers: { 'content-type': 'application/x-www-form-urlencoded' }, body: `user=${TECH_A}&next=${encodeURIComponent(next)}` });
+    expect((await choose('/bay/new')).headers.get('location')).toBe('/bay/new');
+    expect((await choose('//elsewhere.example/x')).headers.get('location')).toBe('/bay');
+    expect((await choose('https://elsewhere.example/')).headers.get('location')).toBe('/bay');
+  });
+
+  it('keeps the board from technicians with a page that says why', async () => {
+    const res = await page('/board', TECH_A);
+    expect(res.status).toBe(403);
+    expect(await res.text()).toContain('for the foreman');
+  });
+
+  it('answers a repair order of another shop with a not-found page', async () => {
+    const created = await api.call('POST', '/api/repair-orders', { user: TECH_A, body: { vehicle: newVehicle(), complaint: 'Stalls' } });
+    const res = await page(`/bay/orders/${created.body.id}`, TECH_B);
+    expect(res.status).toBe(404);
+    expect(res.headers.get('content-type')).toContain('text/html');
+  });
+
+  it.each([
+    // 49 CFR 565 sample VIN (check digit 4) and the textbook one (check digit X).
+    [VIN_SAMPLE, true, 'valid'],
+    [VIN_TEXTBOOK.toLowerCase(), true, 'valid'],
+    ['1M8GDM9A1KP042788', false, 'vin.check_digit_mismatch'],
+    ['1M8GDM9AXKP04278', false, 'vin.wrong_length'],
+  ])('checks the VIN %s as typed with the service rule (ok: %s, %s)', async (vin, ok, code) => {
+    const res = await api.call('GET', `/api/vins/${vin}`, { user: TECH_A });
+    expect(res.status).toBe(200);
+    expect(res.body.ok).toBe(ok);
+    if (ok) expect(res.body.checkDigit).toBe(code);
+    else expect(res.body.findings[0].code).toBe(code);
+  });
+
+  it('renders what a person typed as inert text: complaint, circuit label and a reading note', async () => {
+    const evil = '<script>alert(1)</script><img src=x onerror=alert(2)>';
+    const order = await api.call('POST', '/api/repair-orders', { user: TECH_A, body: { vehicle: newVehicle(), complaint: evil } });
+    const circuit = await api.call('POST', `/api/repair-orders/${order.body.id}/circuits`, {
+      user: TECH_A,
+      body: { kind: 'three_wire_5v', sensor: 'TP', label: `TP ${'"'}><b>x</b>`, cavities: { A: 'reference', B: 'signal', C: 'ground' } },
+    });
+    const reading = await api.call('POST', `/api/repair-orders/${order.body.id}/measurements`, {
+      user: TECH_A,
+      body: { circuitId: circuit.body.id, quantity: 'dc_volts', at: 'signal', against: 'battery_negative', location: 'sensor_connector', connector: 'backprobed', key: 'on', engine: 'off', value: 0.75, unit: 'V', note: evil },
+    });
+    expect(reading.status).toBe(201);
+    for (const path of [`/bay/orders/${order.body.id}`, `/bay/orders/${order.body.id}/circuits/${circuit.body.id}`]) {
+      const text = await (await page(path, TECH_A)).text();
+      expect(text).not.toContain('<script>alert(1)');
+      expect(text).not.toContain('<img src=x');
+      expect(text).not.toContain('<b>x</b>');
+      expect(text).toContain('&lt;script&gt;alert(1)&lt;/script&gt;');
+    }
+  });
+
+  it('serves the page assets from public/ without a build step', async () => {
+    const css = await fetch(`${api.url}/assets/css/tracebay.css`);
+    expect(css.status).toBe(200);
+    expect(css.headers.get('content-type')).toContain('text/css');
+    const js = await fetch(`${api.url}/assets/js/reading-queue.js`);
+    expect(js.headers.get('content-type')).toMatch(/javascript/);
+    expect(await js.text()).toContain('clientKey');
+    const escape = await fetch(`${api.url}/assets/%2e%2e/package.json`);
+    expect(escape.status).not.toBe(200);
+    expect(await escape.text()).not.toContain('"name": "tracebay"');
+  });
+
+  it('keeps the page routes out of the OpenAPI document, and the VIN check in it', async () => {
+    const doc = await api.call('GET', '/api/openapi.json');
+    const paths = Object.keys(doc.body.paths);
+    expect(paths).toContain('/api/vins/{vin}');
+    expect(paths.filter((p) => !p.startsWith('/api/'))).toEqual([]);
+  });
+});
