@@ -58,7 +58,7 @@ function bindPad(form) {
     enqueue(form.dataset.order, body, `${value === 'OL' ? 'OL' : value} ${unit} — ${entry.title}`);
     input.value = '';
     form.querySelector('#reading-note').value = '';
-    help.textContent = 'Kept on this tablet. Sending…';
+    help.textContent = 'Kept on this tablet: not yet saved until the list above clears.';
     flush();
   });
 }
@@ -118,7 +118,6 @@ async function refresh() {
     main.replaceChildren(...fresh.childNodes);
     document.title = doc.title;
     bind();
-    main.querySelector('#entry-h, #conclusion-h, #verify-h, h1')?.focus?.();
   } catch {
     /* offline: the queue keeps the readings, and the screen says so */
   }

@@ -47,6 +47,6 @@ export async function createApp(config: AppConfig, database: OpenDatabase, logge
       .addApiKey({ type: 'apiKey', in: 'header', name: 'X-Tracebay-User' }, 'user')
       .build(),
   );
-  SwaggerModule.setup('api/docs', app, document, { jsonDocumentUrl: 'api/openapi.json' });
+  SwaggerModule.setup('api/docs', app, document, { jsonDocumentUrl: 'api/openapi.json', customSiteTitle: 'Tracebay API' });
   return app;
 }

@@ -185,11 +185,12 @@ describe('bay tablet and foreman board in Chromium', () => {
         await enter(value, unit, { waitSaved: false });
         await expect.poll(() => page.locator('#unsent').textContent()).toContain('Not yet saved');
         await expect.poll(() => page.locator('#connection').textContent()).toContain('No connection');
-        const [queued] = await page.evaluate(() => JSON.parse(localStorage.getItem('tracebay.unsent.v1') ?? '[]') as Array<{ key: string }>);
+        // Evaluated in the page (a string: this project type-checks without the DOM library).
+        const [queued] = (await page.evaluate(`JSON.parse(localStorage.getItem('tracebay.unsent.v1') ?? '[]')`)) as Array<{ key: string }>;
         await snap(page, '07-test-offline');
         expect((await stored()).some((m) => m.clientKey === queued!.key)).toBe(false);
         await context.setOffline(false);
-        await page.evaluate(() => window.dispatchEvent(new Event('online')));
+        await page.evaluate(`window.dispatchEvent(new Event('online'))`);
         await expect.poll(() => steps().count(), { timeout: 15_000 }).toBe(saves + 1);
         saves++;
         expect((await stored()).filter((m) => m.clientKey === queued!.key)).toHaveLength(1);
@@ -279,6 +280,14 @@ describe('bay tablet and foreman board in Chromium', () => {
     const text = (await readPdf(pdf)).pages.map((p) => p.text).join('\n');
     expect(text).toContain('Fore Person');
     expect(text).toContain(roNumber);
+  });
+
+  it('has an accessibility check that does catch a serious violation (an image without text, a button without a name)', async () => {
+    const probe = await context.newPage();
+    await probe.setContent('<!doctype html><html lang="en"><title>probe</title><main><img src="x.png"><button></button></main></html>');
+    const ids = (await seriousViolations(probe)).map((v) => v.id);
+    await probe.close();
+    expect(ids).toEqual(expect.arrayContaining(['image-alt', 'button-name']));
   });
 
   it('finds no serious or critical accessibility violations on any page (axe-core)', () => {

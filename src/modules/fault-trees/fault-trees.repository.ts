@@ -21,9 +21,10 @@ export class FaultTreesRepository extends PrismaRepository {
     db: Db,
     data: { shopId: string | null; treeId: string; version: string; circuitKind: CircuitKind; label: string; document: object; createdById: string | null },
   ) {
-    const existing = await db.faultTree.findFirst({ where: { shopId: data.shopId, treeId: data.treeId, version: data.version }, select: summary });
-    if (existing) return { row: existing, created: false };
-    return { row: await db.faultTree.create({ data, select: summary }), created: true };
+    const where = { shopId: data.shopId, treeId: data.treeId, version: data.version };
+    // Insert-if-absent in one statement, so two requests binding the same version at once both succeed.
+    const { count } = await db.faultTree.createMany({ data: [data], skipDuplicates: true });
+    return { row: (await db.faultTree.findFirst({ where, select: summary }))!, created: count === 1 };
   }
 
   /** The shop's own tree versions, newest first. */

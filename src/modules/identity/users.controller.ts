@@ -1,5 +1,5 @@
 import { Controller, Get } from '@nestjs/common';
-import { ApiSecurity, ApiTags } from '@nestjs/swagger';
+import { ApiOperation, ApiSecurity, ApiTags } from '@nestjs/swagger';
 import { CurrentActor, type Actor } from './actor';
 import { UsersRepository } from './users.repository';
 
@@ -9,14 +9,14 @@ import { UsersRepository } from './users.repository';
 export class UsersController {
   constructor(private readonly users: UsersRepository) {}
 
-  /** The caller and their shop. */
   @Get('me')
+  @ApiOperation({ summary: 'Who is calling, and their shop' })
   async me(@CurrentActor() actor: Actor) {
     return { user: actor, shop: await this.users.shop(actor.shopId) };
   }
 
-  /** Everyone in the caller's shop (to assign technicians, to filter the board). */
   @Get('users')
+  @ApiOperation({ summary: 'Everyone in the caller’s shop (to assign technicians, to filter the board)' })
   async list(@CurrentActor() actor: Actor) {
     return { items: await this.users.listInShop(actor.shopId) };
   }

@@ -58,7 +58,7 @@ function addCircuitForm(order: OrderDetail, prefill: Prefill): SafeHtml {
           <datalist id="sensor-terms"><option value="TP"><option value="APP"><option value="MAP"><option value="FTP"><option value="ECT"><option value="IAT"></datalist></div>
         <div class="field"><label for="label">What you call it</label><input id="label" name="label" maxlength="80" required placeholder="e.g. TP sensor 1"></div>
       </div>
-      <fieldset class="field"><legend>Connector cavities</legend>${cavityRows(prefill, kind)}</fieldset>
+      <fieldset class="field"><legend>Connector cavities</legend><div class="cavity-list">${cavityRows(prefill, kind)}</div></fieldset>
       <p class="form-error" role="alert" hidden></p>
       <button class="button primary big" type="submit">Add the circuit and start testing</button>
     </form>

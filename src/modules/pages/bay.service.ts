@@ -1,6 +1,6 @@
 import { Injectable } from '@nestjs/common';
 import { NotFoundException } from '../../common/errors/domain.exception';
-import { requestKey, type Diagnosis } from '../../engine/diagnosis';
+import { requestKey, type Caution, type Diagnosis, type Tree } from '../../engine/diagnosis';
 import type { MeasurementRequest } from '../../engine/vocabulary';
 import { DiagnosisService } from '../diagnosis/diagnosis.service';
 import type { Actor } from '../identity/actor';
@@ -21,8 +21,23 @@ export interface CircuitDiagnosis {
   circuit: CircuitItem;
   diagnosis: Diagnosis & { tree: { id: string; version: string; title: string } };
   readings: MeasurementRow[];
+  /**
+   * The diagnosis as it stood before the repair (diagnosis readings only, no repairs), as the proof states it: after
+   * a repair the live diagnosis sets the readings on the repaired part aside, but the review needs the cause that was
+   * found. Null before any repair on this circuit.
+   */
+  atRepair: Diagnosis | null;
   /** Diagnosis readings to take again after the repair, each with its latest verification reading if any. */
   verification: VerificationItem[];
+  /** How to take each reading the tree knows, by request key (for corrections and verification). */
+  howTo: Map<string, HowTo>;
+}
+
+export interface HowTo {
+  label: string;
+  procedure: string[];
+  preconditions: string[];
+  cautions: Caution[];
 }
 
 export interface VerificationItem {
@@ -82,11 +97,15 @@ export class BayService {
     if (!found) throw new NotFoundException('circuit', circuitId);
     const circuit: CircuitItem = { ...found, cavities: (found.cavities ?? {}) as Record<string, string> };
     const { tree, diagnosis, readings } = await this.diagnoses.forCircuit(actor, order.id, circuitId);
+    const repaired = (await this.repairs.list(actor, order.id)).items.some((r) => r.circuitId === null || r.circuitId === circuitId);
+    const atRepair = repaired ? (await this.diagnoses.forCircuit(actor, order.id, circuitId, { asDiagnosed: true })).diagnosis : null;
     return {
       circuit,
       diagnosis: { tree: { id: tree.id, version: tree.version, title: tree.title }, ...diagnosis },
       readings,
+      atRepair,
       verification: verificationItems(diagnosis, readings),
+      howTo: howToByRequest(tree),
     };
   }
 
@@ -144,4 +163,13 @@ export function verificationItems(diagnosis: Diagnosis, readings: MeasurementRow
     before: row,
     after: after.get(key) ?? null,
   }));
+}
+
+function howToByRequest(tree: Tree): Map<string, HowTo> {
+  const out = new Map<string, HowTo>();
+  for (const t of tree.tests) {
+    out.set(requestKey(t.request), { label: t.label, procedure: t.procedure, preconditions: t.preconditions, cautions: t.cautions });
+    if (t.crankRequest) out.set(requestKey(t.crankRequest), { label: t.label, procedure: t.procedure, preconditions: t.preconditions, cautions: t.crankCautions });
+  }
+  return out;
 }

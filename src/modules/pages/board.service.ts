@@ -95,7 +95,9 @@ export class BoardService {
     // One at a time: a circuit seeded without a stored tree binds one on first diagnosis, and two binds at once collide.
     for (const order of orders) {
       const diagnoses: Diagnosis[] = [];
-      for (const c of order.circuits) diagnoses.push((await this.diagnoses.forCircuit(actor, order.id, c.id)).diagnosis);
+      // Once repaired, the cause found before the repair is what the board shows (the live one restarts for the part).
+      const asDiagnosed = order.status === 'repaired' || order.status === 'verified';
+      for (const c of order.circuits) diagnoses.push((await this.diagnoses.forCircuit(actor, order.id, c.id, { asDiagnosed })).diagnosis);
       const circuits = order.circuits.map((c, i) => {
         const d = diagnoses[i]!;
         return {

@@ -84,9 +84,9 @@ export function reviewPage(
     ${flagList(flags)}
     ${circuits.map(
       (c) => html`<section class="panel" aria-labelledby="c-${c.circuit.id}">
-        <h2 id="c-${c.circuit.id}">${c.circuit.label} ${diagnosisStatus(c.diagnosis)}</h2>
-        ${conclusionCard(c.diagnosis)}
-        <div class="two-col"><div><h3>Likely causes</h3>${rankedCauses(c.diagnosis)}</div>
+        <h2 id="c-${c.circuit.id}">${c.circuit.label} ${diagnosisStatus(c.atRepair ?? c.diagnosis)}</h2>
+        ${conclusionCard(c.atRepair ?? c.diagnosis)}
+        <div class="two-col"><div><h3>${c.atRepair ? 'Causes as diagnosed before the repair' : 'Likely causes'}</h3>${rankedCauses(c.atRepair ?? c.diagnosis)}</div>
         <div><h3>Path</h3>${pathList(c)}</div></div>
         ${verificationTable(c)}
       </section>`,

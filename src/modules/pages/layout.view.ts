@@ -55,6 +55,7 @@ export function page(options: PageOptions, body: Renderable): SafeHtml {
 <meta name="viewport" content="width=device-width, initial-scale=1">
 <meta name="color-scheme" content="light">
 <title>${title} · Tracebay</title>
+<link rel="icon" href="data:,">
 <link rel="stylesheet" href="/assets/css/tracebay.css">
 ${scripts.map((s) => html`<script type="module" src="/assets/js/${s}"></script>`)}
 </head>

@@ -3,11 +3,8 @@ import { urlencoded } from 'express';
 import { DiagnosisModule } from '../diagnosis/diagnosis.module';
 import { IdentityModule } from '../identity/identity.module';
 import { RepairOrdersModule } from '../repair-orders/repair-orders.module';
-import { RepairOrdersService } from '../repair-orders/repair-orders.service';
 import { RepairsModule } from '../repairs/repairs.module';
-import { RepairsService } from '../repairs/repairs.service';
 import { ReviewsModule } from '../reviews/reviews.module';
-import { ReviewsService } from '../reviews/reviews.service';
 import { CircuitsModule } from '../circuits/circuits.module';
 import { BayController } from './bay.controller';
 import { BayService } from './bay.service';
@@ -19,13 +16,13 @@ import { VinCheckController } from './vin-check.controller';
 import { WhoController } from './who.controller';
 
 /**
- * The pages for the bay tablet and the foreman, rendered on the server, with their static assets. The feature
- * services are stateless, so this module builds its own instances of the ones it reads through.
+ * The pages for the bay tablet and the foreman, rendered on the server, with their static assets. They read and
+ * write through the feature modules' own services.
  */
 @Module({
   imports: [IdentityModule, RepairOrdersModule, CircuitsModule, RepairsModule, ReviewsModule, DiagnosisModule],
   controllers: [WhoController, BayController, BoardController, VinCheckController],
-  providers: [PagesRepository, BayService, BoardService, RepairOrdersService, RepairsService, ReviewsService],
+  providers: [PagesRepository, BayService, BoardService],
 })
 export class PagesModule implements NestModule {
   configure(consumer: MiddlewareConsumer): void {

@@ -56,11 +56,15 @@ function readingValue(r: MeasurementRow): string {
  */
 export function pathList(c: CircuitDiagnosis, correctHref?: (reading: MeasurementRow) => string | undefined): SafeHtml {
   const byId = new Map(c.diagnosis.path.map((p) => [p.readingId, p]));
+  const before = new Map((c.atRepair?.path ?? []).map((p) => [p.readingId, p]));
   if (c.readings.length === 0) return html`<p class="empty">No readings yet.</p>`;
   return html`<ol class="path">
     ${c.readings.map((r, i) => {
-      const p = byId.get(r.id);
+      const live = byId.get(r.id);
+      // A reading set aside by the repair of its part: show what it meant when it was counted.
+      const p = live?.verdict === 'before_repair' ? (before.get(r.id) ?? live) : live;
       const verdict = r.supersededBy ? 'superseded' : (p?.verdict ?? 'counted');
+      const verdictWords = live?.verdict === 'before_repair' && p?.verdict === 'counted' ? 'counted in the diagnosis, before the repair' : (VERDICT_WORDS[verdict] ?? verdict);
       const fix = !r.supersededBy && correctHref ? correctHref(r) : undefined;
       return html`<li class="step verdict-${verdict}" data-reading-id="${r.id}">
         <div class="step-head">
@@ -71,7 +75,7 @@ export function pathList(c: CircuitDiagnosis, correctHref?: (reading: Measuremen
         <div class="step-detail">
           ${r.phase === 'verification' ? html`<span class="pill">${ICON.check} after repair</span>` : ''}
           ${p?.outcomeLabel ? html`<span>Outcome: ${p.outcomeLabel}</span>` : ''}
-          <span>${VERDICT_WORDS[verdict] ?? verdict}</span>
+          ${verdict === 'verification' ? '' : html`<span>${verdictWords}</span>`}
           <span>${r.takenBy.name}, ${when(r.takenAt)}</span>
           ${r.supersededBy ? html`<span class="corrected">${ICON.cross} corrected by ${r.supersededBy.takenBy.name}, ${when(r.supersededBy.takenAt)}</span>` : ''}
         </div>

@@ -6,7 +6,8 @@ import type { CircuitDiagnosis, Entry, OrderDetail } from './bay.service';
 import { html, jsonAttr, type SafeHtml } from './html';
 import { ICON, page } from './layout.view';
 import { cautionList, conclusionCard, diagnosisStatus, pathList, proofLink, rankedCauses, statusTag } from './parts.view';
-import { conditions, formatSi, leads, PART_WORDS, padUnits, percent, siUnitOf } from './words';
+import { requestKey } from '../../engine/diagnosis';
+import { conditions, formatReading, leads, PART_WORDS, padUnits, percent, siUnitOf } from './words';
 
 const REASON_WORDS: Record<string, string> = {
   recheck_indeterminate: 'The last reading fell between two outcomes. Check the probe points and the connector, then measure again.',
@@ -18,7 +19,9 @@ const MODE_HEADINGS: Record<Entry['mode'], string> = { next: 'Next test', rechec
 function instructions(entry: Entry, c: CircuitDiagnosis, next: NextTest | null): SafeHtml {
   const l = leads(entry.request, c.circuit.cavities);
   const useNext = next && entry.mode !== 'correct' && entry.mode !== 'verify' ? next : null;
-  const cautions = useNext?.cautions ?? [];
+  // Corrections and verification readings repeat a test of the tree: show its own steps and cautions.
+  const known = useNext ?? c.howTo.get(requestKey(entry.request)) ?? null;
+  const cautions = known?.cautions ?? [];
   return html`${useNext && REASON_WORDS[useNext.reason] ? html`<p class="notice">${ICON.flag} ${REASON_WORDS[useNext.reason]}</p>` : ''}
     ${cautionList(cautions)}
     <dl class="conditions">${conditions(entry.request).map((x) => html`<div class="condition"><dt>${x.label}</dt><dd>${x.value}</dd></div>`)}</dl>
@@ -32,8 +35,8 @@ function instructions(entry: Entry, c: CircuitDiagnosis, next: NextTest | null):
         ? html`<div class="setups"><h3>First</h3>${useNext.setups.map((s) => html`<p><strong>${s.label}</strong></p><ol>${s.steps.map((st) => html`<li>${st}</li>`)}</ol>`)}</div>`
         : ''
     }
-    ${useNext ? html`<h3>How</h3><ol class="procedure">${useNext.procedure.map((p) => html`<li>${p}</li>`)}</ol>` : ''}
-    ${useNext?.preconditions.length ? html`<p class="muted">Before you start: ${useNext.preconditions.join(' ')}</p>` : ''}
+    ${known ? html`<h3>How</h3><ol class="procedure">${known.procedure.map((p) => html`<li>${p}</li>`)}</ol>` : ''}
+    ${known?.preconditions.length ? html`<p class="muted">Before you start: ${known.preconditions.join(' ')}</p>` : ''}
     ${useNext ? expectations(useNext, entry) : ''}`;
 }
 
@@ -43,7 +46,7 @@ function expectations(next: NextTest, entry: Entry): SafeHtml {
   return html`<h3>What each leading cause would make it read</h3>
     <ul class="expect">${next.predictions.map(
       (p) => html`<li><strong>${p.label}</strong> <span class="muted">(${percent(p.probability)})</span>:
-        ${p.band ? html`about ${formatSi(p.band.p50, unit)} (${formatSi(p.band.p5, unit)} to ${formatSi(p.band.p95, unit)})` : 'no prediction'}
+        ${p.band ? html`about ${formatReading(p.band.p50, unit)} (${formatReading(p.band.p5, unit)} to ${formatReading(p.band.p95, unit)})` : 'no prediction'}
         → ${outcome(p.likelyOutcome)}</li>`,
     )}</ul>`;
 }
@@ -123,7 +126,7 @@ export function testScreenPage(actor: Actor, order: OrderDetail, c: CircuitDiagn
     { title: `${c.circuit.label} · ${order.number}`, actor, page: 'bay-test', scripts: ['test-screen.js'], back: { href: `/bay/orders/${order.id}`, label: order.number } },
     html`<header class="test-head">
       <h1>${c.circuit.label} <span class="muted">${order.number}</span></h1>
-      <p>${statusTag(order.status)} ${diagnosisStatus(d)} <span class="muted">${d.tree.title}</span></p>
+      <p>${statusTag(order.status)} ${diagnosisStatus(c.atRepair ?? d)} <span class="muted">${d.tree.title}</span></p>
     </header>
     <section id="unsent" class="unsent" aria-live="polite" hidden></section>
     <div class="test-grid" data-region="work">
@@ -134,8 +137,8 @@ export function testScreenPage(actor: Actor, order: OrderDetail, c: CircuitDiagn
                 <p class="kicker">${MODE_HEADINGS[entry.mode]}</p>
                 <h2 id="entry-h">${entry.mode === 'verify' ? entry.title.replace(/^After the repair: /, '') : entry.title}</h2>
                 ${entry.mode === 'correct' ? html`<p class="notice">${ICON.flag} The new reading replaces the old one in the diagnosis; the old one stays on record, marked corrected. <a href="${base}">Cancel</a></p>` : ''}
-                ${instructions(entry, c, d.nextTest)}
-                ${pad(order, c, entry)}
+                <div class="entry-body"><div class="entry-info">${instructions(entry, c, d.nextTest)}</div>
+                <div class="entry-pad">${pad(order, c, entry)}</div></div>
               </section>`
             : ''
         }
@@ -144,7 +147,7 @@ export function testScreenPage(actor: Actor, order: OrderDetail, c: CircuitDiagn
         ${order.status === 'verified' || order.status === 'closed' ? html`<section class="panel"><h2>${ICON.check} Repair verified</h2><p>The foreman reviews it next.</p><p>${proofLink(order)}</p></section>` : ''}
       </div>
       <div class="test-side">
-        <section class="panel" aria-labelledby="causes-h"><h2 id="causes-h">Likely causes</h2>${rankedCauses(d)}</section>
+        <section class="panel" aria-labelledby="causes-h"><h2 id="causes-h">${c.atRepair ? 'Causes as diagnosed before the repair' : 'Likely causes'}</h2>${rankedCauses(c.atRepair ?? d)}</section>
         <section class="panel" aria-labelledby="path-h"><h2 id="path-h">Path so far</h2>${pathList(c, (r) => (r.phase === correctable ? `${base}?correct=${r.id}` : undefined))}</section>
       </div>
     </div>`,

@@ -75,7 +75,7 @@ export interface LeadWords {
 export function leads(request: MeasurementRequest, cavities: Record<string, string> = {}): LeadWords {
   const where = LOCATION_WORDS[request.location];
   if (request.quantity === 'scan_value') {
-    return { red: `Scan tool: read ${request.pid ?? 'the parameter'} (the ${POINT_WORDS[request.at]})`, black: null, where };
+    return { red: `Scan tool: read ${(request.pid ?? 'the parameter').replace(/_/g, ' ')} (the ${POINT_WORDS[request.at]})`, black: null, where };
   }
   return { red: pointWords(request.at, cavities), black: request.against ? pointWords(request.against, cavities) : null, where };
 }
@@ -129,6 +129,15 @@ export function formatSi(value: number | 'overload' | null | undefined, siUnit: 
   if (siUnit === 'A' && a > 0 && a < 0.1) return `${trim(value * 1000, digits)} mA`;
   if (siUnit === 'Pa') return `${trim(value / 1000, digits)} kPa`;
   return `${trim(value, digits)} ${siUnit}`;
+}
+
+/** A predicted reading as a meter would show it: volts to 0.01 V (no "−0.00"), ohms with a prefix. */
+export function formatReading(value: number | 'overload', siUnit: string): string {
+  if (value !== 'overload' && siUnit === 'V') {
+    const text = value.toFixed(2);
+    return `${text === '-0.00' ? '0.00' : text} V`;
+  }
+  return formatSi(value, siUnit);
 }
 
 /** The SI unit of a quantity's readings (scan values are shown in volts by the built-in trees). */

@@ -8,6 +8,6 @@ import { RepairOrdersService } from './repair-orders.service';
   imports: [IdentityModule],
   controllers: [RepairOrdersController],
   providers: [RepairOrdersRepository, RepairOrdersService],
-  exports: [RepairOrdersRepository],
+  exports: [RepairOrdersRepository, RepairOrdersService],
 })
 export class RepairOrdersModule {}

@@ -9,6 +9,6 @@ import { RepairsService } from './repairs.service';
   imports: [RepairOrdersModule, CircuitsModule],
   controllers: [RepairsController],
   providers: [RepairsRepository, RepairsService],
-  exports: [RepairsRepository],
+  exports: [RepairsRepository, RepairsService],
 })
 export class RepairsModule {}

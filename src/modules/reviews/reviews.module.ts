@@ -8,6 +8,6 @@ import { ReviewsService } from './reviews.service';
   imports: [RepairOrdersModule],
   controllers: [ReviewsController],
   providers: [ReviewsRepository, ReviewsService],
-  exports: [ReviewsRepository],
+  exports: [ReviewsRepository, ReviewsService],
 })
 export class ReviewsModule {}
