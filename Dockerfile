@@ -15,6 +15,7 @@ ENV NODE_ENV=production HOST=0.0.0.0 PORT=3000
 COPY --from=build /app/node_modules ./node_modules
 COPY --from=build /app/dist ./dist
 COPY --from=build /app/prisma ./prisma
+COPY public ./public
 COPY package.json ./
 USER node
 EXPOSE 3000

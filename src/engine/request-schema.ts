@@ -49,6 +49,8 @@ function rule(ctx: z.RefinementCtx, code: string, field: string, message: string
 /** Rules across the fields: leads for meter readings, a named parameter for scan values, a possible vehicle state. */
 export function refineMeasurementRequest(r: RequestShape, ctx: z.RefinementCtx): void {
   if (r.key === 'off' && r.engine !== 'off') rule(ctx, 'request.engine_without_key', 'engine', `the engine cannot be ${r.engine} with the key off`);
+  // An ohmmeter reads its own test current; on a powered circuit the number means nothing (and can harm the meter).
+  if (r.quantity === 'ohms' && r.key === 'on') rule(ctx, 'request.ohms_powered', 'key', 'an ohms reading is taken with the key off, on an unpowered circuit');
   if (r.quantity === 'scan_value') {
     if (!r.pid) rule(ctx, 'request.pid_missing', 'pid', 'a scan_value names the parameter read (pid), e.g. an SAE J1979 PID such as "11"');
     if (r.against) rule(ctx, 'request.against_on_scan', 'against', 'a scan_value is read from the scan tool: leave against out');

@@ -77,7 +77,7 @@ describe.each(BACKENDS)('circuits and measurements over HTTP on the %s database'
 
   it('stores a batch all-or-nothing: one bad reading and none are kept, with the bad one’s path', async () => {
     const before = (await api.call('GET', `/api/repair-orders/${roId}/measurements`, { user: TECH_A })).body.items.length;
-    const res = await post([reading({ value: 5.0 }), reading({ quantity: 'ohms', value: 4.8, unit: 'V' })]);
+    const res = await post([reading({ value: 5.0 }), reading({ quantity: 'ohms', key: 'off', value: 4.8, unit: 'V' })]);
     expect(res.status).toBe(400);
     expect(res.body.error.findings[0]).toMatchObject({ path: 'body.1.unit', message: expect.stringContaining('Ω') });
     const after = (await api.call('GET', `/api/repair-orders/${roId}/measurements`, { user: TECH_A })).body.items.length;
@@ -87,7 +87,7 @@ describe.each(BACKENDS)('circuits and measurements over HTTP on the %s database'
   it.each([
     ['volts without the second lead', 'body.against', { against: undefined }],
     ['both leads on one point', 'body.against', { against: 'signal' }],
-    ['a negative resistance', 'body.value', { quantity: 'ohms', value: -5, unit: 'ohm' }],
+    ['a negative resistance', 'body.value', { quantity: 'ohms', key: 'off', value: -5, unit: 'ohm' }],
     ['a meter of 0 Ω', 'body.meterOhms', { meterOhms: 0 }],
     ['a value given as text', 'body.value', { value: '4.87 V' }],
     ['a jumper through an unknown device', 'body.jumpers.0.via.kind', { jumpers: [{ from: 'reference', to: 'signal', via: { kind: 'paperclip' } }] }],
@@ -95,6 +95,9 @@ describe.each(BACKENDS)('circuits and measurements over HTTP on the %s database'
     ['an unknown field', 'body', { colour: 'red' }],
     ['a scan value that does not name its parameter', 'body.pid', { quantity: 'scan_value', against: undefined }],
     ['the engine running with the key off', 'body.engine', { key: 'off', engine: 'running' }],
+    ['ohms with the key on (a powered circuit)', 'body.key', { quantity: 'ohms', unit: 'ohm', key: 'on' }],
+    ['a reading beyond any vehicle voltage (a slipped decimal point)', 'body.value', { value: 4870 }],
+    ['a reading from before the repair order was opened', 'body.takenAt', { takenAt: '2001-01-01T00:00:00Z' }],
   ])('refuses %s with a 400 at %s', async (_name, path, overrides) => {
     const res = await post(reading(overrides));
     expect(res.status).toBe(400);
@@ -109,9 +112,24 @@ describe.each(BACKENDS)('circuits and measurements over HTTP on the %s database'
     expect(visible.map((m: { id: string }) => m.id)).not.toContain(wrong.id);
     const all = (await api.call('GET', `/api/repair-orders/${roId}/measurements?includeSuperseded=true`, { user: TECH_A })).body.items;
     expect(all.find((m: { id: string }) => m.id === wrong.id)).toMatchObject({ supersededBy: { id: fixed.body.id, by: { id: TECH_A } } });
+    const otherTest = await post(reading({ at: 'ground', value: 0.02, supersedes: fixed.body.id }));
+    expect(otherTest.body.error.findings[0]).toMatchObject({ code: 'measurement.other_test', path: 'body.supersedes' });
     const twice = await post(reading({ at: 'reference', value: 5.0, supersedes: wrong.id }));
     expect(twice.status).toBe(400);
     expect(twice.body.error.findings[0].code).toBe('measurement.already_corrected');
+  });
+
+  it('stores a re-sent reading once and refuses one key used twice in a batch', async () => {
+    const first = await post(reading({ value: 4.86, clientKey: 'tablet-7-key-0001' }));
+    expect(first.status).toBe(201);
+    const again = await post(reading({ value: 4.86, clientKey: 'tablet-7-key-0001' }));
+    expect(again.status).toBe(200);
+    expect(again.body.id).toBe(first.body.id);
+    const reused = await post(reading({ value: 1.23, clientKey: 'tablet-7-key-0001' }));
+    expect(reused.status).toBe(409);
+    const doubled = await post([reading({ clientKey: 'tablet-7-key-0002' }), reading({ value: 4.8, clientKey: 'tablet-7-key-0002' })]);
+    expect(doubled.status).toBe(400);
+    expect(doubled.body.error.findings[0]).toMatchObject({ code: 'measurement.client_key_twice', path: 'body.1.clientKey' });
   });
 
   it('refuses to change or delete a stored reading, even straight in the database', async () => {
@@ -121,7 +139,7 @@ describe.each(BACKENDS)('circuits and measurements over HTTP on the %s database'
   });
 
   it('refuses diagnosis readings once the repair order is repaired, and takes verification readings', async () => {
-    await api.call('POST', `/api/repair-orders/${roId}/status`, { user: TECH_A, body: { to: 'repaired' } });
+    await api.call('POST', `/api/repair-orders/${roId}/repairs`, { user: TECH_A, body: { circuitId, part: 'signal', action: 'Repaired the signal wire' } });
     const diag = await post(reading());
     expect(diag.status).toBe(409);
     expect(diag.body.error).toMatchObject({ code: 'measurement.wrong_phase', acceptedPhases: ['verification'] });

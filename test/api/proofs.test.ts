@@ -78,6 +78,11 @@ describe('proof of repair over HTTP', () => {
     expect(await byFile.json()).toMatchObject({ matches: true, digest });
     const base64 = await api.call('POST', '/api/proofs/verify', { user: TECH_A, body: { pdfBase64: pdf.toString('base64') } });
     expect(base64.body.matches).toBe(true);
+    // A file that merely carries the digest (an edited copy, or a forgery) is not the document issued.
+    const forged = Buffer.from(`%PDF-1.3\n% sha256:${digest}\n`, 'latin1');
+    const byForgery = await api.call('POST', '/api/proofs/verify', { user: TECH_A, body: { pdfBase64: forged.toString('base64') } });
+    expect(byForgery.status).toBe(200);
+    expect(byForgery.body).toMatchObject({ matches: false, known: false, digest });
 
     // After the approval is withdrawn, the old document no longer matches and the answer says why.
     await api.call('POST', `/api/repair-orders/${roId}/reviews`, { user: FOREMAN_A, body: { decision: 'withdrawn', comment: 'Wrong splice kit on the invoice' } });

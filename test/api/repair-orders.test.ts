@@ -53,6 +53,7 @@ describe.each(BACKENDS)('repair orders over HTTP on the %s database', (backend) 
     ['a negative odometer', 'body.vehicle.odometer', { vehicle: newVehicle({ odometer: -1 }), complaint: 'x' }],
     ['a technician of another shop', 'body.technicianId', { vehicle: newVehicle(), complaint: 'x', technicianId: TECH_B }],
     ['an inactive technician', 'body.technicianId', { vehicle: newVehicle(), complaint: 'x', technicianId: INACTIVE_A }],
+    ['a foreman as the assigned technician', 'body.technicianId', { vehicle: newVehicle(), complaint: 'x', technicianId: FOREMAN_A }],
   ])('refuses %s with a 400 at %s', async (_name, path, body) => {
     const before = await api.db.prisma.repairOrder.count();
     const res = await open(body);
@@ -61,8 +62,8 @@ describe.each(BACKENDS)('repair orders over HTTP on the %s database', (backend) 
     expect(await api.db.prisma.repairOrder.count()).toBe(before);
   });
 
-  it('refuses a repair order number already used in the shop with a 409', async () => {
-    expect((await open({ number: 'T-100', vehicle: newVehicle({ vin: VIN_SAMPLE }), complaint: 'x' })).status).toBe(201);
+  it('refuses a repair order number already used in the shop with a 409, whatever its case', async () => {
+    expect((await open({ number: 't-100', vehicle: newVehicle({ vin: VIN_SAMPLE }), complaint: 'x' })).status).toBe(201);
     const again = await open({ number: 'T-100', vehicle: newVehicle({ vin: VIN_SAMPLE }), complaint: 'y' });
     expect(again.status).toBe(409);
     expect(again.body.error.code).toBe('repair_order.number_taken');
@@ -80,7 +81,16 @@ describe.each(BACKENDS)('repair orders over HTTP on the %s database', (backend) 
     const skip = await move('verified');
     expect(skip.status).toBe(409);
     expect(skip.body.error).toMatchObject({ code: 'status.illegal_move', from: 'open', allowed: expect.arrayContaining(['diagnosing']) });
-    for (const to of ['diagnosing', 'repaired', 'verified', 'closed']) expect((await move(to)).status).toBe(200);
+    expect((await move('diagnosing')).status).toBe(200);
+    const unrepaired = await move('repaired');
+    expect(unrepaired.status).toBe(409);
+    expect(unrepaired.body.error.code).toBe('status.repair_not_recorded');
+    await api.call('POST', `/api/repair-orders/${ro.id}/repairs`, { user: TECH_A, body: { part: 'connector', action: 'Re-pinned the sensor connector' } });
+    expect((await move('verified')).status).toBe(200);
+    const unapproved = await move('closed');
+    expect(unapproved.body.error).toMatchObject({ code: 'status.not_approved', latestDecision: null });
+    expect((await api.call('POST', `/api/repair-orders/${ro.id}/reviews`, { user: FOREMAN_A, body: { decision: 'approved' } })).status).toBe(201);
+    expect((await move('closed')).status).toBe(200);
     const noReason = await move('diagnosing');
     expect(noReason.status).toBe(400);
     expect(noReason.body.error.findings[0].path).toBe('body.reason');
@@ -108,6 +118,8 @@ describe.each(BACKENDS)('repair orders over HTTP on the %s database', (backend) 
     expect(mine.body.items).toHaveLength(1);
     expect(mine.body.total).toBeGreaterThanOrEqual(1);
     expect(mine.body.items[0].technician.id).toBe(TECH_A);
+    const wildcard = await api.call('GET', '/api/repair-orders?q=%25', { user: TECH_A });
+    expect(wildcard.body.items).toEqual([]);
     const bad = await api.call('GET', '/api/repair-orders?status=finished', { user: TECH_A });
     expect(bad.status).toBe(400);
     expect(bad.body.error.findings[0].path).toMatch(/^query\.status/);

@@ -57,6 +57,7 @@ CREATE TABLE "ProofIssue" (
     "id" UUID NOT NULL,
     "repairOrderId" UUID NOT NULL,
     "digest" VARCHAR(64) NOT NULL,
+    "fileSha256" VARCHAR(64) NOT NULL,
     "view" JSONB NOT NULL,
     "issuedById" UUID NOT NULL,
     "issuedAt" TIMESTAMPTZ(3) NOT NULL DEFAULT CURRENT_TIMESTAMP,
@@ -68,7 +69,10 @@ CREATE TABLE "ProofIssue" (
 CREATE INDEX "ProofIssue_digest_idx" ON "ProofIssue"("digest");
 
 -- CreateIndex
-CREATE UNIQUE INDEX "ProofIssue_repairOrderId_digest_key" ON "ProofIssue"("repairOrderId", "digest");
+CREATE INDEX "ProofIssue_fileSha256_idx" ON "ProofIssue"("fileSha256");
+
+-- CreateIndex
+CREATE UNIQUE INDEX "ProofIssue_repairOrderId_fileSha256_key" ON "ProofIssue"("repairOrderId", "fileSha256");
 
 -- CreateIndex
 CREATE INDEX "Repair_repairOrderId_at_idx" ON "Repair"("repairOrderId", "at");

@@ -30,8 +30,9 @@ export class InvalidInputException extends DomainException {
 }
 
 export class NotFoundException extends DomainException {
-  constructor(what: string, id: string) {
-    super('not_found', `${what}.not_found`, `No ${what.replace(/_/g, ' ')} with id ${id} in this shop.`);
+  /** `where`: the scope searched, e.g. "on this repair order"; by default the caller's shop. */
+  constructor(what: string, id: string, where = 'in this shop') {
+    super('not_found', `${what}.not_found`, `No ${what.replace(/_/g, ' ')} with id ${id} ${where}.`);
   }
 }
 

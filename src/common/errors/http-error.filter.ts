@@ -3,7 +3,8 @@ import type { Response } from 'express';
 import { DomainException, type ErrorKind } from './domain.exception';
 import { currentRequestId } from '../logging/request-context';
 
-const STATUS: Record<ErrorKind, number> = {
+/** The one mapping from error kinds to HTTP statuses (pages render the same statuses as HTML). */
+export const HTTP_STATUS: Readonly<Record<ErrorKind, number>> = {
   invalid: 400,
   unauthenticated: 401,
   forbidden: 403,
@@ -41,7 +42,7 @@ export class HttpErrorFilter implements ExceptionFilter {
   private toResponse(error: unknown): [number, ErrorBody] {
     if (error instanceof DomainException) {
       return [
-        STATUS[error.kind],
+        HTTP_STATUS[error.kind],
         {
           error: {
             code: error.code,

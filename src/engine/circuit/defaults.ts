@@ -21,7 +21,7 @@ export interface DefaultCircuitOptions {
 /** A wide-open throttle sits near 0.85; closed near 0.15. */
 const DEFAULT_POSITION = 0.15;
 
-/** The widely published 10 kΩ Steinhart–Hart set (from memory, generic; see check-values.md). */
+/** The widely published 10 kΩ Steinhart–Hart set (from memory, generic). */
 export const GENERIC_10K_STEINHART_HART = { kind: 'steinhart_hart', a: 1.12924e-3, b: 2.34108e-4, c: 8.7755e-8 } as const;
 
 function sensorFor(kind: CircuitKind, options: DefaultCircuitOptions): SensorSpec {

@@ -3,8 +3,8 @@ import { parseDtc } from './dtc';
 
 /**
  * Generic meanings of the trouble codes this product works with, in our own words, from the SAE-defined generic
- * code list (SAE J2012) as summarised in the project's check-values notes. Only the failure types that summary
- * names are given ("low", "high"); for the other codes in a range the exact failure type is left to the
+ * code list (SAE J2012). Only the failure types we state with confidence are given ("low", "high"); for the
+ * other codes in a range the exact failure type is left to the
  * manufacturer's service information, which always takes precedence over a generic meaning.
  */
 

@@ -41,6 +41,7 @@ export class CircuitsService {
     }
     const created = await this.circuits.transaction(async (tx) => {
       const tree = await this.trees.bindForCircuit(actor, input.kind, input.treeId, tx);
+      await this.orders.touch(tx, repairOrderId);
       return this.circuits.create(tx, {
         repairOrderId,
         kind: input.kind,

@@ -49,7 +49,7 @@ export class DiagnosisService {
     const order = await this.orders.findHeader(actor.shopId, repairOrderId);
     if (!order) throw new NotFoundException('repair_order', repairOrderId);
     const circuit = await this.circuits.findInOrder(repairOrderId, circuitId);
-    if (!circuit) throw new NotFoundException('circuit', circuitId);
+    if (!circuit) throw new NotFoundException('circuit', circuitId, 'on this repair order');
     const tree = circuit.faultTreeId
       ? await this.trees.byStoredId(actor, circuit.faultTreeId)
       : (await this.trees.bindForCircuit(actor, circuit.kind, undefined, this.measurements.prisma)).tree;

@@ -16,7 +16,8 @@ const DEFAULT_TREE: Record<CircuitKind, string> = {
 function treeFindings(findings: ReadonlyArray<{ code: string; path: string; message: string; severity?: string }>, root: string): Finding[] {
   return findings
     .filter((f) => (f.severity ?? 'error') === 'error')
-    .map((f) => ({ code: f.code, path: f.path ? `${root}.${f.path}` : root, message: f.message }));
+    // Same path style as every other 400: dotted, list positions as numbers ("body.tests.0.outcomes.1").
+    .map((f) => ({ code: f.code, path: [root, f.path.replace(/\[(\d+)\]/g, '.$1').replace(/^\$?\.?/, '')].filter(Boolean).join('.'), message: f.message }));
 }
 
 /**

@@ -2,12 +2,23 @@ import { z } from 'zod';
 import { checkReading } from '../../engine/units';
 import { IsoTime, MeasurementRequestFields, optionalText, PhaseEnum, refineRequest } from '../../common/validation/domain-schemas';
 
+/** Readings beyond these are typing slips, not sensor-circuit readings (common practice, no source). */
+const SI_LIMIT: Partial<Record<string, { max: number; what: string }>> = {
+  V: { max: 100, what: 'voltage on a 12 V or 24 V vehicle circuit' },
+  Ω: { max: 1e9, what: 'resistance a workshop meter reads' },
+  A: { max: 1000, what: 'current on a sensor circuit' },
+  Pa: { max: 1e7, what: 'pressure a sensor reports' },
+  '°C': { max: 1000, what: 'temperature a sensor reports' },
+  rpm: { max: 20000, what: 'engine speed' },
+  '%': { max: 1000, what: 'percentage' },
+};
+
 export const MeasurementInput = z
   .strictObject({
     circuitId: z.uuid(),
     ...MeasurementRequestFields,
     value: z
-      .union([z.number(), z.literal('OL')])
+      .union([z.number(), z.literal('OL')], { error: 'a number as the meter shows it, or "OL" when it shows over-range' })
       .describe('the reading as shown on the meter, or "OL" when it showed over-range (e.g. ohms across an open)'),
     unit: z.string().max(16),
     meterOhms: z.number().positive('a meter input resistance above 0 Ω').max(1e12).default(10_000_000),
@@ -44,6 +55,11 @@ export const MeasurementInput = z
       return { ...m, value: null, overload: true, unit: unitOnly.unit, valueSi: null, siUnit: unitOnly.siUnit };
     }
     const reading = checkReading(m.value, m.unit, m.quantity);
+    const limit = reading.ok ? SI_LIMIT[reading.siUnit] : undefined;
+    if (reading.ok && limit !== undefined && Math.abs(reading.siValue) > limit.max) {
+      ctx.addIssue({ code: 'custom', path: ['value'], message: `${m.value} ${reading.unit} is beyond any ${limit.what} (at most ${limit.max} ${reading.siUnit}); check the decimal point` });
+      return z.NEVER;
+    }
     if (!reading.ok) {
       for (const f of reading.findings) ctx.addIssue({ code: 'custom', path: [f.path], message: f.message });
       return z.NEVER;

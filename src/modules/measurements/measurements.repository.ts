@@ -20,7 +20,22 @@ export class MeasurementsRepository extends PrismaRepository {
   correctionTargets(repairOrderId: string, ids: string[], db: Db) {
     return db.measurement.findMany({
       where: { repairOrderId, id: { in: ids } },
-      select: { id: true, circuitId: true, phase: true, supersededBy: { select: { id: true } } },
+      select: {
+        id: true,
+        circuitId: true,
+        phase: true,
+        quantity: true,
+        at: true,
+        against: true,
+        location: true,
+        connector: true,
+        key: true,
+        engine: true,
+        pid: true,
+        sensor: true,
+        jumpers: true,
+        supersededBy: { select: { id: true } },
+      },
     });
   }
 

@@ -7,7 +7,16 @@ import type { Actor } from '../identity/actor';
 import { RepairOrdersRepository } from '../repair-orders/repair-orders.repository';
 import { MeasurementBatch, MeasurementInput, type ListMeasurements } from './measurements.dto';
 import { MeasurementsRepository } from './measurements.repository';
-import { measurementView } from './measurements.view';
+import { measurementView, requestOf } from './measurements.view';
+import { requestKey } from '../../engine/diagnosis';
+
+/**
+ * What a correction must share with the reading it replaces: the same test. The engine state may differ, since a
+ * scan value frozen with the engine stopped is replaced by the same value read while cranking.
+ */
+function sameTest(m: Parameters<typeof requestOf>[0] | Record<string, unknown>): string {
+  return requestKey({ ...requestOf(m as Parameters<typeof requestOf>[0]), engine: 'off' });
+}
 
 /** Which phase of reading each status accepts. */
 const PHASES_BY_STATUS: Record<RepairOrderStatus, ReadonlyArray<'diagnosis' | 'verification'>> = {
@@ -58,6 +67,7 @@ export class MeasurementsService {
       const fresh = inputs.filter((m) => !m.clientKey || !stored.has(m.clientKey));
       if (fresh.length === 0) return { rows: inputs.map((m) => stored.get(m.clientKey!)!), replayed: true };
       this.requirePhases(order, fresh);
+      this.requireTimes(order, inputs, at);
       await this.requireReferences(repairOrderId, inputs, at, tx);
       const now = Date.now();
       const created = await this.measurements.insertMany(
@@ -93,6 +103,8 @@ export class MeasurementsService {
         // The first reading starts the diagnosis.
         await this.orders.updateAtVersion(tx, repairOrderId, order.version, { status: 'diagnosing' });
         await this.orders.logStatus(tx, repairOrderId, 'open', 'diagnosing', actor.userId, 'first reading recorded');
+      } else {
+        await this.orders.touch(tx, repairOrderId);
       }
       const byInput = new Map(fresh.map((m, i) => [m, created[i]!]));
       return { rows: inputs.map((m) => byInput.get(m) ?? stored.get(m.clientKey!)!), replayed: false };
@@ -104,8 +116,14 @@ export class MeasurementsService {
   /** Stored readings for the batch's client keys; a key reused for a different reading is refused. */
   private async replays(repairOrderId: string, inputs: MeasurementInput[], at: (i: number, field: string) => string, tx: Prisma.TransactionClient) {
     const keys = inputs.flatMap((m) => (m.clientKey ? [m.clientKey] : []));
-    const stored = new Map((await this.measurements.byClientKeys(repairOrderId, keys, tx)).map((r) => [r.clientKey!, r]));
     const findings: Finding[] = [];
+    inputs.forEach((m, i) => {
+      if (m.clientKey && keys.indexOf(m.clientKey) !== inputs.filter((x) => x.clientKey).indexOf(m)) {
+        findings.push({ code: 'measurement.client_key_twice', path: at(i, 'clientKey'), message: 'the batch uses this key for two readings; each reading needs its own key' });
+      }
+    });
+    if (findings.length) throw new InvalidInputException(findings);
+    const stored = new Map((await this.measurements.byClientKeys(repairOrderId, keys, tx)).map((r) => [r.clientKey!, r]));
     inputs.forEach((m, i) => {
       const row = m.clientKey ? stored.get(m.clientKey) : undefined;
       if (row && (row.circuitId !== m.circuitId || row.valueEntered !== m.value || row.quantity !== m.quantity || row.at !== m.at)) {
@@ -134,6 +152,17 @@ export class MeasurementsService {
     throw new ConflictException('measurement.wrong_phase', message, { status: order.status, acceptedPhases: accepted });
   }
 
+  /** A reading cannot predate the repair order it belongs to. */
+  private requireTimes(order: { number: string; createdAt: Date }, inputs: MeasurementInput[], at: (i: number, field: string) => string): void {
+    const findings: Finding[] = [];
+    inputs.forEach((m, i) => {
+      if (m.takenAt && Date.parse(m.takenAt) < order.createdAt.getTime()) {
+        findings.push({ code: 'measurement.before_order', path: at(i, 'takenAt'), message: `before repair order ${order.number} was opened (${order.createdAt.toISOString()})` });
+      }
+    });
+    if (findings.length) throw new InvalidInputException(findings);
+  }
+
   private async requireReferences(
     repairOrderId: string,
     inputs: MeasurementInput[],
@@ -155,6 +184,9 @@ export class MeasurementsService {
       if (!target) findings.push({ code: 'measurement.not_found', path, message: 'names no reading of this repair order' });
       else if (target.supersededBy) findings.push({ code: 'measurement.already_corrected', path, message: `that reading was already corrected by ${target.supersededBy.id}; correct that one instead` });
       else if (target.circuitId !== m.circuitId) findings.push({ code: 'measurement.other_circuit', path, message: 'a correction must be on the same circuit as the reading it corrects' });
+      else if (sameTest(target) !== sameTest({ ...m, against: m.against ?? null, pid: m.pid ?? null, sensor: m.sensor ?? null })) {
+        findings.push({ code: 'measurement.other_test', path, message: 'a correction repeats the same test (quantity, leads, connector, key, jumpers) as the reading it corrects' });
+      }
       else if (seen.has(m.supersedes)) findings.push({ code: 'measurement.corrected_twice', path, message: 'the batch corrects this reading twice' });
       seen.add(m.supersedes);
     });

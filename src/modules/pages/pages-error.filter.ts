@@ -1,11 +1,11 @@
 import { ArgumentsHost, Catch, ExceptionFilter, HttpException, Logger } from '@nestjs/common';
 import type { Response } from 'express';
 import { DomainException } from '../../common/errors/domain.exception';
+import { HTTP_STATUS } from '../../common/errors/http-error.filter';
 import type { RequestWithActor } from '../identity/actor';
 import { ACTOR_COOKIE } from '../identity/actor.guard';
 import { errorPage } from './layout.view';
 
-const STATUS: Record<string, number> = { invalid: 400, unauthenticated: 401, forbidden: 403, not_found: 404, conflict: 409, unavailable: 503 };
 
 /**
  * Errors on page routes become pages, not JSON: no person chosen (or one no longer active) goes to the
@@ -27,7 +27,7 @@ export class PagesErrorFilter implements ExceptionFilter {
     let status = 500;
     let message = 'Something went wrong on our side. Try again; if it keeps happening, tell the shop admin.';
     if (error instanceof DomainException) {
-      status = STATUS[error.kind] ?? 500;
+      status = HTTP_STATUS[error.kind];
       message = error.message;
     } else if (error instanceof HttpException) {
       status = error.getStatus();

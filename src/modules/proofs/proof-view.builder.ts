@@ -55,7 +55,7 @@ function expectedFor(tree: Tree, m: MeasurementRow): ExpectedRange | null {
 }
 
 function titleFor(tree: Tree, m: MeasurementRow): string {
-  return tree.testByRequest.get(requestKey(requestOf(m)))?.label ?? `Reading not in the ${tree.title.toLowerCase()} tree`;
+  return tree.testByRequest.get(requestKey(requestOf(m)))?.label ?? `Reading not asked for by the fault tree (${tree.title})`;
 }
 
 const isCurrent = (m: MeasurementRow) => m.supersededBy === null;
@@ -179,8 +179,12 @@ export function buildProofView(e: ProofEvidence): ProofView {
   return view;
 }
 
-/** The cautions the readings call for, plus the ones every electrical repair on a vehicle carries. */
+/**
+ * The cautions the work called for: those the readings' conditions imply, and the airbag caution wherever an
+ * ohmmeter was used. (High-voltage systems are not recorded on the vehicle yet, so that caution is not implied.)
+ */
 function cautionsFor(view: ProofView): CautionCode[] {
-  const always: CautionCode[] = ['no_ohmmeter_on_airbag', 'high_voltage_system'];
-  return [...new Set([...requiredCautions(view), ...always])];
+  const ohmmeter = [...view.diagnosis.map((s) => s.request), ...view.verification.map((c) => c.request)].some((r) => r.quantity === 'ohms');
+  const implied = requiredCautions(view);
+  return [...new Set<CautionCode>([...implied, ...(ohmmeter ? (['no_ohmmeter_on_airbag'] as const) : [])])];
 }

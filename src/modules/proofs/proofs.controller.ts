@@ -1,4 +1,4 @@
-import { Body, Controller, Get, Header, Post, Req, Res, StreamableFile } from '@nestjs/common';
+import { Body, Controller, Get, Header, HttpCode, Post, Req, Res, StreamableFile } from '@nestjs/common';
 import { ApiBody, ApiOperation, ApiProduces, ApiSecurity, ApiTags } from '@nestjs/swagger';
 import type { Request, Response } from 'express';
 import { openApiSchema, UuidParam, ZodPipe } from '../../common/validation/zod-input';
@@ -29,6 +29,7 @@ export class ProofsController {
   }
 
   @Post('proofs/verify')
+  @HttpCode(200)
   @ApiOperation({
     summary: 'Does a proof (its PDF or its digest) still match the repair order’s evidence? If not, what changed since',
     description: 'Send JSON {digest} or {pdfBase64}, or the PDF itself with Content-Type application/pdf.',

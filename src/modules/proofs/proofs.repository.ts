@@ -4,15 +4,15 @@ import type { Prisma } from '../../generated/prisma/client';
 
 @Injectable()
 export class ProofsRepository extends PrismaRepository {
-  /** Remembers what an issued document stated; the same digest twice is stored once. */
-  async remember(repairOrderId: string, digest: string, view: object, issuedById: string): Promise<void> {
-    await this.prisma.proofIssue.createMany({ data: [{ repairOrderId, digest, view: view as Prisma.InputJsonValue, issuedById }], skipDuplicates: true });
+  /** Remembers what an issued document stated and its file's hash; the same file twice is stored once. */
+  async remember(repairOrderId: string, digest: string, fileSha256: string, view: object, issuedById: string): Promise<void> {
+    await this.prisma.proofIssue.createMany({ data: [{ repairOrderId, digest, fileSha256, view: view as Prisma.InputJsonValue, issuedById }], skipDuplicates: true });
   }
 
-  /** An issued document of the shop, by digest. */
-  findIssued(shopId: string, digest: string) {
+  /** An issued document of the shop, by evidence digest or by the hash of its file. */
+  findIssued(shopId: string, by: { digest: string } | { fileSha256: string }) {
     return this.prisma.proofIssue.findFirst({
-      where: { digest, repairOrder: { shopId } },
+      where: { ...by, repairOrder: { shopId } },
       select: { repairOrderId: true, digest: true, view: true, issuedAt: true, issuedBy: { select: { id: true, name: true } } },
       orderBy: { issuedAt: 'asc' },
     });

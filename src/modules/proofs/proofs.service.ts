@@ -1,6 +1,6 @@
 import { Injectable } from '@nestjs/common';
 import { ConflictException, DomainException, InvalidInputException, NotFoundException } from '../../common/errors/domain.exception';
-import { proofDigest, QR_PREFIX, tryRenderProof, type ProofView } from '../../proof-render';
+import { proofDigest, QR_PREFIX, sha256Hex, tryRenderProof, type ProofView } from '../../proof-render';
 import type { Actor } from '../identity/actor';
 import { UsersRepository } from '../identity/users.repository';
 import { DiagnosisService } from '../diagnosis/diagnosis.service';
@@ -75,21 +75,26 @@ export class ProofsService {
     const rendered = await tryRenderProof(view);
     // The view is built from validated data; a refusal here is a defect, reported with its findings.
     if (!rendered.ok) throw new Error(`proof view refused: ${JSON.stringify(rendered.findings.slice(0, 3))}`);
-    await this.proofs.remember(repairOrderId, rendered.digest, view, actor.userId);
+    await this.proofs.remember(repairOrderId, rendered.digest, sha256Hex(rendered.pdf), view, actor.userId);
     return { pdf: rendered.pdf, digest: rendered.digest, number: view.repairOrder.number };
   }
 
   /** Whether a document (or its digest) still matches the repair order's evidence, and if not, what changed. */
   async verify(actor: Actor, input: VerifyProofInput | Buffer) {
-    const digest = Buffer.isBuffer(input) ? digestFromPdf(input) : input.pdfBase64 ? digestFromPdf(Buffer.from(input.pdfBase64, 'base64')) : normaliseDigest(input.digest!);
+    const file = Buffer.isBuffer(input) ? input : input.pdfBase64 ? Buffer.from(input.pdfBase64, 'base64') : null;
+    const digest = file ? digestFromPdf(file) : normaliseDigest((input as VerifyProofInput).digest!);
     if (!digest) {
       throw new InvalidInputException([
-        { code: 'proof.no_digest', path: Buffer.isBuffer(input) || (input as VerifyProofInput).pdfBase64 ? 'body.pdfBase64' : 'body.digest', message: 'no Tracebay evidence digest found: expected a proof PDF or 64 hexadecimal characters' },
+        { code: 'proof.no_digest', path: file ? 'body.pdfBase64' : 'body.digest', message: 'no Tracebay evidence digest found: expected a proof PDF or 64 hexadecimal characters' },
       ]);
     }
-    const issued = await this.proofs.findIssued(actor.shopId, digest);
+    // A file must be one this shop handed out, byte for byte: a copy edited around the same digest is not.
+    const issued = file ? await this.proofs.findIssued(actor.shopId, { fileSha256: sha256Hex(file) }) : await this.proofs.findIssued(actor.shopId, { digest });
     if (!issued) {
-      return { matches: false, digest, known: false, message: 'No proof with this digest was issued by this shop: the document did not come from here, or it was altered.' };
+      const message = file
+        ? 'This file is not a proof this shop issued: its bytes differ from every document handed out (altered, re-saved, or from elsewhere).'
+        : 'No proof with this digest was issued by this shop: the document did not come from here, or it was altered.';
+      return { matches: false, digest, known: false, message };
     }
     const then = issued.view as unknown as ProofView;
     let now: ProofView | null = null;

@@ -29,7 +29,9 @@ export const CreateRepairOrder = z
   .strictObject({
     number: text(32)
       .regex(/^[A-Za-z0-9][A-Za-z0-9-/]*$/, 'letters, digits, "-" and "/" only')
-      .optional(),
+      .transform((n) => n.toUpperCase())
+      .optional()
+      .describe('the shop’s number, stored upper-case; by default the next RO-nnnnn'),
     vehicleId: z.uuid().optional(),
     vehicle: NewVehicle.optional(),
     complaint: text(4000),

@@ -30,17 +30,19 @@ export type RepairOrderDetail = Prisma.RepairOrderGetPayload<{ include: typeof d
 @Injectable()
 export class RepairOrdersRepository extends PrismaRepository {
   async list(shopId: string, q: ListRepairOrders) {
+    // `contains` is a LIKE pattern: a typed % or _ means itself.
+    const text = q.q?.replace(/[\\%_]/g, (c) => '\\' + c);
     const where: Prisma.RepairOrderWhereInput = {
       shopId,
       ...(q.status?.length ? { status: { in: q.status } } : {}),
       ...(q.technicianId ? { technicianId: q.technicianId } : {}),
       ...(q.changedSince ? { updatedAt: { gte: new Date(q.changedSince) } } : {}),
-      ...(q.q
+      ...(text
         ? {
             OR: [
-              { number: { contains: q.q, mode: 'insensitive' } },
-              { vehicle: { vin: { contains: q.q.toUpperCase() } } },
-              { complaint: { contains: q.q, mode: 'insensitive' } },
+              { number: { contains: text, mode: 'insensitive' } },
+              { vehicle: { vin: { contains: text.toUpperCase() } } },
+              { complaint: { contains: text, mode: 'insensitive' } },
             ],
           }
         : {}),
@@ -63,7 +65,21 @@ export class RepairOrdersRepository extends PrismaRepository {
   }
 
   findHeader(shopId: string, id: string, db: Db = this.prisma) {
-    return db.repairOrder.findFirst({ where: { id, shopId }, select: { id: true, status: true, version: true, number: true } });
+    return db.repairOrder.findFirst({ where: { id, shopId }, select: { id: true, status: true, version: true, number: true, createdAt: true } });
+  }
+
+  /** Marks the order as changed (for `changedSince`) when something on it was added; the version stays. */
+  async touch(db: Db, id: string): Promise<void> {
+    await db.repairOrder.updateMany({ where: { id }, data: { updatedAt: new Date() } });
+  }
+
+  /** What a status move depends on: repairs recorded, and the foreman's latest decision. */
+  async progress(db: Db, id: string) {
+    const [repairs, latestReview] = await Promise.all([
+      db.repair.count({ where: { repairOrderId: id } }),
+      db.review.findFirst({ where: { repairOrderId: id }, orderBy: [{ at: 'desc' }, { seq: 'desc' }], select: { decision: true } }),
+    ]);
+    return { repairs, latestDecision: latestReview?.decision ?? null };
   }
 
   vehicleInShop(shopId: string, id: string, db: Db) {

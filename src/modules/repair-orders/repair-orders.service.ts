@@ -77,6 +77,7 @@ export class RepairOrdersService {
       const current = await this.orders.find(actor.shopId, id, tx);
       if (!current) throw new NotFoundException('repair_order', id);
       if (input.version !== undefined) this.requireVersion(current, input.version);
+      await this.requireProgress(tx, current, input.to);
       const move = checkMove(current.status, input.to, input.reason);
       if (!move.ok) {
         const f = move.finding;
@@ -90,6 +91,22 @@ export class RepairOrdersService {
       await this.orders.logStatus(tx, id, current.status, input.to, actor.userId, input.reason ?? '');
     });
     return this.get(actor, id);
+  }
+
+  /** Moves that need work done first: a repair before "repaired", the foreman's approval before "closed". */
+  private async requireProgress(tx: Prisma.TransactionClient, current: { id: string; number: string; status: string }, to: string): Promise<void> {
+    if (to !== 'repaired' && to !== 'closed') return;
+    const { repairs, latestDecision } = await this.orders.progress(tx, current.id);
+    if (to === 'repaired' && current.status === 'diagnosing' && repairs === 0) {
+      throw new ConflictException('status.repair_not_recorded', `Record the repair on ${current.number} (what was done, where, parts) before marking it repaired.`, { from: current.status, to });
+    }
+    if (to === 'closed' && current.status === 'verified' && latestDecision !== 'approved') {
+      throw new ConflictException(
+        'status.not_approved',
+        `${current.number} can be closed once a foreman has approved the repair (latest decision: ${latestDecision ?? 'none'}).`,
+        { from: current.status, to, latestDecision },
+      );
+    }
   }
 
   private requireVersion(current: { version: number; updatedAt: Date }, version: number): void {
@@ -109,8 +126,8 @@ export class RepairOrdersService {
   private async requireTechnician(actor: Actor, userId: string | undefined, path: string, tx: Prisma.TransactionClient) {
     if (!userId) return;
     const user = await this.users.findInShop(actor.shopId, userId, tx);
-    if (!user || !user.active) {
-      throw new InvalidInputException([{ code: 'user.not_in_shop', path, message: 'names no active user of this shop' }]);
+    if (!user || !user.active || user.role !== 'technician') {
+      throw new InvalidInputException([{ code: 'user.not_a_technician', path, message: 'names no active technician of this shop' }]);
     }
   }
 

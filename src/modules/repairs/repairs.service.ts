@@ -56,6 +56,8 @@ export class RepairsService {
       if (order.status === 'diagnosing') {
         await this.orders.updateAtVersion(tx, repairOrderId, order.version, { status: 'repaired' });
         await this.orders.logStatus(tx, repairOrderId, 'diagnosing', 'repaired', actor.userId, 'repair recorded');
+      } else {
+        await this.orders.touch(tx, repairOrderId);
       }
       return created;
     });

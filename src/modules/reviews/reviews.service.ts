@@ -40,6 +40,7 @@ export class ReviewsService {
       if (input.decision === 'approved' && latest?.decision === 'approved') {
         throw new ConflictException('review.already_approved', `Already approved by ${latest.by.name} at ${latest.at.toISOString()}.`);
       }
+      await this.orders.touch(tx, repairOrderId);
       return this.reviews.create(tx, { repairOrderId, decision: input.decision, comment: input.comment, byId: actor.userId });
     });
     return reviewView(row);

@@ -9,7 +9,7 @@ import {
 } from '../../../src/engine/calc';
 
 describe('meter loading (textbook voltage divider: reading = V·Rm/(Rm + Rs))', () => {
-  // Check values: check-values.md, "Meter loading", computed from the divider formula.
+  // Check values computed from the voltage-divider rule (Horowitz & Hill, The Art of Electronics, 3rd ed., ch. 1; from memory).
   it.each([
     ['5 V behind 1 MΩ reads 4.5455 V on a 10 MΩ meter', 5, 1e6, 10e6, 4.5455],
     ['5 V behind 10 kΩ reads 4.9950 V on a 10 MΩ meter', 5, 10e3, 10e6, 4.995],

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { absoluteKpaToVacuumInHg, linearSensor, vacuumInHgToAbsoluteKpa } from '../../../src/engine/calc';
 
 describe('vacuum and absolute pressure (1 inHg = 3386.389 Pa, NIST SP 811 appendix B)', () => {
-  it('turns 20 inHg of vacuum under 101.325 kPa into 33.597 kPa absolute (check-values.md, computed)', () => {
+  it('turns 20 inHg of vacuum under 101.325 kPa into 33.597 kPa absolute (NIST SP 811 appendix B: 1 inHg = 3386.389 Pa; computed)', () => {
     const r = vacuumInHgToAbsoluteKpa(20, 101.325);
     expect(r.ok && r.value).toBeCloseTo(33.597, 3);
   });

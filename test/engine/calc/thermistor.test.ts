@@ -8,11 +8,11 @@ import {
   thermistorOhmsFromDivider,
 } from '../../../src/engine/calc';
 
-// The widely published generic 10 kΩ set (from memory, generic; check-values.md).
+// The widely published generic 10 kΩ set (from memory, generic).
 const SH = { a: 1.12924e-3, b: 2.34108e-4, c: 8.7755e-8 };
 
 describe('Steinhart–Hart (Steinhart & Hart, Deep-Sea Research 15, 1968): 1/T = A + B ln R + C (ln R)³', () => {
-  // Points: check-values.md, computed from the equation with the generic set.
+  // Points computed from the Steinhart & Hart (1968) equation with the generic set.
   it.each([
     [0, 32_650],
     [25, 10_000],
@@ -80,7 +80,7 @@ describe('beta equation: R = R25·exp(β·(1/T − 1/298.15 K))', () => {
   });
 });
 
-describe('module pull-up divider: V = 5·Rt/(Rt + Rp), Rp = 10 kΩ (check-values.md, computed)', () => {
+describe('module pull-up divider: V = 5·Rt/(Rt + Rp), Rp = 10 kΩ (voltage-divider rule, computed)', () => {
   it.each([
     [10_000, 2.5],
     [32_650, 3.8277],

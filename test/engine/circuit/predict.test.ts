@@ -85,7 +85,7 @@ describe('what the module reads (scan value, key on)', () => {
     expect(v).toBeLessThanOrEqual(max);
   });
 
-  it('reads the thermistor divider V = 5·Rt/(Rt + Rp) (check-values.md formula; wires add well under 1 mV)', () => {
+  it('reads the thermistor divider V = 5·Rt/(Rt + Rp) (voltage-divider rule, computed; wires add well under 1 mV)', () => {
     const rt = steinhartHartResistance(20, GENERIC_10K_STEINHART_HART);
     const expected = rt.ok ? thermistorDividerVolts({ supplyVolts: 5, pullUpOhms: 10_000, thermistorOhms: rt.value }) : rt;
     expect(scan(thermistor, [])).toBeCloseTo(expected.ok ? expected.value : Number.NaN, 3);
@@ -98,7 +98,7 @@ describe('what the module reads (scan value, key on)', () => {
 
 describe('the meter is part of the circuit', () => {
   // Signal open, probed at the module connector: 5 V through 250 kΩ into 10 MΩ = 5·10/10.25 = 4.878 V
-  // (meter loading, textbook divider); the model's rail sits 1 mV low (the track's 1 mA through the regulator's 1 Ω).
+  // (meter loading: voltage-divider rule, Horowitz & Hill, The Art of Electronics, ch. 1, from memory); the model's rail sits 1 mV low (the track's 1 mA through the regulator's 1 Ω).
   it('reads 4.878 V on a 250 kΩ pull-up input from the module connector with a 10 MΩ meter', () => {
     const v = volts(threeWire, faultsFor('signal_open'), 'signal', { location: 'module_connector' });
     expect(Math.abs(v - (5 * 10e6) / (10e6 + 250e3))).toBeLessThan(2e-3);
@@ -109,12 +109,12 @@ describe('the meter is part of the circuit', () => {
     expect(volts(circuit, [], 'signal', { connector: 'unplugged' })).toBeCloseTo(4.87, 2);
   });
 
-  it('reads lower on a 1 MΩ meter: 5·1/1.25 = 4.0 V (textbook divider)', () => {
+  it('reads lower on a 1 MΩ meter: 5·1/1.25 = 4.0 V (voltage-divider rule, Horowitz & Hill, The Art of Electronics, ch. 1, from memory)', () => {
     const r = predictReading(threeWire, [], request({ at: 'signal', connector: 'unplugged' }), meterWith({ inputOhms: 1e6 }));
     expect(r.ok && r.value).toBeCloseTo(4.0, 2);
   });
 
-  it('reads 4.9950 V on a thermistor signal behind 10 kΩ, unplugged (check-values.md, 5 V behind 10 kΩ)', () => {
+  it('reads 4.9950 V on a thermistor signal behind 10 kΩ, unplugged (voltage-divider rule: 5 V behind 10 kΩ on 10 MΩ, computed)', () => {
     expect(volts(thermistor, [], 'signal', { connector: 'unplugged' })).toBeCloseTo(4.995, 3);
   });
 
@@ -256,7 +256,7 @@ describe('sensor-internal fault values are checked', () => {
 });
 
 describe('a thermistor described by the beta equation', () => {
-  it('reads half the reference at 25 °C when R25 equals the 10 kΩ pull-up (check-values.md divider: 10 kΩ → 2.5000 V)', () => {
+  it('reads half the reference at 25 °C when R25 equals the 10 kΩ pull-up (voltage-divider rule, computed: 10 kΩ → 2.5000 V)', () => {
     const circuit = structuredClone(thermistor);
     circuit.sensor = { kind: 'thermistor', model: { kind: 'beta', r25Ohms: 10_000, beta: 3950 }, temperatureC: 25 };
     expect(scan(circuit, [])).toBeCloseTo(2.5, 3);

@@ -10,11 +10,11 @@ import {
   systemOf,
 } from '../../../src/engine/codes';
 
-// Check values: /work/shared/notes/check-values.md, "Trouble codes, SAE J2012 two-byte layout".
+// Check values: SAE J2012 two-byte layout (first two bits P, C, B, U; next two the first digit; then three hex digits), computed.
 const BYTE_CASES: Array<[string, number[], string]> = [
-  ['01 04', [0x01, 0x04], 'P0104'], // check-values.md
-  ['41 23', [0x41, 0x23], 'C0123'], // check-values.md
-  ['80 03', [0x80, 0x03], 'B0003'], // check-values.md
+  ['01 04', [0x01, 0x04], 'P0104'], // SAE J2012 layout, computed
+  ['41 23', [0x41, 0x23], 'C0123'], // SAE J2012 layout, computed
+  ['80 03', [0x80, 0x03], 'B0003'], // SAE J2012 layout, computed
   ['C1 58', [0xc1, 0x58], 'U0158'], // the OBD-II reference page's worked example
   ['0A 12', [0x0a, 0x12], 'P0A12'], // computed from the SAE J2012 bit layout
   ['31 23', [0x31, 0x23], 'P3123'], // computed: bits 13–12 = 3
@@ -27,7 +27,7 @@ describe('decodeDtcBytes', () => {
     expect(decodeDtcBytes(text)).toEqual({ ok: true, code });
   });
 
-  it.each([['00 00'], [[0, 0]], ['0000']])('decodes %j as no code (check-values.md)', (bytes) => {
+  it.each([['00 00'], [[0, 0]], ['0000']])('decodes %j as no code (SAE J2012)', (bytes) => {
     expect(decodeDtcBytes(bytes as string | number[])).toEqual({ ok: true, code: null });
   });
 
@@ -99,7 +99,7 @@ describe('systemOf and scopeOf', () => {
   });
 });
 
-describe('generic meanings (SAE J2012 generic code list, per check-values.md)', () => {
+describe('generic meanings (SAE J2012 generic code list)', () => {
   it.each([
     ['P0122', 'throttle_pedal_position_a', 'low input', 'three_wire_5v'],
     ['P0123', 'throttle_pedal_position_a', 'high input', 'three_wire_5v'],
@@ -135,7 +135,7 @@ describe('generic meanings (SAE J2012 generic code list, per check-values.md)', 
   });
 
   it('tables exactly the 22 codes of the listed ranges', () => {
-    // 4 MAP/BARO + 4 coolant + 5 throttle/pedal + 3 × 3 reference = 22 (computed from the ranges in check-values.md)
+    // 4 MAP/BARO + 4 coolant + 5 throttle/pedal + 3 × 3 reference = 22 (computed from the SAE J2012 ranges listed above)
     expect(GENERIC_MEANINGS.size).toBe(22);
   });
 });

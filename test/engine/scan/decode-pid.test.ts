@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { decodePid, PID_DEFINITIONS, parsePid, pidDefinition } from '../../../src/engine/scan';
 
-// Check values: /work/shared/notes/check-values.md, "Scan data, SAE J1979 mode 01"; formulas as reproduced on the
+// Check values: SAE J1979 mode 01 formulas as reproduced on the
 // public "OBD-II PIDs" reference page. "computed" = worked out from that formula.
 describe('decodePid on measurements', () => {
   it.each([
@@ -105,12 +105,12 @@ describe('the PID table', () => {
   );
 
   it.each([
-    ['05', -40, 215], // check-values.md ranges
+    ['05', -40, 215], // SAE J1979 formula range, computed
     ['0B', 0, 255],
     ['0C', 0, 16383.75],
     ['11', 0, 100],
     ['42', 0, 65.535],
-  ])('states the range of PID %s as %d to %d (check-values.md)', (pid, min, max) => {
+  ])('states the range of PID %s as %d to %d (SAE J1979 formula range, computed)', (pid, min, max) => {
     expect(pidDefinition(pid)?.range).toEqual({ min, max });
   });
 

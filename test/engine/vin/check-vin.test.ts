@@ -1,12 +1,12 @@
 import { describe, expect, it } from 'vitest';
 import { checkVin, computeCheckDigit, modelYearsFor, withCheckDigit } from '../../../src/engine/vin';
 
-// Check values: /work/shared/notes/check-values.md, "VIN check digit (49 CFR 565 ...)".
+// Check values: VINs checked by the method of 49 CFR 565.15 (transliteration, weights, sum mod 11); sums computed.
 describe('computeCheckDigit', () => {
   it.each([
     // vin, expected digit, expected weighted sum, source
-    ['1M8GDM9AXKP042788', 'X', 351, '49 CFR 565.15 method; sum 351 given in check-values.md'],
-    ['SGZCZ43D13S812715', 'X', 384, '49 CFR 565.15 method; sum 384 given in check-values.md'],
+    ['1M8GDM9AXKP042788', 'X', 351, '49 CFR 565.15 method; weighted sum 351, computed'],
+    ['SGZCZ43D13S812715', 'X', 384, '49 CFR 565.15 method; weighted sum 384, computed'],
     ['11111111111111111', '1', 89, 'computed from 49 CFR 565.15 weights: sum of weights 89, 89 mod 11 = 1'],
   ])('computes %s → check digit %s from a weighted sum of %i (%s)', (vin, digit, sum) => {
     expect(computeCheckDigit(vin)).toEqual({ ok: true, checkDigit: digit, sum });
@@ -14,7 +14,7 @@ describe('computeCheckDigit', () => {
 
   it.each([
     ['1G4AH59H45G118341', '4', "the regulation's sample VIN (49 CFR 565)"],
-    ['1J9RP1A36A1644345', '6', 'check-values.md, valid VIN'],
+    ['1J9RP1A36A1644345', '6', '49 CFR 565.15, computed: valid'],
   ])('computes the digit already at position 9 of %s (%s → %s)', (vin, digit) => {
     const result = computeCheckDigit(vin);
     expect(result.ok && result.checkDigit).toBe(digit);
@@ -32,18 +32,18 @@ describe('computeCheckDigit', () => {
 
 describe('checkVin', () => {
   it.each([
-    ['1M8GDM9AXKP042788', 'check-values.md (sum 351)'],
+    ['1M8GDM9AXKP042788', '49 CFR 565.15, computed (sum 351)'],
     ['1G4AH59H45G118341', "the regulation's sample VIN (49 CFR 565)"],
-    ['1J9RP1A36A1644345', 'check-values.md'],
-    ['11111111111111111', 'check-values.md'],
+    ['1J9RP1A36A1644345', '49 CFR 565.15, computed'],
+    ['11111111111111111', '49 CFR 565.15, computed'],
   ])('accepts %s as a valid North American VIN (%s)', (vin) => {
     const result = checkVin(vin);
     expect(result).toMatchObject({ ok: true, vin, checkDigit: 'valid' });
   });
 
   it.each([
-    ['1M8GDM9A1KP042788', '1', 'X', 'check-values.md, invalid'],
-    ['SGZCZ43D13S812715', '1', 'X', 'check-values.md: sum 384 needs X'],
+    ['1M8GDM9A1KP042788', '1', 'X', '49 CFR 565.15, computed: invalid'],
+    ['SGZCZ43D13S812715', '1', 'X', '49 CFR 565.15, computed: sum 384 needs X'],
   ])('rejects %s because position 9 is %s where 49 CFR 565 gives %s (%s)', (vin, actual, expected) => {
     const result = checkVin(vin);
     expect(result).toEqual({
@@ -66,8 +66,8 @@ describe('checkVin', () => {
   });
 
   it.each([
-    ['1M8GDM9A1KP042788', 'check-values.md, invalid check digit'],
-    ['SGZCZ43D13S812715', 'check-values.md, invalid check digit'],
+    ['1M8GDM9A1KP042788', '49 CFR 565.15, computed: invalid check digit'],
+    ['SGZCZ43D13S812715', '49 CFR 565.15, computed: invalid check digit'],
   ])('accepts %s outside North America with the check digit marked not applicable (%s)', (vin) => {
     expect(checkVin(vin, { outsideNorthAmerica: true })).toEqual({ ok: true, vin, checkDigit: 'not_applicable' });
   });
@@ -131,9 +131,9 @@ describe('model year at position 10', () => {
 
 describe('withCheckDigit', () => {
   it.each([
-    ['1M8GDM9A0KP042788', '1M8GDM9AXKP042788', 'check-values.md valid VIN'],
+    ['1M8GDM9A0KP042788', '1M8GDM9AXKP042788', '49 CFR 565.15, computed: valid VIN'],
     ['1G4AH59H05G118341', '1G4AH59H45G118341', "the regulation's sample VIN"],
-    ['sgzcz43d13s812715', 'SGZCZ43DX3S812715', 'computed: sum 384 mod 11 = 10 → X (check-values.md)'],
+    ['sgzcz43d13s812715', 'SGZCZ43DX3S812715', 'computed: sum 384 mod 11 = 10 → X (49 CFR 565.15)'],
   ])('turns %s into %s (%s)', (input, expected) => {
     const result = withCheckDigit(input);
     expect(result).toEqual({ ok: true, vin: expected });
