@@ -3,8 +3,7 @@ import { createApp } from './app/create-app';
 import { AppLogger } from './common/logging/app-logger';
 import { ConfigError, loadConfig } from './config/config';
 import { openDatabase } from './database';
-import { DEMO_USERS } from './demo/scenario';
-import { seedDemo } from './demo/seed';
+import { DEMO_SIGN_INS, seedDemo } from './demo/seed';
 
 async function main(): Promise<void> {
   const config = loadConfig(process.env);
@@ -17,10 +16,19 @@ async function main(): Promise<void> {
     logger: { log: (m: string) => logger.log(m, 'database'), warn: (m: string) => logger.warn(m, 'database') },
   });
   const where = database.kind === 'embedded' ? `embedded database in ${config.dataDir}` : 'PostgreSQL server';
-  if (config.demo && (await seedDemo(database.prisma)) === 'seeded') {
-    logger.log('Seeded the invented demo shop "Kestrel Row Motor Works".', 'demo');
-  }
+  const seeded = config.demo && (await seedDemo(database.prisma)) === 'seeded';
+  if (seeded) logger.log('Seeded the invented demo shops "Kestrel Row Motor Works" and "Fennick Yard Auto Electric".', 'demo');
+  const nestListeners = new Map(SIGNALS.map((signal) => [signal, process.listeners(signal)]));
   const app = await createApp(config, database, logger);
+  // Nest's own signal handlers close the application but not the database, then re-raise the signal, so the
+  // process dies before the embedded database is closed and its lock file released. Ours do it in order.
+  for (const signal of SIGNALS) {
+    for (const listener of process.listeners(signal)) if (!nestListeners.get(signal)!.includes(listener)) process.removeListener(signal, listener);
+  }
+  stopOnSignals(async () => {
+    await app.close();
+    await database.close();
+  }, logger);
   await app.listen(config.port, config.host);
   const url = `http://${config.host === '0.0.0.0' ? '127.0.0.1' : config.host}:${config.port}`;
   const lines = [
@@ -31,12 +39,45 @@ async function main(): Promise<void> {
     `  API docs:    ${url}/api/docs`,
     `  Health:      ${url}/api/health`,
   ];
-  if (config.demo) {
-    lines.push('  Demo shop "Kestrel Row Motor Works"; its people (pick one on the tablet, or send the id as the X-Tracebay-User header):');
-    for (const u of DEMO_USERS) lines.push(`    ${u.role.padEnd(10)} ${u.name.padEnd(16)} ${u.id}`);
+  if (seeded) {
+    // Printed once, when the demo was seeded: invented people of two invented shops, to try sign-in and isolation.
+    lines.push('  Demo sign-ins (invented people; each shop sees only its own work):');
+    for (const u of DEMO_SIGN_INS) lines.push(`    ${u.shop.padEnd(28)} ${u.role.padEnd(10)} ${u.email.padEnd(28)} password: ${u.password}`);
+  } else if (config.demo) {
+    lines.push('  Demo shops were seeded on an earlier start; their sign-ins are listed in the README.');
   }
   lines.push('Stop with Ctrl+C.', '');
   process.stdout.write(lines.join('\n') + '\n');
+}
+
+const SIGNALS: NodeJS.Signals[] = ['SIGTERM', 'SIGINT', 'SIGHUP'];
+
+/**
+ * On the first signal: stop taking requests, let those in flight finish, close the database, exit 0. A second
+ * signal, or a shutdown taking longer than 15 s, ends the process at once.
+ */
+function stopOnSignals(shutdown: () => Promise<void>, logger: AppLogger): void {
+  let stopping = false;
+  const onSignal = (signal: NodeJS.Signals) => {
+    if (stopping) {
+      logger.warn(`${signal} again: stopping at once.`, 'shutdown');
+      process.exit(1);
+    }
+    stopping = true;
+    logger.log(`${signal}: finishing requests in flight, then closing the database.`, 'shutdown');
+    setTimeout(() => {
+      logger.error('Shutdown took longer than 15 s; stopping at once.', undefined, 'shutdown');
+      process.exit(1);
+    }, 15_000).unref();
+    shutdown().then(
+      () => process.exit(0),
+      (error: unknown) => {
+        logger.error(`Shutdown failed: ${error instanceof Error ? error.message : String(error)}`, undefined, 'shutdown');
+        process.exit(1);
+      },
+    );
+  };
+  for (const signal of SIGNALS) process.on(signal, onSignal);
 }
 
 main().catch((error: unknown) => {

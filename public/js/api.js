@@ -1,4 +1,11 @@
-// Same-origin calls to the Tracebay API. The person at the tablet travels in the tracebay_user cookie.
+// Same-origin calls to the Tracebay API. The session travels in its HttpOnly cookie; every change also sends
+// the session's CSRF token (from the tracebay_csrf cookie) in the X-CSRF-Token header.
+
+/** The session's CSRF token, or '' before sign-in. */
+export function csrfToken() {
+  const found = document.cookie.split(';').map((c) => c.trim()).find((c) => c.startsWith('tracebay_csrf='));
+  return found ? decodeURIComponent(found.slice('tracebay_csrf='.length)) : '';
+}
 
 export class ApiError extends Error {
   constructor(status, body) {
@@ -13,7 +20,11 @@ export async function api(method, path, body) {
   const response = await fetch(path, {
     method,
     credentials: 'same-origin',
-    headers: body === undefined ? { accept: 'application/json' } : { 'content-type': 'application/json', accept: 'application/json' },
+    headers: {
+      accept: 'application/json',
+      ...(body === undefined ? {} : { 'content-type': 'application/json' }),
+      ...(method === 'GET' ? {} : { 'x-csrf-token': csrfToken() }),
+    },
     body: body === undefined ? undefined : JSON.stringify(body),
   });
   const text = await response.text();

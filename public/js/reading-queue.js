@@ -1,6 +1,8 @@
 // Readings not yet on the server, kept in this browser's storage until the service confirms them. Each carries
 // the clientKey made when it was entered, so a reading sent twice (the answer was lost) is stored once.
 
+import { csrfToken } from './api.js';
+
 const STORE = 'tracebay.unsent.v1';
 const RETRY_MS = 4000;
 let flushing = null;
@@ -56,7 +58,7 @@ async function sendAll() {
       response = await fetch(`/api/repair-orders/${encodeURIComponent(entry.orderId)}/measurements`, {
         method: 'POST',
         credentials: 'same-origin',
-        headers: { 'content-type': 'application/json', accept: 'application/json' },
+        headers: { 'content-type': 'application/json', accept: 'application/json', 'x-csrf-token': csrfToken() },
         body: JSON.stringify(entry.body),
       });
     } catch {

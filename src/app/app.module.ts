@@ -3,6 +3,8 @@ import { APP_FILTER } from '@nestjs/core';
 import { APP_CONFIG, type AppConfig } from '../config/config';
 import { DATABASE, type OpenDatabase } from '../common/database/database.tokens';
 import { HttpErrorFilter } from '../common/errors/http-error.filter';
+import { AuditModule } from '../modules/audit/audit.module';
+import { AuthModule } from '../modules/auth/auth.module';
 import { CalculatorsModule } from '../modules/calculators/calculators.module';
 import { CircuitModelModule } from '../modules/circuit-model/circuit-model.module';
 import { CircuitsModule } from '../modules/circuits/circuits.module';
@@ -42,6 +44,8 @@ export class AppModule {
       imports: [
         CoreModule.with(config, database),
         HealthModule,
+        AuthModule,
+        AuditModule,
         IdentityModule,
         RepairOrdersModule,
         CircuitsModule,

@@ -2,6 +2,7 @@ import type { INestApplication } from '@nestjs/common';
 import { NestFactory } from '@nestjs/core';
 import type { NestExpressApplication } from '@nestjs/platform-express';
 import { DocumentBuilder, SwaggerModule } from '@nestjs/swagger';
+import helmet from 'helmet';
 import { json, raw, type NextFunction, type Request, type Response } from 'express';
 import type { AppConfig } from '../config/config';
 import type { OpenDatabase } from '../common/database/database.tokens';
@@ -22,6 +23,33 @@ function bodyErrors(error: { type?: string; status?: number }, _req: Request, re
   res.status(status).json({ error: { code, message, requestId: currentRequestId() } });
 }
 
+/**
+ * Security headers on every answer (helmet). The pages load only same-origin ES modules and CSS from /assets, so
+ * scripts and styles are 'self' only; style attributes stay allowed for the probability bars (a style attribute
+ * cannot run script). Swagger UI at /api/docs inlines its own styles, so it gets a CSP of its own that allows them;
+ * its scripts are still same-origin files. HSTS is sent only when cookies are marked Secure (TLS in front);
+ * upgrade-insecure-requests is left out so a tablet on plain http in the shop still loads the assets.
+ */
+function securityHeaders(config: AppConfig) {
+  const common = {
+    defaultSrc: ["'self'"],
+    baseUri: ["'self'"],
+    objectSrc: ["'none'"],
+    frameAncestors: ["'none'"],
+    formAction: ["'self'"],
+    imgSrc: ["'self'", 'data:'],
+    fontSrc: ["'self'"],
+    connectSrc: ["'self'"],
+    scriptSrc: ["'self'"],
+    scriptSrcAttr: ["'none'"],
+    upgradeInsecureRequests: null,
+  };
+  const hsts = config.secureCookies ? { maxAge: 31_536_000, includeSubDomains: true } : false;
+  const pages = helmet({ hsts, contentSecurityPolicy: { useDefaults: false, directives: { ...common, styleSrc: ["'self'"], styleSrcAttr: ["'unsafe-inline'"] } } });
+  const docs = helmet({ hsts, contentSecurityPolicy: { useDefaults: false, directives: { ...common, styleSrc: ["'self'", "'unsafe-inline'"] } } });
+  return (req: Request, res: Response, next: NextFunction) => (req.path.startsWith('/api/docs') ? docs : pages)(req, res, next);
+}
+
 /** Builds the application (used by `main.ts` and by the HTTP tests), ready for `listen` or `init`. */
 export async function createApp(config: AppConfig, database: OpenDatabase, logger = new AppLogger(config.logLevel)): Promise<INestApplication> {
   const app = await NestFactory.create<NestExpressApplication>(AppModule.with(config, database), {
@@ -29,6 +57,8 @@ export async function createApp(config: AppConfig, database: OpenDatabase, logge
     bodyParser: false,
   });
   app.use(requestContext((line) => logger.log(line, 'http')));
+  if (config.trustProxy) app.set('trust proxy', 1);
+  app.use(securityHeaders(config));
   app.use(json({ limit: config.bodyLimit, strict: false }));
   // A proof PDF posted for checking comes as it is.
   app.use('/api/proofs/verify', raw({ type: 'application/pdf', limit: '20mb' }));
@@ -41,10 +71,10 @@ export async function createApp(config: AppConfig, database: OpenDatabase, logge
     new DocumentBuilder()
       .setTitle('Tracebay API')
       .setDescription(
-        'Repair orders, sensor-circuit readings, diagnosis and proof of repair. Every call except health names its user in the `X-Tracebay-User` header.',
+        'Repair orders, sensor-circuit readings, diagnosis and proof of repair. Sign in with POST /api/auth/sign-in and send the token as `Authorization: Bearer <token>` on every other call (health excepted).',
       )
       .setVersion('0.1.0')
-      .addApiKey({ type: 'apiKey', in: 'header', name: 'X-Tracebay-User' }, 'user')
+      .addBearerAuth({ type: 'http', scheme: 'bearer', description: 'token from POST /api/auth/sign-in' }, 'user')
       .build(),
   );
   SwaggerModule.setup('api/docs', app, document, { jsonDocumentUrl: 'api/openapi.json', customSiteTitle: 'Tracebay API' });

@@ -18,3 +18,4 @@ export {
 } from './migration-runner';
 export { lockDataDir, DATA_DIR_LOCK_FILE, type DataDirLock } from './data-dir-lock';
 export { parseDatabaseUrl } from './pg-connection';
+export { isDatabaseUnavailable, isDataRejected } from './unavailable';

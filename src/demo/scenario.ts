@@ -9,12 +9,31 @@ export const DEMO_SHOP = {
   address: '418 Tannery Road, Millbrook Junction',
 };
 
+/**
+ * Demo passwords are invented, printed at start-up, and pass the NIST SP 800-63B §5.1.1.2 rules the service
+ * applies (a demo only: change or deactivate these people on a real install).
+ */
 export const DEMO_USERS = [
-  { id: 'a1d0c0de-0000-4000-8000-00000000f001', name: 'Ines Halvorsen', email: 'ines@kestrel-row.example', role: 'foreman' },
-  { id: 'a1d0c0de-0000-4000-8000-00000000a001', name: 'Sam Lindqvist', email: 'sam@kestrel-row.example', role: 'admin' },
-  { id: 'a1d0c0de-0000-4000-8000-00000000e001', name: 'Teo Marchetti', email: 'teo@kestrel-row.example', role: 'technician' },
-  { id: 'a1d0c0de-0000-4000-8000-00000000e002', name: 'Ruth Abernathy', email: 'ruth@kestrel-row.example', role: 'technician' },
+  { id: 'a1d0c0de-0000-4000-8000-00000000f001', name: 'Ines Halvorsen', email: 'ines@kestrel-row.example', role: 'foreman', password: 'amber lantern over the ramp' },
+  { id: 'a1d0c0de-0000-4000-8000-00000000a001', name: 'Sam Lindqvist', email: 'sam@kestrel-row.example', role: 'admin', password: 'quiet ledger with nine keys' },
+  { id: 'a1d0c0de-0000-4000-8000-00000000e001', name: 'Teo Marchetti', email: 'teo@kestrel-row.example', role: 'technician', password: 'copper fern under bay two' },
+  { id: 'a1d0c0de-0000-4000-8000-00000000e002', name: 'Ruth Abernathy', email: 'ruth@kestrel-row.example', role: 'technician', password: 'slow river meets the probe' },
 ] as const;
+
+/** A second invented shop of the same group: its people see only its own work, never Kestrel Row's. */
+export const DEMO_SHOP_TWO = {
+  id: '5a0e1c3d-7b2f-4e61-9d0a-2f3e4d5c6b7a',
+  name: 'Fennick Yard Auto Electric',
+  address: '27 Cooper Street, Ashgrove Flats',
+};
+
+export const DEMO_USERS_TWO = [
+  { id: 'b2d0c0de-0000-4000-8000-00000000f001', name: 'Odile Prentiss', email: 'odile@fennick-yard.example', role: 'foreman', password: 'paper kite above the hoist' },
+  { id: 'b2d0c0de-0000-4000-8000-00000000e001', name: 'Kwame Desrosiers', email: 'kwame@fennick-yard.example', role: 'technician', password: 'green meter, patient hands' },
+] as const;
+
+export const FOREMAN_TWO = DEMO_USERS_TWO[0].id;
+export const TECH_TWO = DEMO_USERS_TWO[1].id;
 
 export const FOREMAN = DEMO_USERS[0].id;
 export const TEO = DEMO_USERS[2].id;
@@ -47,7 +66,7 @@ export interface DemoCircuit {
 
 export interface DemoOrder {
   number: string;
-  vehicle: (typeof DEMO_VEHICLES)[number]['key'];
+  vehicle: string;
   technician: string;
   complaint: string;
   codes: string[];
@@ -134,5 +153,23 @@ export const DEMO_ORDERS: DemoOrder[] = [
     openedDaysAgo: 3,
     path: ['open', 'diagnosing'],
     circuit: { kind: 'three_wire_5v', sensor: 'FTP', label: 'FTP sensor', cavities: { '1': 'ground', '2': 'signal', '3': 'reference' }, fault: 'reference_short_ground', stopAfter: 3 },
+  },
+];
+
+/** The second shop's one car and one job, in diagnosis. */
+export const DEMO_VEHICLES_TWO = [
+  { key: 'tarsel', vin: '7XTKV3A1?RK600215', year: 2024, make: 'Kovan', model: 'Tarsel', engine: '1.5 L I3 turbo', odometer: 28_745 },
+] as const;
+
+export const DEMO_ORDERS_TWO: DemoOrder[] = [
+  {
+    number: 'FY-1108',
+    vehicle: 'tarsel',
+    technician: TECH_TWO,
+    complaint: 'Temperature gauge pegged hot on a cold engine; fan runs all the time.',
+    codes: ['P0117'],
+    openedDaysAgo: 1,
+    path: ['open', 'diagnosing'],
+    circuit: { kind: 'two_wire_thermistor', sensor: 'ECT', label: 'ECT sensor', cavities: { '1': 'signal', '2': 'ground' }, fault: 'signal_short_ground', stopAfter: 2 },
   },
 ];

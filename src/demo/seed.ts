@@ -7,38 +7,64 @@ import type { Prisma, PrismaClient } from '../generated/prisma/client';
 import { builtInTrees } from '../engine/diagnosis';
 import { checkReading } from '../engine/units';
 import { withCheckDigit } from '../engine/vin';
-import { DEMO_ORDERS, DEMO_SHOP, DEMO_USERS, DEMO_VEHICLES, FOREMAN, type DemoOrder } from './scenario';
+import { hashPassword } from '../modules/auth/secrets';
+import { DEMO_ORDERS, DEMO_ORDERS_TWO, DEMO_SHOP, DEMO_SHOP_TWO, DEMO_USERS, DEMO_USERS_TWO, DEMO_VEHICLES, DEMO_VEHICLES_TWO, FOREMAN, FOREMAN_TWO, type DemoOrder } from './scenario';
 import { diagnosisReadings, meterShows, type SimulatedReading } from './simulate-readings';
 
 const DAY = 86_400_000;
 const MINUTE = 60_000;
 const TREE_FOR = { three_wire_5v: 'three-wire-5v', two_wire_thermistor: 'two-wire-thermistor' } as const;
 
+interface DemoShopPlan {
+  shop: { id: string; name: string; address: string };
+  users: ReadonlyArray<{ id: string; name: string; email: string; role: 'technician' | 'foreman' | 'admin'; password: string }>;
+  vehicles: ReadonlyArray<{ key: string; vin: string; year: number; make: string; model: string; engine: string; odometer: number }>;
+  orders: DemoOrder[];
+  foreman: string;
+}
+
+const SHOPS: DemoShopPlan[] = [
+  { shop: DEMO_SHOP, users: DEMO_USERS, vehicles: DEMO_VEHICLES, orders: DEMO_ORDERS, foreman: FOREMAN },
+  { shop: DEMO_SHOP_TWO, users: DEMO_USERS_TWO, vehicles: DEMO_VEHICLES_TWO, orders: DEMO_ORDERS_TWO, foreman: FOREMAN_TWO },
+];
+
+/** Every demo person with the password printed at start-up. */
+export const DEMO_SIGN_INS = SHOPS.flatMap((p) => p.users.map((u) => ({ shop: p.shop.name, ...u })));
+
 export async function seedDemo(prisma: PrismaClient, now = new Date()): Promise<'seeded' | 'already_present'> {
   if ((await prisma.shop.count()) > 0) return 'already_present';
-  const plans = await Promise.all(DEMO_ORDERS.map(async (order) => ({ order, readings: order.circuit ? await diagnosisReadings(order.circuit.kind, order.circuit.fault, order.circuit.stopAfter) : [] })));
+  const plans = await Promise.all(
+    SHOPS.map(async (p) => ({
+      ...p,
+      hashes: new Map(await Promise.all(p.users.map(async (u) => [u.id, await hashPassword(u.password)] as const))),
+      jobs: await Promise.all(p.orders.map(async (order) => ({ order, readings: order.circuit ? await diagnosisReadings(order.circuit.kind, order.circuit.fault, order.circuit.stopAfter) : [] }))),
+    })),
+  );
   await prisma.$transaction(async (tx) => {
-    await tx.shop.create({ data: DEMO_SHOP });
-    for (const u of DEMO_USERS) await tx.user.create({ data: { ...u, shopId: DEMO_SHOP.id } });
-    const vehicleIds = new Map<string, string>();
-    for (const v of DEMO_VEHICLES) {
-      const vin = withCheckDigit(v.vin.replace('?', '0'));
-      if (!vin.ok) throw new Error(`demo VIN ${v.vin}: ${vin.findings[0]!.message}`);
-      const { key, ...rest } = v;
-      vehicleIds.set(key, (await tx.vehicle.create({ data: { ...rest, vin: vin.vin, shopId: DEMO_SHOP.id, createdById: FOREMAN } })).id);
+    for (const plan of plans) {
+      await tx.shop.create({ data: plan.shop });
+      for (const { password: _, ...u } of plan.users) await tx.user.create({ data: { ...u, shopId: plan.shop.id, passwordHash: plan.hashes.get(u.id)! } });
+      const vehicleIds = new Map<string, string>();
+      for (const v of plan.vehicles) {
+        const vin = withCheckDigit(v.vin.replace('?', '0'));
+        if (!vin.ok) throw new Error(`demo VIN ${v.vin}: ${vin.findings[0]!.message}`);
+        const { key, ...rest } = v;
+        vehicleIds.set(key, (await tx.vehicle.create({ data: { ...rest, vin: vin.vin, shopId: plan.shop.id, createdById: plan.foreman } })).id);
+      }
+      const shop = { shopId: plan.shop.id, foreman: plan.foreman };
+      for (const { order, readings } of plan.jobs) await seedOrder(tx, shop, order, readings, vehicleIds.get(order.vehicle)!, now);
     }
-    for (const { order, readings } of plans) await seedOrder(tx, order, readings, vehicleIds.get(order.vehicle)!, now);
   });
   return 'seeded';
 }
 
-async function seedOrder(tx: Prisma.TransactionClient, order: DemoOrder, readings: SimulatedReading[], vehicleId: string, now: Date): Promise<void> {
+async function seedOrder(tx: Prisma.TransactionClient, shop: { shopId: string; foreman: string }, order: DemoOrder, readings: SimulatedReading[], vehicleId: string, now: Date): Promise<void> {
   let clock = now.getTime() - order.openedDaysAgo * DAY - 5 * 60 * MINUTE;
   const tick = (minutes: number) => new Date((clock += minutes * MINUTE));
   const opened = tick(0);
   const ro = await tx.repairOrder.create({
     data: {
-      shopId: DEMO_SHOP.id,
+      shopId: shop.shopId,
       number: order.number,
       vehicleId,
       technicianId: order.technician,
@@ -49,14 +75,14 @@ async function seedOrder(tx: Prisma.TransactionClient, order: DemoOrder, reading
       codes: order.codes,
       codesAfter: order.codesAfter ?? [],
       version: order.path.length,
-      createdById: FOREMAN,
+      createdById: shop.foreman,
       createdAt: opened,
       updatedAt: opened,
     },
   });
   const status = async (from: string | null, to: string, at: Date, byId: string, reason = '') =>
     tx.statusChange.create({ data: { repairOrderId: ro.id, fromStatus: from as never, toStatus: to as never, byId, at, reason } });
-  await status(null, 'open', opened, FOREMAN);
+  await status(null, 'open', opened, shop.foreman);
   if (!order.circuit) return;
 
   const c = order.circuit;
@@ -110,8 +136,8 @@ async function seedOrder(tx: Prisma.TransactionClient, order: DemoOrder, reading
   for (const r of readings.slice(0, 4)) await insert(meterShows(c.kind, 'good', r.request), 'verification');
   await status('repaired', 'verified', tick(4), order.technician);
   for (const review of order.reviews ?? []) {
-    await tx.review.create({ data: { repairOrderId: ro.id, decision: review.decision, comment: review.comment, byId: FOREMAN, at: tick(50) } });
+    await tx.review.create({ data: { repairOrderId: ro.id, decision: review.decision, comment: review.comment, byId: shop.foreman, at: tick(50) } });
   }
-  if (order.path.includes('closed')) await status('verified', 'closed', tick(24 * 60), FOREMAN);
+  if (order.path.includes('closed')) await status('verified', 'closed', tick(24 * 60), shop.foreman);
   await tx.repairOrder.update({ where: { id: ro.id }, data: { updatedAt: new Date(clock) } });
 }

@@ -283,7 +283,7 @@ describe.each(['postgresql'] as const)('calculators over HTTP (%s database for t
       for (const f of found) expect(f.message.length).toBeGreaterThan(5);
     });
 
-    it('refuses a call without the X-Tracebay-User header with a 401', async () => {
+    it('refuses a call without a sign-in with a 401', async () => {
       const res = await api.call('POST', '/api/calculators/meter-loading', { body: { sourceVolts: 5, sourceOhms: 1 } });
       expect(res.status).toBe(401);
     });

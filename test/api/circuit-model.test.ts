@@ -274,7 +274,7 @@ describe.each(['postgresql'] as const)('circuit model over HTTP (%s database for
       expect(paths(res)).toContain(path);
     });
 
-    it('refuses a call without the X-Tracebay-User header with a 401', async () => {
+    it('refuses a call without a sign-in with a 401', async () => {
       const res = await api.call('POST', '/api/wires/identify', { body: { cavities: [{ cavity: 'A', volts: 5 }] } });
       expect(res.status).toBe(401);
     });

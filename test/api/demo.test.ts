@@ -1,7 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { checkVin } from '../../src/engine/vin';
-import { DEMO_ORDERS, DEMO_USERS, FOREMAN, TEO } from '../../src/demo/scenario';
-import { seedDemo } from '../../src/demo/seed';
+import { DEMO_ORDERS, DEMO_ORDERS_TWO, DEMO_USERS, FOREMAN, FOREMAN_TWO, TECH_TWO, TEO } from '../../src/demo/scenario';
+import { DEMO_SIGN_INS, seedDemo } from '../../src/demo/seed';
+import { checkPassword } from '../../src/modules/auth/password-rules';
 import { BACKENDS } from '../support/db';
 import { startApi, type TestApi } from '../support/http';
 
@@ -31,8 +32,27 @@ describe.each(BACKENDS)('the demo shop on the %s database', (backend) => {
     const ro = (await api.call('GET', `/api/repair-orders/${job.id}`, { user: TEO })).body;
     const diagnosis = (await api.call('GET', `/api/repair-orders/${job.id}/circuits/${ro.circuits[0].id}/diagnosis`, { user: TEO })).body;
     expect(diagnosis.path.length).toBeGreaterThan(3);
-    const res = await fetch(`${api.url}/api/repair-orders/${job.id}/proof.pdf`, { headers: { 'x-tracebay-user': TEO } });
+    const res = await fetch(`${api.url}/api/repair-orders/${job.id}/proof.pdf`, { headers: await api.authHeaders(TEO) });
     expect(res.status).toBe(200);
     expect(res.headers.get('content-type')).toBe('application/pdf');
+  });
+
+  it('signs every demo person in with the printed password, each passing the NIST SP 800-63B §5.1.1.2 rules', async () => {
+    for (const u of DEMO_SIGN_INS) {
+      expect(checkPassword(u.password, { email: u.email, name: u.name, shopName: u.shop }), u.email).toEqual([]);
+      const res = await api.call('POST', '/api/auth/sign-in', { body: { email: u.email, password: u.password } });
+      expect(res.status, u.email).toBe(200);
+      expect(res.body.user.role).toBe(u.role);
+    }
+  });
+
+  it.each([
+    ['the first shop’s foreman', FOREMAN, DEMO_ORDERS.map((o) => o.number)],
+    ['the first shop’s technician', TEO, DEMO_ORDERS.map((o) => o.number)],
+    ['the second shop’s foreman', FOREMAN_TWO, DEMO_ORDERS_TWO.map((o) => o.number)],
+    ['the second shop’s technician', TECH_TWO, DEMO_ORDERS_TWO.map((o) => o.number)],
+  ])('shows %s only their own shop’s repair orders', async (_who, user, own) => {
+    const list = (await api.call('GET', '/api/repair-orders?pageSize=50', { user })).body.items as Array<{ number: string }>;
+    expect(list.map((o) => o.number).sort()).toEqual([...own].sort());
   });
 });

@@ -1,11 +1,11 @@
 /**
- * The bay and board pages over plain HTTP: who is at the tablet (cookie), where each person lands, the VIN check
+ * The bay and board pages over plain HTTP: sign-in (session cookie), where each person lands, the VIN check
  * the new-order page calls, escaping of everything a person typed, and who may see the board.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { html, raw } from '../../src/modules/pages/html';
 import { BACKENDS } from '../support/db';
-import { FOREMAN_A, INACTIVE_A, newVehicle, TECH_A, TECH_B, VIN_SAMPLE, VIN_TEXTBOOK } from '../support/fixtures';
+import { FIXTURE_PASSWORD, FOREMAN_A, INACTIVE_A, newVehicle, TECH_A, TECH_B, VIN_SAMPLE, VIN_TEXTBOOK } from '../support/fixtures';
 import { startApi, type TestApi } from '../support/http';
 
 describe('the html template', () => {
@@ -31,56 +31,68 @@ describe.each(BACKENDS)('bay and board pages over HTTP on the %s database', (bac
   });
   afterAll(async () => api?.close());
 
-  const page = (path: string, user?: string) =>
-    fetch(api.url + path, { redirect: 'manual', headers: user ? { cookie: `tracebay_user=${user}` } : {} });
+  const sessions = new Map<string, Promise<{ cookie: string; csrf: string }>>();
+  const session = (user: string) => {
+    if (!sessions.has(user)) sessions.set(user, api.sessionOf(user));
+    return sessions.get(user)!;
+  };
+  const page = async (path: string, user?: string) =>
+    fetch(api.url + path, { redirect: 'manual', headers: user ? { cookie: (await session(user)).cookie } : {} });
 
-  it.each(['/', '/bay', '/board', '/bay/new'])('sends %s without a chosen person to the picker', async (path) => {
+  it.each(['/', '/bay', '/board', '/bay/new'])('sends %s without a sign-in to the sign-in page', async (path) => {
     const res = await page(path);
     expect(res.status).toBe(303);
-    expect(res.headers.get('location')).toBe(path === '/' ? '/who' : `/who?next=${encodeURIComponent(path)}`);
+    expect(res.headers.get('location')).toBe(path === '/' ? '/sign-in' : `/sign-in?next=${encodeURIComponent(path)}`);
   });
 
-  it('sends a cookie naming an inactive person to the picker too, and clears it', async () => {
-    const res = await page('/bay', INACTIVE_A);
+  it('sends a session cookie the service never issued to the sign-in page too, and clears it', async () => {
+    const res = await fetch(`${api.url}/bay`, { redirect: 'manual', headers: { cookie: 'tracebay_session=AAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAA' } });
     expect(res.status).toBe(303);
-    expect(res.headers.get('set-cookie')).toMatch(/^tracebay_user=;/);
+    expect(res.headers.get('set-cookie')).toMatch(/^tracebay_session=;/);
   });
 
-  it('lists the active people of each shop on the picker, without the inactive one', async () => {
-    const res = await page('/who');
+  it('lets nobody inactive sign in: the page stays on sign-in', async () => {
+    const { cookie } = await session(INACTIVE_A);
+    expect(cookie).not.toContain('tracebay_session=');
+    const res = await page('/bay', INACTIVE_A);
+    expect(res.headers.get('location')).toBe('/sign-in?next=%2Fbay');
+  });
+
+  it('shows a sign-in form that lists nobody: no names, no shops before sign-in', async () => {
+    const res = await page('/sign-in');
     const text = await res.text();
     expect(res.status).toBe(200);
     expect(res.headers.get('content-type')).toContain('text/html');
-    expect(text).toContain('Fore Person');
-    expect(text).toContain('Tech One');
-    expect(text).toContain('Other Tech');
-    expect(text).not.toContain('Gone Away');
+    expect(text).toContain('name="password"');
+    expect(text).toContain('name="_csrf"');
+    for (const name of ['Fore Person', 'Tech One', 'Other Tech', 'Test Bay One']) expect(text).not.toContain(name);
   });
 
+  /** Signs in through the form as a browser would: the pre-session cookie and the hidden field must match. */
+  async function formSignIn(email: string, next?: string) {
+    const form = await fetch(`${api.url}/sign-in`);
+    const pre = form.headers.getSetCookie().map((c) => c.split(';')[0]!).join('; ');
+    const token = /name="_csrf" value="([^"]+)"/.exec(await form.text())![1]!;
+    const fields = new URLSearchParams({ _csrf: token, email, password: FIXTURE_PASSWORD, ...(next ? { next } : {}) });
+    return fetch(`${api.url}/sign-in`, { method: 'POST', redirect: 'manual', headers: { 'content-type': 'application/x-www-form-urlencoded', cookie: pre }, body: fields.toString() });
+  }
+
   it.each([
-    [TECH_A, '/bay'],
-    [FOREMAN_A, '/board'],
-  ])('remembers %s in a SameSite=Lax, HttpOnly cookie and sends them to %s', async (user, home) => {
-    const res = await fetch(`${api.url}/who`, {
-      method: 'POST',
-      redirect: 'manual',
-      headers: { 'content-type': 'application/x-www-form-urlencoded' },
-      body: `user=${user}`,
-    });
+    ['one@a.test', '/bay'],
+    ['fore@a.test', '/board'],
+  ])('signs %s in with a SameSite=Lax, HttpOnly session cookie and sends them to %s', async (email, home) => {
+    const res = await formSignIn(email);
     expect(res.status).toBe(303);
     expect(res.headers.get('location')).toBe(home);
-    const cookie = res.headers.get('set-cookie')!;
-    expect(cookie).toContain(`tracebay_user=${user}`);
+    const cookie = res.headers.getSetCookie().find((c) => c.startsWith('tracebay_session='))!;
     expect(cookie).toMatch(/HttpOnly/i);
     expect(cookie).toMatch(/SameSite=Lax/i);
   });
 
-  it('returns to the page asked for after choosing, but never to another site', async () => {
-    const choose = (next: string) =>
-      fetch(`${api.url}/who`, { method: 'POST', redirect: 'manual', headers: { 'content-type': 'application/x-www-form-urlencoded' }, body: `user=${TECH_A}&next=${encodeURIComponent(next)}` });
-    expect((await choose('/bay/new')).headers.get('location')).toBe('/bay/new');
-    expect((await choose('//elsewhere.example/x')).headers.get('location')).toBe('/bay');
-    expect((await choose('https://elsewhere.example/')).headers.get('location')).toBe('/bay');
+  it('returns to the page asked for after signing in, but never to another site', async () => {
+    expect((await formSignIn('one@a.test', '/bay/new')).headers.get('location')).toBe('/bay/new');
+    expect((await formSignIn('one@a.test', '//elsewhere.example/x')).headers.get('location')).toBe('/bay');
+    expect((await formSignIn('one@a.test', 'https://elsewhere.example/')).headers.get('location')).toBe('/bay');
   });
 
   it('keeps the board from technicians with a page that says why', async () => {

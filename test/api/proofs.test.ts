@@ -54,7 +54,7 @@ describe('proof of repair over HTTP', () => {
     expect((await api.call('POST', `/api/repair-orders/${roId}/reviews`, { user: TECH_A, body: { decision: 'approved' } })).status).toBe(403);
     expect((await api.call('POST', `/api/repair-orders/${roId}/reviews`, { user: FOREMAN_A, body: { decision: 'approved', comment: 'Splice checked' } })).status).toBe(201);
 
-    const res = await fetch(`${api.url}/api/repair-orders/${roId}/proof.pdf`, { headers: { 'x-tracebay-user': TECH_A } });
+    const res = await fetch(`${api.url}/api/repair-orders/${roId}/proof.pdf`, { headers: await api.authHeaders(TECH_A) });
     expect(res.status).toBe(200);
     expect(res.headers.get('content-type')).toBe('application/pdf');
     const pdf = Buffer.from(await res.arrayBuffer());
@@ -69,12 +69,12 @@ describe('proof of repair over HTTP', () => {
     expect(text.replace(/\s+/g, '')).toContain(digest.replace(/\s+/g, '').slice(0, 32));
 
     // The same evidence gives the same bytes (deterministic output).
-    const again = Buffer.from(await (await fetch(`${api.url}/api/repair-orders/${roId}/proof.pdf`, { headers: { 'x-tracebay-user': TECH_A } })).arrayBuffer());
+    const again = Buffer.from(await (await fetch(`${api.url}/api/repair-orders/${roId}/proof.pdf`, { headers: await api.authHeaders(TECH_A) })).arrayBuffer());
     expect(again.equals(pdf)).toBe(true);
 
     const byDigest = await api.call('POST', '/api/proofs/verify', { user: TECH_A, body: { digest } });
     expect(byDigest.body).toMatchObject({ matches: true, known: true, repairOrder: { id: roId } });
-    const byFile = await fetch(`${api.url}/api/proofs/verify`, { method: 'POST', headers: { 'x-tracebay-user': TECH_A, 'content-type': 'application/pdf' }, body: pdf });
+    const byFile = await fetch(`${api.url}/api/proofs/verify`, { method: 'POST', headers: { ...(await api.authHeaders(TECH_A)), 'content-type': 'application/pdf' }, body: pdf });
     expect(await byFile.json()).toMatchObject({ matches: true, digest });
     const base64 = await api.call('POST', '/api/proofs/verify', { user: TECH_A, body: { pdfBase64: pdf.toString('base64') } });
     expect(base64.body.matches).toBe(true);

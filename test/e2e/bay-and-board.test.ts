@@ -13,7 +13,7 @@ import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { defaultCircuit, faultsFor, predictReading } from '../../src/engine/circuit';
 import type { MeasurementRequest } from '../../src/engine/vocabulary';
 import { readPdf } from '../proof-render/pdf-tools';
-import { TECH_A, VIN_SAMPLE } from '../support/fixtures';
+import { FIXTURE_PASSWORD, TECH_A, VIN_SAMPLE } from '../support/fixtures';
 import { startApi, type TestApi } from '../support/http';
 import { launch, PORTRAIT, seriousViolations, snap } from './browser';
 
@@ -57,6 +57,7 @@ describe('bay tablet and foreman board in Chromium', () => {
   let orderId = '';
   let roNumber = '';
   const dialogs: string[] = [];
+  const cspViolations: string[] = [];
   const axe: Record<string, unknown[]> = {};
   const check = async (name: string) => {
     await snap(page, name);
@@ -85,6 +86,10 @@ describe('bay tablet and foreman board in Chromium', () => {
     browser = await launch();
     context = await browser.newContext({ viewport: PORTRAIT, deviceScaleFactor: 1, hasTouch: true });
     page = await context.newPage();
+    // Anything the Content Security Policy blocks shows in the console: the pages must need no inline script or style.
+    page.on('console', (m) => {
+      if (/Content Security Policy/i.test(m.text())) cspViolations.push(m.text());
+    });
     page.on('dialog', (d) => {
       dialogs.push(d.message());
       void d.dismiss();
@@ -96,11 +101,22 @@ describe('bay tablet and foreman board in Chromium', () => {
     await api?.close();
   });
 
-  it('sends a visitor without a chosen person to the picker, and the technician lands on their repair orders', async () => {
+  /** Signs in on the sign-in page as a person at the tablet would. */
+  async function signIn(email: string): Promise<void> {
+    await page.locator('#email').fill(email);
+    await page.locator('#password').fill(FIXTURE_PASSWORD);
+    await page.getByRole('button', { name: 'Sign in' }).click();
+  }
+
+  it('sends a visitor who is not signed in to the sign-in page, and the technician lands on their repair orders', async () => {
     await page.goto(`${api.url}/`);
-    expect(new URL(page.url()).pathname).toBe('/who');
-    await check('01-who');
-    await page.getByRole('button', { name: /Tech One/ }).click();
+    expect(new URL(page.url()).pathname).toBe('/sign-in');
+    await check('01-sign-in');
+    await page.locator('#email').fill('one@a.test');
+    await page.locator('#password').fill('not the password at all');
+    await page.getByRole('button', { name: 'Sign in' }).click();
+    await expect.poll(() => page.locator('.form-error').textContent()).toContain('not right');
+    await signIn('one@a.test');
     await page.waitForURL('**/bay');
     await expect.poll(() => page.locator('.who-name').textContent()).toBe('Tech One');
     await check('02-bay-home');
@@ -247,8 +263,10 @@ describe('bay tablet and foreman board in Chromium', () => {
   });
 
   it('shows the foreman the verified order waiting for approval, filters by technician, and takes the approval', async () => {
-    await page.getByRole('link', { name: 'Change person' }).click();
-    await page.getByRole('button', { name: /Fore Person/ }).click();
+    await page.getByRole('link', { name: 'Sign out' }).click();
+    await page.getByRole('button', { name: 'Sign out' }).click();
+    await page.waitForURL('**/sign-in');
+    await signIn('fore@a.test');
     await page.waitForURL('**/board');
     const card = page.locator(`.board-card[data-order-number="${roNumber}"]`);
     expect(await card.textContent()).toContain('Waiting for your approval');
@@ -288,6 +306,10 @@ describe('bay tablet and foreman board in Chromium', () => {
     const ids = (await seriousViolations(probe)).map((v) => v.id);
     await probe.close();
     expect(ids).toEqual(expect.arrayContaining(['image-alt', 'button-name']));
+  });
+
+  it('loads every page under the strict Content Security Policy without a blocked script or style', () => {
+    expect(cspViolations).toEqual([]);
   });
 
   it('finds no serious or critical accessibility violations on any page (axe-core)', () => {

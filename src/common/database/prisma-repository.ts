@@ -1,5 +1,6 @@
 import { Inject } from '@nestjs/common';
 import type { Prisma, PrismaClient } from '../../generated/prisma/client';
+import { currentWriteContext } from '../logging/request-context';
 import { DATABASE, type OpenDatabase } from './database.tokens';
 
 /**
@@ -13,7 +14,32 @@ export abstract class PrismaRepository {
     this.prisma = database.prisma;
   }
 
+  /**
+   * Every write goes through here: the transaction first tells the database who writes and from where
+   * (transaction-local, read by the audit triggers), and marks the request's idempotency record as committed
+   * together with the write itself.
+   */
   transaction<T>(work: (tx: Prisma.TransactionClient) => Promise<T>): Promise<T> {
-    return this.prisma.$transaction(work);
+    return this.prisma.$transaction(async (tx) => {
+      await stampTransaction(tx);
+      return work(tx);
+    });
+  }
+}
+
+async function stampTransaction(tx: Prisma.TransactionClient): Promise<void> {
+  const context = currentWriteContext();
+  if (!context) return;
+  const stamp = JSON.stringify({
+    userId: context.actor?.userId ?? null,
+    shopId: context.actor?.shopId ?? null,
+    ip: context.client?.ip ?? null,
+    userAgent: context.client?.userAgent ?? null,
+    requestId: context.requestId,
+    clientId: context.client?.clientId ?? null,
+  });
+  await tx.$queryRaw`SELECT set_config('tracebay.context', ${stamp}, true)`;
+  if (context.idempotencyId) {
+    await tx.$executeRaw`UPDATE "IdempotencyKey" SET "committedAt" = CURRENT_TIMESTAMP WHERE "id" = ${context.idempotencyId}::uuid AND "committedAt" IS NULL`;
   }
 }

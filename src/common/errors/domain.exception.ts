@@ -8,7 +8,17 @@ export interface Finding {
   message: string;
 }
 
-export type ErrorKind = 'invalid' | 'not_found' | 'conflict' | 'unavailable' | 'forbidden' | 'unauthenticated';
+export type ErrorKind =
+  | 'invalid'
+  | 'not_found'
+  | 'conflict'
+  | 'unavailable'
+  | 'forbidden'
+  | 'unauthenticated'
+  /** Well-formed, but cannot be carried out as sent (e.g. an idempotency key reused for another request). */
+  | 'unprocessable'
+  /** Over a rate limit; `details.retryAfterSeconds` says when to try again. */
+  | 'too_many_requests';
 
 export class DomainException extends Error {
   constructor(
@@ -52,4 +62,11 @@ export function describeFindings(findings: Finding[]): string {
 /** Prefixes every finding's path, e.g. to place an engine finding under `body.vehicle`. */
 export function underPath(prefix: string, findings: Finding[]): Finding[] {
   return findings.map((f) => ({ ...f, path: f.path ? `${prefix}.${f.path}` : prefix }));
+}
+
+/** Over a request budget: answered 429 with `Retry-After`. */
+export class TooManyRequestsException extends DomainException {
+  constructor(code: string, message: string, retryAfterSeconds: number) {
+    super('too_many_requests', code, message, [], { retryAfterSeconds });
+  }
 }

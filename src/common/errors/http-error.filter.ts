@@ -2,6 +2,7 @@ import { ArgumentsHost, Catch, ExceptionFilter, HttpException, Logger } from '@n
 import type { Response } from 'express';
 import { DomainException, type ErrorKind } from './domain.exception';
 import { currentRequestId } from '../logging/request-context';
+import { isDatabaseUnavailable, isDataRejected } from '../../database/unavailable';
 
 /** The one mapping from error kinds to HTTP statuses (pages render the same statuses as HTML). */
 export const HTTP_STATUS: Readonly<Record<ErrorKind, number>> = {
@@ -10,19 +11,13 @@ export const HTTP_STATUS: Readonly<Record<ErrorKind, number>> = {
   forbidden: 403,
   not_found: 404,
   conflict: 409,
+  unprocessable: 422,
+  too_many_requests: 429,
   unavailable: 503,
 };
 
 interface ErrorBody {
   error: { code: string; message: string; requestId?: string; findings?: unknown[]; [k: string]: unknown };
-}
-
-/** Prisma / driver errors that mean "the database is not reachable right now". */
-function isUnavailable(error: unknown): boolean {
-  const text = `${(error as { code?: string })?.code ?? ''} ${(error as Error)?.message ?? ''}`;
-  return /ECONNREFUSED|ECONNRESET|ETIMEDOUT|P1001|P1017|Connection terminated|too many clients|the database system is (starting|shutting)/i.test(
-    text,
-  );
 }
 
 /** The one place where errors become HTTP responses. Unknown errors are logged and never leak details. */
@@ -34,8 +29,11 @@ export class HttpErrorFilter implements ExceptionFilter {
     const response = host.switchToHttp().getResponse<Response>();
     const [status, body] = this.toResponse(error);
     body.error.requestId = currentRequestId();
-    if (status >= 500) this.logger.error(error instanceof Error ? (error.stack ?? error.message) : String(error));
+    // An unreachable database is an outage, not a bug: one line per request, not a stack.
+    if (status === 503) this.logger.warn(`${body.error.code}: ${error instanceof Error ? error.message.trim().split('\n').pop() : String(error)}`);
+    else if (status >= 500) this.logger.error(error instanceof Error ? (error.stack ?? error.message) : String(error));
     if (status === 503) response.setHeader('Retry-After', '2');
+    if (status === 429) response.setHeader('Retry-After', String(Math.max(1, Math.ceil(Number(body.error.retryAfterSeconds) || 1))));
     response.status(status).json(body);
   }
 
@@ -54,8 +52,13 @@ export class HttpErrorFilter implements ExceptionFilter {
       ];
     }
     if (error instanceof HttpException) return this.fromHttpException(error);
-    if (isUnavailable(error)) {
+    if (isDatabaseUnavailable(error)) {
       return [503, { error: { code: 'database.unavailable', message: 'The database is not reachable; try again shortly.' } }];
+    }
+    if (isDataRejected(error)) {
+      // Validation should have refused it: logged as an error so that the gap gets closed.
+      this.logger.error(`Input refused by the database, not by validation: ${error instanceof Error ? error.message.trim().split('\n').pop() : String(error)}`);
+      return [400, { error: { code: 'input.not_storable', message: 'A value in the request cannot be stored (for example a NUL character in text, or a number out of range).' } }];
     }
     return [500, { error: { code: 'internal', message: 'Something went wrong on our side; the request id identifies it in the log.' } }];
   }

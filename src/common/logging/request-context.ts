@@ -2,8 +2,21 @@ import { AsyncLocalStorage } from 'node:async_hooks';
 import { randomUUID } from 'node:crypto';
 import type { NextFunction, Request, Response } from 'express';
 
+/** Where a request came from, as recorded in the audit trail. */
+export interface RequestClient {
+  ip: string | null;
+  userAgent: string | null;
+  /** The tablet's or script's own id, from the `X-Tracebay-Client` header when sent. */
+  clientId: string | null;
+}
+
 interface RequestContext {
   requestId: string;
+  client?: RequestClient;
+  /** Set once the caller is known (after authentication). */
+  actor?: { userId: string; shopId: string };
+  /** The idempotency record this request's writes belong to, if it carries a key. */
+  idempotencyId?: string;
 }
 
 const storage = new AsyncLocalStorage<RequestContext>();
@@ -12,7 +25,24 @@ export function currentRequestId(): string | undefined {
   return storage.getStore()?.requestId;
 }
 
+/** Who, from where and under which idempotency record the current request writes; undefined outside a request. */
+export function currentWriteContext(): Readonly<RequestContext> | undefined {
+  return storage.getStore();
+}
+
+/** Records the authenticated caller on the current request, for the audit trail. */
+export function setContextActor(actor: { userId: string; shopId: string }): void {
+  const store = storage.getStore();
+  if (store) store.actor = { userId: actor.userId, shopId: actor.shopId };
+}
+
+export function setContextIdempotency(id: string | undefined): void {
+  const store = storage.getStore();
+  if (store) store.idempotencyId = id;
+}
+
 const INCOMING_ID = /^[A-Za-z0-9._-]{1,64}$/;
+export const CLIENT_ID_HEADER = 'x-tracebay-client';
 
 /**
  * Express middleware: gives every request an id (the client's `X-Request-Id` when it is sane), echoes it
@@ -23,11 +53,17 @@ export function requestContext(log: (line: string) => void) {
     const incoming = req.header('x-request-id');
     const requestId = incoming && INCOMING_ID.test(incoming) ? incoming : randomUUID();
     res.setHeader('X-Request-Id', requestId);
+    const clientId = req.header(CLIENT_ID_HEADER);
+    const client: RequestClient = {
+      ip: req.ip ?? req.socket.remoteAddress ?? null,
+      userAgent: req.header('user-agent')?.slice(0, 512) ?? null,
+      clientId: clientId && INCOMING_ID.test(clientId) ? clientId : null,
+    };
     const started = process.hrtime.bigint();
     res.on('finish', () => {
       const ms = Number(process.hrtime.bigint() - started) / 1e6;
       storage.run({ requestId }, () => log(`${req.method} ${req.originalUrl} ${res.statusCode} ${ms.toFixed(1)} ms`));
     });
-    storage.run({ requestId }, next);
+    storage.run({ requestId, client }, next);
   };
 }

@@ -52,7 +52,7 @@ export class DiagnosisService {
     if (!circuit) throw new NotFoundException('circuit', circuitId, 'on this repair order');
     const tree = circuit.faultTreeId
       ? await this.trees.byStoredId(actor, circuit.faultTreeId)
-      : (await this.trees.bindForCircuit(actor, circuit.kind, undefined, this.measurements.prisma)).tree;
+      : (await this.measurements.transaction((tx) => this.trees.bindForCircuit(actor, circuit.kind, undefined, tx))).tree;
     const [readings, repairs] = await Promise.all([
       this.measurements.list(repairOrderId, { circuitId, includeSuperseded: true }),
       this.repairs.listForOrder(repairOrderId),

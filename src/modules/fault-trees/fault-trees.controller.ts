@@ -28,7 +28,7 @@ export class FaultTreesController {
   })
   @ApiBody({ schema: { type: 'object', description: 'a fault-tree document (format tracebay.fault-tree/1); see src/engine/trees for the built-in ones' } })
   async upload(@CurrentActor() actor: Actor, @Body() body: unknown, @Res({ passthrough: true }) res: Response) {
-    const result = await this.catalog.upload(actor, body, this.trees.prisma);
+    const result = await this.trees.transaction((tx) => this.catalog.upload(actor, body, tx));
     res.status(result.created ? 201 : 200);
     return result;
   }

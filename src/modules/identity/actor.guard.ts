@@ -1,53 +1,60 @@
-import { CanActivate, ExecutionContext, Inject, Injectable, SetMetadata } from '@nestjs/common';
+import { CanActivate, ExecutionContext, Injectable, SetMetadata } from '@nestjs/common';
 import { Reflector } from '@nestjs/core';
-import { z } from 'zod';
 import { DomainException } from '../../common/errors/domain.exception';
-import { ACTOR_HEADER, type RequestWithActor } from './actor';
-import { UsersRepository } from './users.repository';
+import { AuthService } from '../auth/auth.service';
+import { bearerToken, CSRF_FIELD, CSRF_HEADER, readCookie, SESSION_COOKIE } from '../auth/credentials';
+import { csrfTokenFor, sameToken } from '../auth/secrets';
+import type { RequestWithActor } from './actor';
 
 const PUBLIC = Symbol('public-route');
-/** Marks a route that needs no actor (health, documentation). */
+/** Marks a route that needs no actor (health, documentation, sign-in). */
 export const PublicRoute = () => SetMetadata(PUBLIC, true);
 
-const UserId = z.uuid();
+export type RequestWithCredential = RequestWithActor & { credential?: { via: 'bearer' | 'session'; secret: string } };
 
-/** The bay pages remember who is at the tablet in this cookie; API clients send the header instead. */
-export const ACTOR_COOKIE = 'tracebay_user';
-
-function actorCookie(cookieHeader: string | undefined): string | undefined {
-  for (const part of cookieHeader?.split(';') ?? []) {
-    const [name, ...value] = part.trim().split('=');
-    if (name === ACTOR_COOKIE) return decodeURIComponent(value.join('='));
-  }
-  return undefined;
-}
+const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
 
 /**
- * Identifies the caller from the `X-Tracebay-User` header (a user id), or for the pages the `tracebay_user`
- * cookie. Sign-in replaces the header with
- * sessions and tokens; until then this still makes every write record who did it and scopes every query
- * to that user's shop.
+ * Identifies the caller from an API bearer token (`Authorization: Bearer …`) or the pages' session cookie, both
+ * looked up by their SHA-256 in the database (so every instance of the service agrees). A state-changing request
+ * carried by the session cookie must also carry the session's CSRF token (header or form field): the browser
+ * sends the cookie on its own, the token only a page of ours can know. Bearer tokens are never sent by a browser
+ * on its own, so they need none.
  */
 @Injectable()
 export class ActorGuard implements CanActivate {
   constructor(
     private readonly reflector: Reflector,
-    @Inject(UsersRepository) private readonly users: UsersRepository,
+    private readonly auth: AuthService,
   ) {}
 
   async canActivate(context: ExecutionContext): Promise<boolean> {
     if (this.reflector.getAllAndOverride<boolean>(PUBLIC, [context.getHandler(), context.getClass()])) return true;
-    const request = context.switchToHttp().getRequest<RequestWithActor>();
-    const header = request.header(ACTOR_HEADER) ?? actorCookie(request.header('cookie'));
-    const finding = (message: string) =>
+    const request = context.switchToHttp().getRequest<RequestWithCredential>();
+    const bearer = bearerToken(request);
+    const session = bearer ? undefined : readCookie(request, SESSION_COOKIE);
+    const secret = bearer ?? session;
+    const unauthenticated = (message: string) =>
       new DomainException('unauthenticated', 'actor.missing', message, [
-        { code: 'actor.invalid', path: `headers.${ACTOR_HEADER}`, message },
+        { code: 'actor.invalid', path: bearer || !session ? 'headers.authorization' : `cookies.${SESSION_COOKIE}`, message },
       ]);
-    if (!header) throw finding('Every request names its user in the X-Tracebay-User header (a user id).');
-    if (!UserId.safeParse(header).success) throw finding('X-Tracebay-User must be a user id (UUID).');
-    const user = await this.users.findActive(header);
-    if (!user) throw finding('X-Tracebay-User names no active user.');
-    request.actor = { userId: user.id, shopId: user.shopId, name: user.name, role: user.role };
+    if (!secret) {
+      if (request.header('authorization')) throw unauthenticated('The Authorization header must be “Bearer <token>” with a token from POST /api/auth/sign-in.');
+      throw unauthenticated('Sign in first: send “Authorization: Bearer <token>” (from POST /api/auth/sign-in), or sign in on the pages.');
+    }
+    const found = await this.auth.actorFor(secret);
+    if (!found) throw unauthenticated('The token or session is unknown, expired or signed out: sign in again.');
+    if (session && !SAFE_METHODS.has(request.method)) {
+      const body = request.body as Record<string, unknown> | undefined;
+      const sent = request.header(CSRF_HEADER) ?? (typeof body?.[CSRF_FIELD] === 'string' ? (body[CSRF_FIELD] as string) : undefined);
+      if (!sameToken(sent, csrfTokenFor(session))) {
+        throw new DomainException('forbidden', 'csrf.missing', 'This change came without the page’s CSRF token: reload the page and try again.', [
+          { code: 'csrf.invalid', path: `headers.${CSRF_HEADER}`, message: 'A change made with the session cookie carries the session’s CSRF token in the X-CSRF-Token header or the _csrf form field.' },
+        ]);
+      }
+    }
+    request.actor = found.actor;
+    request.credential = { via: bearer ? 'bearer' : 'session', secret };
     return true;
   }
 }

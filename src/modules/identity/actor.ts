@@ -9,8 +9,6 @@ export interface Actor {
   role: 'technician' | 'foreman' | 'admin';
 }
 
-export const ACTOR_HEADER = 'x-tracebay-user';
-
 export type RequestWithActor = Request & { actor?: Actor };
 
 export const CurrentActor = createParamDecorator((_: unknown, ctx: ExecutionContext): Actor => {

@@ -1,12 +1,12 @@
 import { Module } from '@nestjs/common';
-import { APP_GUARD } from '@nestjs/core';
-import { ActorGuard } from './actor.guard';
 import { UsersController } from './users.controller';
 import { UsersRepository } from './users.repository';
+import { UsersService } from './users.service';
 
+/** People of a shop. The guard that identifies them lives in AuthModule. */
 @Module({
   controllers: [UsersController],
-  providers: [UsersRepository, { provide: APP_GUARD, useClass: ActorGuard }],
+  providers: [UsersRepository, UsersService],
   exports: [UsersRepository],
 })
 export class IdentityModule {}

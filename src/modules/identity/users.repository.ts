@@ -23,4 +23,20 @@ export class UsersRepository extends PrismaRepository {
   shop(shopId: string) {
     return this.prisma.shop.findUniqueOrThrow({ where: { id: shopId }, select: { id: true, name: true, address: true } });
   }
+
+  emailTaken(email: string) {
+    return this.prisma.user.findUnique({ where: { email }, select: { id: true } }).then((u) => u !== null);
+  }
+
+  create(shopId: string, data: { name: string; email: string; role: 'technician' | 'foreman' | 'admin'; passwordHash: string }) {
+    return this.prisma.user.create({ data: { ...data, shopId }, select: { id: true, name: true, email: true, role: true, active: true } });
+  }
+
+  /** Deactivates and ends every session and token of the person, in one transaction. */
+  deactivate(id: string) {
+    return this.transaction(async (tx) => {
+      await tx.signIn.updateMany({ where: { userId: id, revokedAt: null }, data: { revokedAt: new Date() } });
+      return tx.user.update({ where: { id }, data: { active: false }, select: { id: true, name: true, email: true, role: true, active: true } });
+    });
+  }
 }

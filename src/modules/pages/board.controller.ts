@@ -41,8 +41,9 @@ export class BoardController {
   @Header('Content-Type', 'text/html; charset=utf-8')
   @Header('Cache-Control', 'no-store')
   async order(@CurrentActor() actor: Actor, @UuidParam('id') id: string) {
-    foremanOnly(actor);
+    // Existence first: an id of another shop is a 404 for everyone, never a 403 that confirms it exists.
     const data = await this.bay.order(actor, id);
+    foremanOnly(actor);
     const [item] = await this.board.list(actor, { orderId: id });
     return reviewPage(actor, data, item?.flags ?? []).value;
   }

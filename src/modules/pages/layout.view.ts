@@ -67,7 +67,7 @@ ${scripts.map((s) => html`<script type="module" src="/assets/js/${s}"></script>`
   ${
     actor
       ? html`<div class="who"><span class="who-name">${actor.name}</span> <span class="who-role">${ROLE_WORDS[actor.role]}</span>
-      <a class="button small ghost" href="/who">Change person</a></div>`
+      <a class="button small ghost" href="/sign-out">Sign out</a></div>`
       : ''
   }
 </header>

@@ -3,13 +3,13 @@ import type { Response } from 'express';
 import { DomainException } from '../../common/errors/domain.exception';
 import { HTTP_STATUS } from '../../common/errors/http-error.filter';
 import type { RequestWithActor } from '../identity/actor';
-import { ACTOR_COOKIE } from '../identity/actor.guard';
+import { SESSION_COOKIE } from '../auth/credentials';
 import { errorPage } from './layout.view';
 
 
 /**
- * Errors on page routes become pages, not JSON: no person chosen (or one no longer active) goes to the
- * "who is at this tablet" page; anything else is shown in the page shell with the service's own message.
+ * Errors on page routes become pages, not JSON: not signed in (or signed out, expired, deactivated) goes to the
+ * sign-in page; anything else is shown in the page shell with the service's own message.
  */
 @Catch()
 export class PagesErrorFilter implements ExceptionFilter {
@@ -19,9 +19,9 @@ export class PagesErrorFilter implements ExceptionFilter {
     const request = host.switchToHttp().getRequest<RequestWithActor>();
     const response = host.switchToHttp().getResponse<Response>();
     if (error instanceof DomainException && error.kind === 'unauthenticated') {
-      response.clearCookie(ACTOR_COOKIE, { path: '/' });
+      if (request.header('cookie')?.includes(`${SESSION_COOKIE}=`)) response.clearCookie(SESSION_COOKIE, { path: '/' });
       const next = request.method === 'GET' && request.originalUrl !== '/' ? `?next=${encodeURIComponent(request.originalUrl)}` : '';
-      response.redirect(303, `/who${next}`);
+      response.redirect(303, `/sign-in${next}`);
       return;
     }
     let status = 500;

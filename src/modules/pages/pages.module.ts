@@ -13,7 +13,7 @@ import { BoardService } from './board.service';
 import { PagesRepository } from './pages.repository';
 import { staticAssets } from './static-assets';
 import { VinCheckController } from './vin-check.controller';
-import { WhoController } from './who.controller';
+import { SignInController } from './sign-in.controller';
 
 /**
  * The pages for the bay tablet and the foreman, rendered on the server, with their static assets. They read and
@@ -21,13 +21,15 @@ import { WhoController } from './who.controller';
  */
 @Module({
   imports: [IdentityModule, RepairOrdersModule, CircuitsModule, RepairsModule, ReviewsModule, DiagnosisModule],
-  controllers: [WhoController, BayController, BoardController, VinCheckController],
+  controllers: [SignInController, BayController, BoardController, VinCheckController],
   providers: [PagesRepository, BayService, BoardService],
 })
 export class PagesModule implements NestModule {
   configure(consumer: MiddlewareConsumer): void {
     consumer.apply(staticAssets()).forRoutes({ path: 'assets/*path', method: RequestMethod.GET });
-    // The "who is at this tablet" form posts as a plain HTML form.
-    consumer.apply(urlencoded({ extended: false, limit: '4kb' })).forRoutes({ path: 'who', method: RequestMethod.POST });
+    // Sign-in and sign-out post as plain HTML forms.
+    consumer
+      .apply(urlencoded({ extended: false, limit: '4kb' }))
+      .forRoutes({ path: 'sign-in', method: RequestMethod.POST }, { path: 'sign-out', method: RequestMethod.POST });
   }
 }

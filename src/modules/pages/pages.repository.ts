@@ -28,21 +28,6 @@ export class PagesRepository {
     this.db = database.prisma;
   }
 
-  /**
-   * Active people of every shop, for the "who is at this tablet" picker. Temporary: sign-in replaces it, and
-   * then nobody is listed before signing in.
-   */
-  activePeople() {
-    return this.db.shop.findMany({
-      orderBy: [{ name: 'asc' }, { id: 'asc' }],
-      select: {
-        id: true,
-        name: true,
-        users: { where: { active: true }, orderBy: [{ role: 'asc' }, { name: 'asc' }], select: { id: true, name: true, role: true } },
-      },
-    });
-  }
-
   technicians(shopId: string) {
     return this.db.user.findMany({ where: { shopId, active: true, role: 'technician' }, orderBy: { name: 'asc' }, select: { id: true, name: true } });
   }

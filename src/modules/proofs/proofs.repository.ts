@@ -6,7 +6,10 @@ import type { Prisma } from '../../generated/prisma/client';
 export class ProofsRepository extends PrismaRepository {
   /** Remembers what an issued document stated and its file's hash; the same file twice is stored once. */
   async remember(repairOrderId: string, digest: string, fileSha256: string, view: object, issuedById: string): Promise<void> {
-    await this.prisma.proofIssue.createMany({ data: [{ repairOrderId, digest, fileSha256, view: view as Prisma.InputJsonValue, issuedById }], skipDuplicates: true });
+    // In a transaction like every write, so the audit trail records who issued it and from where.
+    await this.transaction((tx) =>
+      tx.proofIssue.createMany({ data: [{ repairOrderId, digest, fileSha256, view: view as Prisma.InputJsonValue, issuedById }], skipDuplicates: true }),
+    );
   }
 
   /** An issued document of the shop, by evidence digest or by the hash of its file. */

@@ -75,10 +75,9 @@ export class RepairOrdersRepository extends PrismaRepository {
 
   /** What a status move depends on: repairs recorded, and the foreman's latest decision. */
   async progress(db: Db, id: string) {
-    const [repairs, latestReview] = await Promise.all([
-      db.repair.count({ where: { repairOrderId: id } }),
-      db.review.findFirst({ where: { repairOrderId: id }, orderBy: [{ at: 'desc' }, { seq: 'desc' }], select: { decision: true } }),
-    ]);
+    // One after the other: inside a transaction both share a single connection.
+    const repairs = await db.repair.count({ where: { repairOrderId: id } });
+    const latestReview = await db.review.findFirst({ where: { repairOrderId: id }, orderBy: [{ at: 'desc' }, { seq: 'desc' }], select: { decision: true } });
     return { repairs, latestDecision: latestReview?.decision ?? null };
   }
 

@@ -67,7 +67,8 @@ export class RepairOrdersService {
       if (input.technicianId) await this.requireTechnician(actor, input.technicianId, 'body.technicianId', tx);
       const { version, ...changes } = input;
       this.requireVersion(current, version);
-      await this.orders.updateAtVersion(tx, id, version, changes);
+      // Another instance may have moved the version between our read and this write: then nothing changed.
+      if ((await this.orders.updateAtVersion(tx, id, version, changes)) !== 1) this.raceLost(id);
     });
     return this.get(actor, id);
   }

@@ -20,12 +20,13 @@ export class ReviewsService {
   ) {}
 
   async record(actor: Actor, repairOrderId: string, input: RecordReview) {
-    if (actor.role === 'technician') {
-      throw new DomainException('forbidden', 'review.foreman_only', 'Only a foreman (or an admin) approves or returns a repair.');
-    }
     const row = await this.reviews.transaction(async (tx) => {
       const order = await this.orders.findHeader(actor.shopId, repairOrderId, tx);
+      // Existence before role: someone of another shop gets a 404, never a 403 that confirms the order exists.
       if (!order) throw new NotFoundException('repair_order', repairOrderId);
+      if (actor.role === 'technician') {
+        throw new DomainException('forbidden', 'review.foreman_only', 'Only a foreman (or an admin) approves or returns a repair.');
+      }
       if (!REVIEWABLE.has(order.status)) {
         throw new ConflictException(
           'review.wrong_status',

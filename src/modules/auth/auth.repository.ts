@@ -1,0 +1,53 @@
+import { Injectable } from '@nestjs/common';
+import { PrismaRepository } from '../../common/database/prisma-repository';
+
+const ACTOR_FIELDS = { id: true, shopId: true, name: true, role: true } as const;
+
+@Injectable()
+export class AuthRepository extends PrismaRepository {
+  userByEmail(email: string) {
+    return this.prisma.user.findUnique({
+      where: { email },
+      select: { ...ACTOR_FIELDS, active: true, passwordHash: true, lockedUntil: true },
+    });
+  }
+
+  /** Counts a failure; at `limit` consecutive failures the account locks until `lockUntil` and the count restarts. */
+  async recordFailure(userId: string, limit: number, lockUntil: Date): Promise<{ locked: boolean }> {
+    return this.transaction(async (tx) => {
+      const { failedSignIns } = await tx.user.update({ where: { id: userId }, data: { failedSignIns: { increment: 1 } }, select: { failedSignIns: true } });
+      if (failedSignIns < limit) return { locked: false };
+      await tx.user.update({ where: { id: userId }, data: { failedSignIns: 0, lockedUntil: lockUntil } });
+      return { locked: true };
+    });
+  }
+
+  recordSuccess(userId: string) {
+    return this.prisma.user.update({ where: { id: userId }, data: { failedSignIns: 0, lockedUntil: null }, select: { id: true } });
+  }
+
+  createSignIn(data: { userId: string; kind: 'page' | 'api'; secretHash: string; client: string; expiresAt: Date }) {
+    return this.prisma.signIn.create({ data, select: { id: true, expiresAt: true } });
+  }
+
+  /** The active user behind a live (unexpired, not revoked) session or token. */
+  async actorFor(secretHash: string, now: Date) {
+    const found = await this.prisma.signIn.findFirst({
+      where: { secretHash, revokedAt: null, expiresAt: { gt: now }, user: { active: true } },
+      select: { id: true, kind: true, user: { select: ACTOR_FIELDS } },
+    });
+    return found ?? null;
+  }
+
+  revoke(secretHash: string, now: Date) {
+    return this.prisma.signIn.updateMany({ where: { secretHash, revokedAt: null }, data: { revokedAt: now } });
+  }
+
+  revokeAllOf(userId: string, now: Date) {
+    return this.prisma.signIn.updateMany({ where: { userId, revokedAt: null }, data: { revokedAt: now } });
+  }
+
+  shopName(shopId: string) {
+    return this.prisma.shop.findUnique({ where: { id: shopId }, select: { name: true } });
+  }
+}

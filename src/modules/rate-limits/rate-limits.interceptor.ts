@@ -1,0 +1,71 @@
+import { Inject, Injectable, type CallHandler, type ExecutionContext, type NestInterceptor } from '@nestjs/common';
+import type { Observable } from 'rxjs';
+import { APP_CONFIG, type AppConfig } from '../../config/config';
+import { TooManyRequestsException } from '../../common/errors/domain.exception';
+import type { RequestWithActor } from '../identity/actor';
+import { RateLimitsRepository } from './rate-limits.repository';
+
+const WRITES = new Set(['POST', 'PATCH', 'PUT', 'DELETE']);
+/** The sign-in route, matched by path so the limit holds whoever implements it. */
+export const SIGN_IN_PATH = '/api/auth/sign-in';
+
+interface Budget {
+  bucket: string;
+  limit: number;
+  windowSeconds: number;
+  code: string;
+  what: string;
+}
+
+/**
+ * Request budgets shared by every instance through the database: writes per user, and sign-in attempts per
+ * client address and per email address. Over budget → 429 with `Retry-After`.
+ */
+@Injectable()
+export class RateLimitsInterceptor implements NestInterceptor {
+  constructor(
+    private readonly counters: RateLimitsRepository,
+    @Inject(APP_CONFIG) private readonly config: AppConfig,
+  ) {}
+
+  async intercept(context: ExecutionContext, next: CallHandler): Promise<Observable<unknown>> {
+    if (context.getType() !== 'http') return next.handle();
+    const req = context.switchToHttp().getRequest<RequestWithActor>();
+    if (!WRITES.has(req.method)) return next.handle();
+    const budgets = this.budgetsFor(req).filter((b) => b.limit > 0);
+    if (budgets.length === 0) return next.handle();
+    if (Math.random() < 0.005) void this.counters.purgeOld().catch(() => {});
+    for (const budget of budgets) {
+      // The window length is part of the bucket: instances configured alike share it, others keep apart.
+      const { hits, resetSeconds } = await this.counters.hit(`${budget.bucket}/${budget.windowSeconds}s`, budget.windowSeconds);
+      if (hits > budget.limit) {
+        const wait = Math.max(1, Math.ceil(resetSeconds));
+        throw new TooManyRequestsException(
+          budget.code,
+          `Too many ${budget.what}: at most ${budget.limit} in ${budget.windowSeconds} s. Try again in ${wait} s.`,
+          wait,
+        );
+      }
+    }
+    return next.handle();
+  }
+
+  private budgetsFor(req: RequestWithActor): Budget[] {
+    const limits = this.config.rateLimits;
+    // Routing ignores case and a trailing slash, so the match does too.
+    if (req.path.toLowerCase().replace(/\/+$/, '') === SIGN_IN_PATH) {
+      const ip = req.ip ?? req.socket.remoteAddress ?? 'unknown';
+      const email = typeof req.body?.email === 'string' ? req.body.email.trim().toLowerCase().slice(0, 254) : undefined;
+      return [
+        { bucket: `sign-in:ip:${ip}`, limit: limits.signInsPerIp, windowSeconds: limits.signInWindowSeconds, code: 'rate_limit.sign_in', what: 'sign-in attempts from this address' },
+        ...(email
+          ? [{ bucket: `sign-in:email:${email}`, limit: limits.signInsPerEmail, windowSeconds: limits.signInWindowSeconds, code: 'rate_limit.sign_in', what: 'sign-in attempts for this account' }]
+          : []),
+      ];
+    }
+    if (!req.actor) return [];
+    return [
+      { bucket: `write:user:${req.actor.userId}`, limit: limits.writesPerUser, windowSeconds: limits.writeWindowSeconds, code: 'rate_limit.writes', what: 'writes by this user' },
+    ];
+  }
+}
