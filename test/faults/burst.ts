@@ -106,3 +106,26 @@ export function tally(sent: readonly Sent[]): Record<string, number> {
   }
   return counts;
 }
+
+/**
+ * A burst into a running service that is killed with SIGKILL once `killAfter` readings were acknowledged (with
+ * up to `concurrency` more in flight); resolves when the process is gone, with every request's outcome.
+ */
+export async function burstUntilKilled(
+  service: { url: string; child: { kill(signal: NodeJS.Signals): boolean } },
+  options: Omit<BurstOptions, 'url' | 'until'> & { killAfter: number; maxRequests: number },
+): Promise<Sent[]> {
+  let killed = false;
+  const { killAfter, maxRequests, ...rest } = options;
+  return burst({
+    ...rest,
+    url: service.url,
+    until: (so) => {
+      if (!killed && so.filter((s) => s.status === 201).length >= killAfter) {
+        killed = true;
+        service.child.kill('SIGKILL');
+      }
+      return killed || so.length >= maxRequests;
+    },
+  });
+}

@@ -10,7 +10,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DATA_DIR_LOCK_FILE } from '../../src/database';
 import { scratchDatabase, type ScratchDatabase } from '../support/db';
 import { seedShops, TECH_A } from '../support/fixtures';
-import { burst, createOrderWithCircuit, tally } from './burst';
+import { burst, burstUntilKilled, createOrderWithCircuit, tally } from './burst';
 import { credentialsFor, ensureServiceBuild, startService, type ServiceProcess } from './service-process';
 import { fixtureUser } from './users';
 
@@ -37,17 +37,8 @@ describe('the embedded database killed during writes', () => {
     const headers = await credentialsFor(first.url, fixtureUser(TECH_A));
     const { roId, circuitId } = await createOrderWithCircuit(first.url, headers);
 
-    let killed = false;
-    const sent = await burst({
-      url: first.url, headers, roId, circuitId,
-      concurrency: 8, timeoutMs: 10_000, keyPrefix: 'embedded',
-      until: (so) => {
-        if (!killed && so.filter((s) => s.status === 201).length >= 60) {
-          killed = true;
-          first.child.kill('SIGKILL');
-        }
-        return killed || so.length >= 2000;
-      },
+    const sent = await burstUntilKilled(first, {
+      headers, roId, circuitId, concurrency: 8, timeoutMs: 10_000, keyPrefix: 'embedded', killAfter: 60, maxRequests: 2000,
     });
     expect((await first.exited).signal).toBe('SIGKILL');
     const acknowledged = sent.filter((s) => s.status === 201);

@@ -6,7 +6,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { scratchDatabase, type ScratchDatabase } from '../support/db';
 import { seedShops, TECH_A } from '../support/fixtures';
-import { burst, createOrderWithCircuit, tally } from './burst';
+import { burstUntilKilled, createOrderWithCircuit, tally } from './burst';
 import { credentialsFor, ensureServiceBuild, startService, type ServiceProcess } from './service-process';
 import { fixtureUser } from './users';
 
@@ -33,18 +33,9 @@ describe('the service killed with SIGKILL during a burst of readings (PostgreSQL
     const headers = await credentialsFor(first.url, fixtureUser(TECH_A));
     const { roId, circuitId } = await createOrderWithCircuit(first.url, headers);
 
-    let killed = false;
-    const sent = await burst({
-      url: first.url, headers, roId, circuitId,
-      concurrency: 16, timeoutMs: 5000, keyPrefix: 'kill',
-      // SIGKILL once 200 readings are acknowledged, with 16 more in flight.
-      until: (so) => {
-        if (!killed && so.filter((s) => s.status === 201).length >= 200) {
-          killed = true;
-          first.child.kill('SIGKILL');
-        }
-        return killed || so.length >= 5000;
-      },
+    // SIGKILL once 200 readings are acknowledged, with 16 more in flight.
+    const sent = await burstUntilKilled(first, {
+      headers, roId, circuitId, concurrency: 16, timeoutMs: 5000, keyPrefix: 'kill', killAfter: 200, maxRequests: 5000,
     });
     expect((await first.exited).signal).toBe('SIGKILL');
 
