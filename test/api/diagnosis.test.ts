@@ -26,7 +26,7 @@ describe('diagnosis over HTTP, driven by readings simulated from the circuit mod
   afterAll(async () => api?.close());
 
   async function newCircuit(body: Record<string, unknown> = { kind: 'three_wire_5v', sensor: 'TP', label: 'TP sensor 1' }) {
-    const ro = (await api.call('POST', '/api/repair-orders', { user: FOREMAN_A, body: { vehicle: newVehicle(), complaint: 'P0122 stored', codes: ['P0122'] } })).body;
+    const ro = (await api.call('POST', '/api/repair-orders', { user: FOREMAN_A, body: { vehicle: newVehicle(), complaint: 'P0122 stored', codes: ['P0122'], technicianId: TECH_A } })).body;
     const circuit = await api.call('POST', `/api/repair-orders/${ro.id}/circuits`, { user: TECH_A, body });
     return { ro, circuit };
   }

@@ -76,7 +76,7 @@ describe.each(BACKENDS)('idempotency keys on the %s database', (backend) => {
   it("keeps each user's keys apart: another user's same key is a new request", async () => {
     const key = 'shared-looking-key';
     const mine = await api.call('POST', `/api/repair-orders/${roId}/measurements`, { user: TECH_A, body: reading(4.85), headers: { 'idempotency-key': key } });
-    const theirs = await api.call('POST', `/api/repair-orders/${roId}/measurements`, { user: TECH_A2, body: reading(4.85), headers: { 'idempotency-key': key } });
+    const theirs = await api.call('POST', `/api/repair-orders/${roId}/measurements`, { user: FOREMAN_A, body: reading(4.85), headers: { 'idempotency-key': key } });
     expect([mine.status, theirs.status]).toEqual([201, 201]);
     expect(theirs.body.id).not.toBe(mine.body.id);
     expect(theirs.headers.get('idempotent-replayed')).toBeNull();

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { BACKENDS } from '../support/db';
-import { FOREMAN_A, INACTIVE_A, newVehicle, TECH_A, TECH_B, VIN_SAMPLE, VIN_TEXTBOOK } from '../support/fixtures';
+import { FOREMAN_A, INACTIVE_A, newVehicle, TECH_A, TECH_A2, TECH_B, VIN_SAMPLE, VIN_TEXTBOOK } from '../support/fixtures';
 import { startApi, type TestApi } from '../support/http';
 
 describe.each(BACKENDS)('repair orders over HTTP on the %s database', (backend) => {
@@ -76,7 +76,7 @@ describe.each(BACKENDS)('repair orders over HTTP on the %s database', (backend) 
   });
 
   it('moves along the status chain and refuses a skipped step with a 409 listing the allowed moves', async () => {
-    const ro = (await open({ vehicle: newVehicle(), complaint: 'chain' })).body;
+    const ro = (await open({ vehicle: newVehicle(), complaint: 'chain', technicianId: TECH_A })).body;
     const move = (to: string, reason?: string) => api.call('POST', `/api/repair-orders/${ro.id}/status`, { user: TECH_A, body: { to, ...(reason ? { reason } : {}) } });
     const skip = await move('verified');
     expect(skip.status).toBe(409);
@@ -101,7 +101,7 @@ describe.each(BACKENDS)('repair orders over HTTP on the %s database', (backend) 
   });
 
   it('refuses an update made against a stale version with a 409 saying what it is now', async () => {
-    const ro = (await open({ vehicle: newVehicle(), complaint: 'versions' })).body;
+    const ro = (await open({ vehicle: newVehicle(), complaint: 'versions', technicianId: TECH_A })).body;
     const first = await api.call('PATCH', `/api/repair-orders/${ro.id}`, { user: TECH_A, body: { version: 1, cause: 'Chafed signal wire' } });
     expect(first.status).toBe(200);
     expect(first.body.version).toBe(2);
@@ -123,6 +123,17 @@ describe.each(BACKENDS)('repair orders over HTTP on the %s database', (backend) 
     const bad = await api.call('GET', '/api/repair-orders?status=finished', { user: TECH_A });
     expect(bad.status).toBe(400);
     expect(bad.body.error.findings[0].path).toMatch(/^query\.status/);
+  });
+
+  it('shows a technician only the orders they opened or are assigned to; the foreman sees all', async () => {
+    const colleague = (await open({ vehicle: newVehicle(), complaint: 'assigned to a colleague', technicianId: TECH_A2 })).body;
+    expect((await api.call('GET', `/api/repair-orders/${colleague.id}`, { user: TECH_A })).status).toBe(404);
+    expect((await api.call('GET', `/api/repair-orders/${colleague.id}`, { user: TECH_A2 })).status).toBe(200);
+    expect((await api.call('GET', `/api/repair-orders/${colleague.id}`, { user: FOREMAN_A })).status).toBe(200);
+    const mine = (await api.call('GET', '/api/repair-orders?pageSize=200', { user: TECH_A })).body.items as Array<{ id: string }>;
+    expect(mine.map((o) => o.id)).not.toContain(colleague.id);
+    const own = (await open({ vehicle: newVehicle(), complaint: 'opened by the technician' }, TECH_A)).body;
+    expect((await api.call('GET', `/api/repair-orders/${own.id}`, { user: TECH_A })).status).toBe(200);
   });
 
   it('hides another shop’s repair orders behind a 404', async () => {

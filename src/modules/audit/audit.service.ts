@@ -1,6 +1,6 @@
 import { Injectable } from '@nestjs/common';
 import { NotFoundException } from '../../common/errors/domain.exception';
-import type { Actor } from '../identity/actor';
+import { orderScope, type Actor } from '../identity/actor';
 import type { ListAuditEvents } from './audit.dto';
 import { AuditRepository } from './audit.repository';
 
@@ -10,7 +10,7 @@ export class AuditService {
 
   /** The trail of one repair order of the caller's shop, oldest first; another shop's order is a 404. */
   async forRepairOrder(actor: Actor, repairOrderId: string, query: ListAuditEvents) {
-    if (!(await this.audit.orderInShop(actor.shopId, repairOrderId))) throw new NotFoundException('repair_order', repairOrderId);
+    if (!(await this.audit.orderInScope(orderScope(actor), repairOrderId))) throw new NotFoundException('repair_order', repairOrderId);
     const { rows, total } = await this.audit.forRepairOrder(actor.shopId, repairOrderId, query.page, query.pageSize);
     const userIds = [...new Set(rows.map((r) => r.userId).filter((id): id is string => id !== null))];
     const names = new Map((await this.audit.userNames(userIds)).map((u) => [u.id, u.name]));

@@ -3,7 +3,7 @@ import { ConflictException, NotFoundException } from '../../common/errors/domain
 import { sensorTerm } from '../../engine/sensors';
 import type { Circuit } from '../../generated/prisma/client';
 import { FaultTreeCatalog } from '../fault-trees/fault-tree-catalog.service';
-import type { Actor } from '../identity/actor';
+import { orderScope, type Actor } from '../identity/actor';
 import { RepairOrdersRepository } from '../repair-orders/repair-orders.repository';
 import type { CreateCircuit } from './circuits.dto';
 import { CircuitsRepository } from './circuits.repository';
@@ -34,7 +34,7 @@ export class CircuitsService {
   ) {}
 
   async create(actor: Actor, repairOrderId: string, input: CreateCircuit) {
-    const order = await this.orders.findHeader(actor.shopId, repairOrderId);
+    const order = await this.orders.findHeader(orderScope(actor), repairOrderId);
     if (!order) throw new NotFoundException('repair_order', repairOrderId);
     if (order.status === 'closed' || order.status === 'verified') {
       throw new ConflictException('repair_order.finished', `Repair order ${order.number} is ${order.status}; reopen it with a reason to add a circuit.`);
@@ -56,7 +56,7 @@ export class CircuitsService {
   }
 
   async list(actor: Actor, repairOrderId: string) {
-    const order = await this.orders.findHeader(actor.shopId, repairOrderId);
+    const order = await this.orders.findHeader(orderScope(actor), repairOrderId);
     if (!order) throw new NotFoundException('repair_order', repairOrderId);
     return { items: (await this.circuits.listForOrder(repairOrderId)).map(circuitView) };
   }

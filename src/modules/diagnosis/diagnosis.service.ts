@@ -2,7 +2,7 @@ import { Inject, Injectable } from '@nestjs/common';
 import { APP_CONFIG, type AppConfig } from '../../config/config';
 import { NotFoundException } from '../../common/errors/domain.exception';
 import { diagnose, type Diagnosis, type Reading, type Repair, type Tree } from '../../engine/diagnosis';
-import type { Actor } from '../identity/actor';
+import { orderScope, type Actor } from '../identity/actor';
 import { CircuitsRepository } from '../circuits/circuits.repository';
 import { FaultTreeCatalog } from '../fault-trees/fault-tree-catalog.service';
 import { MeasurementsRepository, type MeasurementRow } from '../measurements/measurements.repository';
@@ -46,7 +46,7 @@ export class DiagnosisService {
     circuitId: string,
     options: { asDiagnosed?: boolean } = {},
   ): Promise<{ tree: Tree; diagnosis: Diagnosis; readings: MeasurementRow[] }> {
-    const order = await this.orders.findHeader(actor.shopId, repairOrderId);
+    const order = await this.orders.findHeader(orderScope(actor), repairOrderId);
     if (!order) throw new NotFoundException('repair_order', repairOrderId);
     const circuit = await this.circuits.findInOrder(repairOrderId, circuitId);
     if (!circuit) throw new NotFoundException('circuit', circuitId, 'on this repair order');

@@ -3,7 +3,7 @@ import { ConflictException, InvalidInputException, NotFoundException, type Findi
 import { isUniqueViolation } from '../../common/database/prisma-errors';
 import { ZodPipe } from '../../common/validation/zod-input';
 import type { Prisma, RepairOrderStatus } from '../../generated/prisma/client';
-import type { Actor } from '../identity/actor';
+import { orderScope, type Actor } from '../identity/actor';
 import { RepairOrdersRepository } from '../repair-orders/repair-orders.repository';
 import { MeasurementBatch, MeasurementInput, type ListMeasurements } from './measurements.dto';
 import { MeasurementsRepository } from './measurements.repository';
@@ -61,7 +61,7 @@ export class MeasurementsService {
 
   private async store(actor: Actor, repairOrderId: string, inputs: MeasurementInput[], batch: boolean, at: (i: number, field: string) => string) {
     const { rows, replayed } = await this.measurements.transaction(async (tx) => {
-      const order = await this.orders.findHeader(actor.shopId, repairOrderId, tx);
+      const order = await this.orders.findHeader(orderScope(actor), repairOrderId, tx);
       if (!order) throw new NotFoundException('repair_order', repairOrderId);
       const stored = await this.replays(repairOrderId, inputs, at, tx);
       const fresh = inputs.filter((m) => !m.clientKey || !stored.has(m.clientKey));
@@ -135,7 +135,7 @@ export class MeasurementsService {
   }
 
   async list(actor: Actor, repairOrderId: string, query: ListMeasurements) {
-    const order = await this.orders.findHeader(actor.shopId, repairOrderId);
+    const order = await this.orders.findHeader(orderScope(actor), repairOrderId);
     if (!order) throw new NotFoundException('repair_order', repairOrderId);
     const rows = await this.measurements.list(repairOrderId, query);
     return { items: rows.map(measurementView) };

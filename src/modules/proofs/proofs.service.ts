@@ -1,7 +1,7 @@
 import { Injectable } from '@nestjs/common';
 import { ConflictException, DomainException, InvalidInputException, NotFoundException } from '../../common/errors/domain.exception';
 import { proofDigest, QR_PREFIX, sha256Hex, tryRenderProof, type ProofView } from '../../proof-render';
-import type { Actor } from '../identity/actor';
+import { orderScope, type Actor } from '../identity/actor';
 import { UsersRepository } from '../identity/users.repository';
 import { DiagnosisService } from '../diagnosis/diagnosis.service';
 import { RepairOrdersRepository } from '../repair-orders/repair-orders.repository';
@@ -44,7 +44,7 @@ export class ProofsService {
 
   /** Everything the proof of a repair order states, as of now. */
   async view(actor: Actor, repairOrderId: string): Promise<ProofView> {
-    const order = await this.orders.find(actor.shopId, repairOrderId);
+    const order = await this.orders.find(orderScope(actor), repairOrderId);
     if (!order) throw new NotFoundException('repair_order', repairOrderId);
     if (!PROVABLE.has(order.status)) {
       throw new ConflictException('proof.not_yet', `Repair order ${order.number} is ${order.status}: the proof of repair exists once the repair is recorded (status repaired or later).`, {

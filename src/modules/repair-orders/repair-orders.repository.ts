@@ -3,6 +3,7 @@ import type { Db } from '../../common/database/database.tokens';
 import { PrismaRepository } from '../../common/database/prisma-repository';
 import type { Prisma, RepairOrderStatus } from '../../generated/prisma/client';
 import type { ListRepairOrders } from './repair-orders.dto';
+import type { OrderScope } from '../identity/actor';
 
 const summarySelect = {
   id: true,
@@ -25,15 +26,22 @@ const detailInclude = {
   circuits: { orderBy: [{ createdAt: 'asc' }, { id: 'asc' }] },
 } satisfies Prisma.RepairOrderInclude;
 
+/** The where-clause of a scope: the shop, and for a technician their own or assigned orders. */
+export function scopeWhere(scope: OrderScope): Prisma.RepairOrderWhereInput {
+  return scope.technicianId
+    ? { shopId: scope.shopId, OR: [{ technicianId: scope.technicianId }, { createdById: scope.technicianId }] }
+    : { shopId: scope.shopId };
+}
+
 export type RepairOrderDetail = Prisma.RepairOrderGetPayload<{ include: typeof detailInclude }>;
 
 @Injectable()
 export class RepairOrdersRepository extends PrismaRepository {
-  async list(shopId: string, q: ListRepairOrders) {
+  async list(scope: OrderScope, q: ListRepairOrders) {
     // `contains` is a LIKE pattern: a typed % or _ means itself.
     const text = q.q?.replace(/[\\%_]/g, (c) => '\\' + c);
     const where: Prisma.RepairOrderWhereInput = {
-      shopId,
+      AND: [scopeWhere(scope)],
       ...(q.status?.length ? { status: { in: q.status } } : {}),
       ...(q.technicianId ? { technicianId: q.technicianId } : {}),
       ...(q.changedSince ? { updatedAt: { gte: new Date(q.changedSince) } } : {}),
@@ -60,12 +68,12 @@ export class RepairOrdersRepository extends PrismaRepository {
     return { items, total };
   }
 
-  find(shopId: string, id: string, db: Db = this.prisma): Promise<RepairOrderDetail | null> {
-    return db.repairOrder.findFirst({ where: { id, shopId }, include: detailInclude });
+  find(scope: OrderScope, id: string, db: Db = this.prisma): Promise<RepairOrderDetail | null> {
+    return db.repairOrder.findFirst({ where: { id, ...scopeWhere(scope) }, include: detailInclude });
   }
 
-  findHeader(shopId: string, id: string, db: Db = this.prisma) {
-    return db.repairOrder.findFirst({ where: { id, shopId }, select: { id: true, status: true, version: true, number: true, createdAt: true } });
+  findHeader(scope: OrderScope, id: string, db: Db = this.prisma) {
+    return db.repairOrder.findFirst({ where: { id, ...scopeWhere(scope) }, select: { id: true, status: true, version: true, number: true, createdAt: true } });
   }
 
   /** Marks the order as changed (for `changedSince`) when something on it was added; the version stays. */

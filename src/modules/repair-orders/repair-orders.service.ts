@@ -3,7 +3,7 @@ import { ConflictException, InvalidInputException, NotFoundException } from '../
 import { isUniqueViolation } from '../../common/database/prisma-errors';
 import { checkMove } from '../../engine/status';
 import type { Prisma } from '../../generated/prisma/client';
-import type { Actor } from '../identity/actor';
+import { orderScope, type Actor } from '../identity/actor';
 import { UsersRepository } from '../identity/users.repository';
 import type { ChangeStatus, CreateRepairOrder, ListRepairOrders, UpdateRepairOrder } from './repair-orders.dto';
 import { RepairOrdersRepository } from './repair-orders.repository';
@@ -17,12 +17,12 @@ export class RepairOrdersService {
   ) {}
 
   async list(actor: Actor, query: ListRepairOrders) {
-    const { items, total } = await this.orders.list(actor.shopId, query);
+    const { items, total } = await this.orders.list(orderScope(actor), query);
     return { items, page: query.page, pageSize: query.pageSize, total };
   }
 
   async get(actor: Actor, id: string) {
-    const order = await this.orders.find(actor.shopId, id);
+    const order = await this.orders.find(orderScope(actor), id);
     if (!order) throw new NotFoundException('repair_order', id);
     return toDetailView(order);
   }
@@ -59,7 +59,7 @@ export class RepairOrdersService {
 
   async update(actor: Actor, id: string, input: UpdateRepairOrder) {
     await this.orders.transaction(async (tx) => {
-      const current = await this.orders.find(actor.shopId, id, tx);
+      const current = await this.orders.find(orderScope(actor), id, tx);
       if (!current) throw new NotFoundException('repair_order', id);
       if (current.status === 'closed') {
         throw new ConflictException('repair_order.closed', 'A closed repair order cannot be changed; reopen it with a reason first.');
@@ -75,7 +75,7 @@ export class RepairOrdersService {
 
   async changeStatus(actor: Actor, id: string, input: ChangeStatus) {
     await this.orders.transaction(async (tx) => {
-      const current = await this.orders.find(actor.shopId, id, tx);
+      const current = await this.orders.find(orderScope(actor), id, tx);
       if (!current) throw new NotFoundException('repair_order', id);
       if (input.version !== undefined) this.requireVersion(current, input.version);
       await this.requireProgress(tx, current, input.to);

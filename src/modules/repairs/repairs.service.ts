@@ -1,6 +1,6 @@
 import { Injectable } from '@nestjs/common';
 import { ConflictException, InvalidInputException, NotFoundException } from '../../common/errors/domain.exception';
-import type { Actor } from '../identity/actor';
+import { orderScope, type Actor } from '../identity/actor';
 import { CircuitsRepository } from '../circuits/circuits.repository';
 import { RepairOrdersRepository } from '../repair-orders/repair-orders.repository';
 import type { RecordRepair } from './repairs.dto';
@@ -31,7 +31,7 @@ export class RepairsService {
   /** Records a repair; the first one on a diagnosing repair order marks it repaired (ready for verification). */
   async record(actor: Actor, repairOrderId: string, input: RecordRepair) {
     const row = await this.repairs.transaction(async (tx) => {
-      const order = await this.orders.findHeader(actor.shopId, repairOrderId, tx);
+      const order = await this.orders.findHeader(orderScope(actor), repairOrderId, tx);
       if (!order) throw new NotFoundException('repair_order', repairOrderId);
       if (order.status !== 'diagnosing' && order.status !== 'repaired') {
         throw new ConflictException(
@@ -65,7 +65,7 @@ export class RepairsService {
   }
 
   async list(actor: Actor, repairOrderId: string) {
-    const order = await this.orders.findHeader(actor.shopId, repairOrderId);
+    const order = await this.orders.findHeader(orderScope(actor), repairOrderId);
     if (!order) throw new NotFoundException('repair_order', repairOrderId);
     return { items: (await this.repairs.listForOrder(repairOrderId)).map(repairView) };
   }

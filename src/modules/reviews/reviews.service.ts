@@ -1,6 +1,6 @@
 import { Injectable } from '@nestjs/common';
 import { ConflictException, DomainException, NotFoundException } from '../../common/errors/domain.exception';
-import type { Actor } from '../identity/actor';
+import { orderScope, type Actor } from '../identity/actor';
 import { RepairOrdersRepository } from '../repair-orders/repair-orders.repository';
 import type { RecordReview } from './reviews.dto';
 import { ReviewsRepository, type ReviewRow } from './reviews.repository';
@@ -21,7 +21,7 @@ export class ReviewsService {
 
   async record(actor: Actor, repairOrderId: string, input: RecordReview) {
     const row = await this.reviews.transaction(async (tx) => {
-      const order = await this.orders.findHeader(actor.shopId, repairOrderId, tx);
+      const order = await this.orders.findHeader(orderScope(actor), repairOrderId, tx);
       // Existence before role: someone of another shop gets a 404, never a 403 that confirms the order exists.
       if (!order) throw new NotFoundException('repair_order', repairOrderId);
       if (actor.role === 'technician') {
@@ -48,7 +48,7 @@ export class ReviewsService {
   }
 
   async list(actor: Actor, repairOrderId: string) {
-    const order = await this.orders.findHeader(actor.shopId, repairOrderId);
+    const order = await this.orders.findHeader(orderScope(actor), repairOrderId);
     if (!order) throw new NotFoundException('repair_order', repairOrderId);
     const items = (await this.reviews.listForOrder(repairOrderId)).map(reviewView);
     return { items, latest: items.at(-1) ?? null };
