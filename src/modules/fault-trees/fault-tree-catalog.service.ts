@@ -27,6 +27,7 @@ function treeFindings(findings: ReadonlyArray<{ code: string; path: string; mess
 @Injectable()
 export class FaultTreeCatalog {
   private readonly loaded = new Map<string, Tree>();
+  private readonly byRow = new Map<string, { shopId: string | null; tree: Tree }>();
 
   constructor(private readonly trees: FaultTreesRepository) {
     for (const tree of Object.values(builtInTrees())) this.loaded.set(tree.version, tree);
@@ -64,9 +65,14 @@ export class FaultTreeCatalog {
 
   /** The loaded tree of a stored version. */
   async byStoredId(actor: Actor, id: string, db?: Db): Promise<Tree> {
+    // Stored versions never change, so a row read once serves every later diagnosis (its shop still checked).
+    const cached = this.byRow.get(id);
+    if (cached && (cached.shopId === null || cached.shopId === actor.shopId)) return cached.tree;
     const stored = await this.trees.findVisible(actor.shopId, id, db);
     if (!stored) throw new NotFoundException('fault_tree', id);
-    return this.load(stored.document, stored.version);
+    const tree = this.load(stored.document, stored.version);
+    this.byRow.set(id, { shopId: stored.shopId, tree });
+    return tree;
   }
 
   /** Validates and stores a shop's tree; the same document twice is the same version. */

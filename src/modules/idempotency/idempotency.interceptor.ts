@@ -1,4 +1,5 @@
 import { Inject, Injectable, type CallHandler, type ExecutionContext, type NestInterceptor } from '@nestjs/common';
+import { WRITE_METHODS } from '../../common/http-methods';
 import { createHash } from 'node:crypto';
 import type { Request, Response } from 'express';
 import { catchError, concatMap, from, of, type Observable } from 'rxjs';
@@ -12,7 +13,6 @@ export const IDEMPOTENCY_HEADER = 'idempotency-key';
 /** Set on a response that is the stored answer to an earlier request with the same key. */
 export const REPLAYED_HEADER = 'Idempotent-Replayed';
 
-const WRITES = new Set(['POST', 'PATCH', 'PUT', 'DELETE']);
 const KEY = /^[\x21-\x7e]{1,255}$/;
 /** A first request silent for this long, with no write committed, is taken to have died with its instance. */
 const ABANDONED_AFTER_SECONDS = 120;
@@ -44,7 +44,7 @@ export class IdempotencyInterceptor implements NestInterceptor {
     const res = context.switchToHttp().getResponse<Response>();
     const key = req.header(IDEMPOTENCY_HEADER);
     // Keys are per user: a route anyone may call (sign-in) has nobody to keep them for.
-    if (!WRITES.has(req.method) || key === undefined || !req.actor) return next.handle();
+    if (!WRITE_METHODS.has(req.method) || key === undefined || !req.actor) return next.handle();
     if (!KEY.test(key)) {
       throw new InvalidInputException([
         { code: 'idempotency.key_invalid', path: `headers.${IDEMPOTENCY_HEADER}`, message: 'expected 1 to 255 visible ASCII characters' },

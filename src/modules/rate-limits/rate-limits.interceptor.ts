@@ -1,11 +1,11 @@
 import { Inject, Injectable, type CallHandler, type ExecutionContext, type NestInterceptor } from '@nestjs/common';
+import { WRITE_METHODS } from '../../common/http-methods';
 import type { Observable } from 'rxjs';
 import { APP_CONFIG, type AppConfig } from '../../config/config';
 import { TooManyRequestsException } from '../../common/errors/domain.exception';
 import type { RequestWithActor } from '../identity/actor';
 import { RateLimitsRepository } from './rate-limits.repository';
 
-const WRITES = new Set(['POST', 'PATCH', 'PUT', 'DELETE']);
 /** The sign-in route, matched by path so the limit holds whoever implements it. */
 export const SIGN_IN_PATH = '/api/auth/sign-in';
 
@@ -31,7 +31,7 @@ export class RateLimitsInterceptor implements NestInterceptor {
   async intercept(context: ExecutionContext, next: CallHandler): Promise<Observable<unknown>> {
     if (context.getType() !== 'http') return next.handle();
     const req = context.switchToHttp().getRequest<RequestWithActor>();
-    if (!WRITES.has(req.method)) return next.handle();
+    if (!WRITE_METHODS.has(req.method)) return next.handle();
     const budgets = this.budgetsFor(req).filter((b) => b.limit > 0);
     if (budgets.length === 0) return next.handle();
     if (Math.random() < 0.005) void this.counters.purgeOld().catch(() => {});
