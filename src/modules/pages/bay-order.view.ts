@@ -20,10 +20,12 @@ export interface Prefill {
 }
 
 function circuitCard(order: OrderDetail, c: CircuitDiagnosis): SafeHtml {
-  const top = c.diagnosis.ranked[0];
+  // Once repaired, the card states the cause as diagnosed before the repair, like the proof does.
+  const shown = c.atRepair ?? c.diagnosis;
+  const top = shown.ranked[0];
   return html`<li class="circuit-card">
     <div><strong class="circuit-name">${c.circuit.label}</strong> <span class="muted">${c.circuit.sensor} · ${KIND_WORDS[c.circuit.kind] ?? c.circuit.kind}</span></div>
-    <div>${diagnosisStatus(c.diagnosis)} ${top ? html`Leading cause: ${top.label} (${percent(top.probability)})` : ''}
+    <div>${diagnosisStatus(shown)} ${top ? html`${c.atRepair ? 'Cause found before the repair' : 'Leading cause'}: ${top.label} (${percent(top.probability)})` : ''}
       · ${c.readings.length} reading${c.readings.length === 1 ? '' : 's'}</div>
     <a class="button primary" href="/bay/orders/${order.id}/circuits/${c.circuit.id}">${order.status === 'repaired' ? 'Verify the repair' : 'Guided tests'}</a>
   </li>`;
