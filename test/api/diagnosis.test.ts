@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { builtInDocuments } from '../../src/engine/diagnosis';
 import { FOREMAN_A, newVehicle, TECH_A, TECH_B } from '../support/fixtures';
 import { startApi, type TestApi } from '../support/http';
-import { diagnoseToEnd } from '../support/simulate';
+import { diagnoseToEnd, simulatedReading } from '../support/simulate';
 
 const THREE_WIRE_FAULTS = [
   'reference_open',
@@ -50,6 +50,52 @@ describe('diagnosis over HTTP, driven by readings simulated from the circuit mod
     expect(diagnosis.ranked.map((h: { id: string }) => h.id)).toEqual(expect.arrayContaining([...THREE_WIRE_FAULTS, 'unknown']));
     expect(diagnosis.nextTest).toMatchObject({ request: expect.objectContaining({ quantity: expect.any(String) }), minutes: expect.any(Number) });
     expect(diagnosis.nextTest.procedure.length).toBeGreaterThan(0);
+  });
+
+  it('answers a reading posted with diagnosis=true with the same diagnosis a GET right after gives', async () => {
+    const { ro, circuit } = await newCircuit();
+    const first = (await api.call('GET', `/api/repair-orders/${ro.id}/circuits/${circuit.body.id}/diagnosis`, { user: TECH_A })).body;
+    const request = first.nextTest.request;
+    const posted = await api.call('POST', `/api/repair-orders/${ro.id}/measurements?diagnosis=true`, {
+      user: TECH_A,
+      body: { circuitId: circuit.body.id, ...request, ...simulatedReading('signal_open', request), clientKey: 'with-diagnosis-1' },
+    });
+    expect(posted.status).toBe(201);
+    expect(posted.body).toMatchObject({ circuitId: circuit.body.id, clientKey: 'with-diagnosis-1' });
+    expect(posted.body.diagnoses).toHaveLength(1);
+    const after = (await api.call('GET', `/api/repair-orders/${ro.id}/circuits/${circuit.body.id}/diagnosis`, { user: TECH_A })).body;
+    expect(posted.body.diagnoses[0]).toEqual({ circuitId: circuit.body.id, ...after });
+    expect(after.path.length).toBe(first.path.length + 1);
+  });
+
+  it('answers a batch with diagnosis=true with one diagnosis per circuit, and a re-sent reading with it too', async () => {
+    const { ro, circuit } = await newCircuit();
+    const other = (await api.call('POST', `/api/repair-orders/${ro.id}/circuits`, { user: TECH_A, body: { kind: 'two_wire_thermistor', sensor: 'ECT', label: 'ECT sensor' } })).body;
+    const reference = { quantity: 'dc_volts', at: 'reference', against: 'ground', location: 'sensor_connector', connector: 'backprobed', key: 'on', engine: 'off', value: 5.0, unit: 'V' };
+    const batch = [
+      { circuitId: circuit.body.id, ...reference, clientKey: 'batch-diag-1' },
+      { circuitId: circuit.body.id, ...reference, value: 4.99, clientKey: 'batch-diag-2' },
+    ];
+    const posted = await api.call('POST', `/api/repair-orders/${ro.id}/measurements?diagnosis=true`, { user: TECH_A, body: batch });
+    expect(posted.status).toBe(201);
+    expect(posted.body.items).toHaveLength(2);
+    expect(posted.body.diagnoses.map((d: { circuitId: string }) => d.circuitId)).toEqual([circuit.body.id]);
+    expect(posted.body.diagnoses.map((d: { circuitId: string }) => d.circuitId)).not.toContain(other.id);
+    const again = await api.call('POST', `/api/repair-orders/${ro.id}/measurements?diagnosis=true`, { user: TECH_A, body: batch[0] });
+    expect(again.status).toBe(200);
+    expect(again.body.id).toBe(posted.body.items[0].id);
+    expect(again.body.diagnoses[0]).toMatchObject({ circuitId: circuit.body.id, tree: { id: 'three-wire-5v' } });
+  });
+
+  it.each(['yes', '1', ''])('refuses diagnosis=%j with a 400 at query.diagnosis and stores nothing', async (value) => {
+    const { ro, circuit } = await newCircuit();
+    const res = await api.call('POST', `/api/repair-orders/${ro.id}/measurements?diagnosis=${value}`, {
+      user: TECH_A,
+      body: { circuitId: circuit.body.id, quantity: 'dc_volts', at: 'reference', against: 'ground', location: 'sensor_connector', connector: 'backprobed', key: 'on', engine: 'off', value: 5, unit: 'V' },
+    });
+    expect(res.status).toBe(400);
+    expect(res.body.error.findings[0]).toMatchObject({ path: 'query.diagnosis' });
+    expect((await api.call('GET', `/api/repair-orders/${ro.id}/measurements`, { user: TECH_A })).body.items).toHaveLength(0);
   });
 
   it('refuses a tree made for another kind of circuit with a 400 at body.treeId', async () => {

@@ -88,6 +88,31 @@ describe.each(BACKENDS)('rate limits on the %s database', (backend) => {
     expect(others[2]!.body.error.code).toBe('rate_limit.sign_in');
     expect(Number(others[2]!.headers.get('retry-after'))).toBeGreaterThanOrEqual(1);
   });
+
+  it("counts the pages' sign-in form in the same budgets as the API, and answers over budget with a page, 429 and Retry-After", async () => {
+    // Its own window length, so the attempts above (this address is over its budget there) do not count here.
+    const own = await startInstance(api, { ...LIMITS, TRACEBAY_SIGN_IN_WINDOW_SECONDS: '3597' });
+    try {
+      const email = 'form@a.test';
+      const form = await own.call('GET', '/sign-in');
+      const cookie = form.headers.getSetCookie().map((c) => c.split(';')[0]!).join('; ');
+      const token = /name="_csrf" value="([^"]+)"/.exec(form.body as string)![1]!;
+      const viaForm = () =>
+        own.call('POST', '/sign-in', {
+          raw: new URLSearchParams({ _csrf: token, email, password: 'not the password at all' }).toString(),
+          headers: { 'content-type': 'application/x-www-form-urlencoded', cookie },
+        });
+      const viaApi = () => own.call('POST', '/api/auth/sign-in', { body: { email, password: 'not the password at all' } });
+      expect([(await viaForm()).status, (await viaApi()).status]).toEqual([401, 401]);
+      const refused = await viaForm();
+      expect(refused.status).toBe(429);
+      expect(refused.headers.get('content-type')).toContain('text/html');
+      expect(refused.body as string).toContain('Too many sign-in attempts for this account');
+      expect(Number(refused.headers.get('retry-after'))).toBeGreaterThanOrEqual(1);
+    } finally {
+      await own.close();
+    }
+  });
 });
 
 describe.runIf(BACKENDS.includes('postgresql'))('rate limits across two instances on one PostgreSQL database', () => {

@@ -27,6 +27,12 @@ describe.each(BACKENDS)('repair orders over HTTP on the %s database', (backend) 
     expect(res.body.number).toMatch(/^RO-\d{5}$/);
   });
 
+  it('gives twelve orders opened at the same moment twelve different numbers', async () => {
+    const opened = await Promise.all(Array.from({ length: 12 }, (_, i) => open({ vehicle: newVehicle(), complaint: `Opened at once ${i}` })));
+    expect(opened.map((r) => r.status)).toEqual(Array(12).fill(201));
+    expect(new Set(opened.map((r) => r.body.number)).size).toBe(12);
+  });
+
   it('refuses a VIN whose check digit does not match, naming the field and the expected digit', async () => {
     // 1M8GDM9A1KP042788: the textbook VIN with a wrong check digit (49 CFR 565 computes X).
     const res = await open({ vehicle: newVehicle({ vin: '1M8GDM9A1KP042788' }), complaint: 'No start' });

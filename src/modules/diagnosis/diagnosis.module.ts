@@ -1,4 +1,4 @@
-import { Module } from '@nestjs/common';
+import { forwardRef, Module } from '@nestjs/common';
 import { CircuitsModule } from '../circuits/circuits.module';
 import { FaultTreesModule } from '../fault-trees/fault-trees.module';
 import { MeasurementsModule } from '../measurements/measurements.module';
@@ -8,7 +8,7 @@ import { DiagnosisController } from './diagnosis.controller';
 import { DiagnosisService } from './diagnosis.service';
 
 @Module({
-  imports: [RepairOrdersModule, CircuitsModule, MeasurementsModule, RepairsModule, FaultTreesModule],
+  imports: [RepairOrdersModule, CircuitsModule, forwardRef(() => MeasurementsModule), RepairsModule, FaultTreesModule],
   controllers: [DiagnosisController],
   providers: [DiagnosisService],
   exports: [DiagnosisService],

@@ -1,5 +1,6 @@
 import { Inject, Injectable } from '@nestjs/common';
 import { APP_CONFIG, type AppConfig } from '../../config/config';
+import type { CircuitKind } from '../../generated/prisma/client';
 import { NotFoundException } from '../../common/errors/domain.exception';
 import { diagnose, type Diagnosis, type Reading, type Repair, type Tree } from '../../engine/diagnosis';
 import { orderScope, type Actor } from '../identity/actor';
@@ -50,6 +51,20 @@ export class DiagnosisService {
     if (!order) throw new NotFoundException('repair_order', repairOrderId);
     const circuit = await this.circuits.findInOrder(repairOrderId, circuitId);
     if (!circuit) throw new NotFoundException('circuit', circuitId, 'on this repair order');
+    return this.ofCircuit(actor, repairOrderId, circuit, options);
+  }
+
+  /**
+   * The same for a circuit the caller has already found on an order the actor may see (recording a reading has,
+   * inside its transaction), so that a reading and the diagnosis after it cost no lookups twice.
+   */
+  async ofCircuit(
+    actor: Actor,
+    repairOrderId: string,
+    circuit: { id: string; kind: CircuitKind; faultTreeId: string | null },
+    options: { asDiagnosed?: boolean } = {},
+  ): Promise<{ tree: Tree; diagnosis: Diagnosis; readings: MeasurementRow[] }> {
+    const circuitId = circuit.id;
     const tree = circuit.faultTreeId
       ? await this.trees.byStoredId(actor, circuit.faultTreeId)
       : (await this.measurements.transaction((tx) => this.trees.bindForCircuit(actor, circuit.kind, undefined, tx))).tree;

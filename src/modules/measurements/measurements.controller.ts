@@ -1,28 +1,48 @@
-import { Body, Controller, Get, Post, Res } from '@nestjs/common';
+import { Body, Controller, forwardRef, Get, Inject, Post, Res } from '@nestjs/common';
 import type { Response } from 'express';
 import { ApiBody, ApiOperation, ApiSecurity, ApiTags } from '@nestjs/swagger';
 import { openApiSchema, UuidParam, ZQuery } from '../../common/validation/zod-input';
 import { CurrentActor, type Actor } from '../identity/actor';
-import { ListMeasurements, MeasurementBody } from './measurements.dto';
+import { DiagnosisService } from '../diagnosis/diagnosis.service';
+import { diagnosisView } from '../diagnosis/diagnosis.view';
+import { ListMeasurements, MeasurementBody, RecordOptions } from './measurements.dto';
 import { MeasurementsService } from './measurements.service';
 
 @ApiTags('measurements')
 @ApiSecurity('user')
 @Controller('api/repair-orders/:id/measurements')
 export class MeasurementsController {
-  constructor(private readonly service: MeasurementsService) {}
+  constructor(
+    private readonly service: MeasurementsService,
+    @Inject(forwardRef(() => DiagnosisService)) private readonly diagnoses: DiagnosisService,
+  ) {}
 
   @Post()
   @ApiOperation({
     summary: 'Record a reading, or a batch of readings stored all-or-nothing',
-    description: 'A correction is a new reading with `supersedes` naming the one it replaces; nothing is edited or deleted.',
+    description:
+      'A correction is a new reading with `supersedes` naming the one it replaces; nothing is edited or deleted. ' +
+      'With `diagnosis=true` the answer also carries `diagnoses`: for each circuit the readings are on, the same ' +
+      'body as GET …/circuits/{circuitId}/diagnosis, recomputed after these readings were stored (one request per reading on a tablet).',
   })
   @ApiBody({ schema: openApiSchema(MeasurementBody) })
-  async record(@CurrentActor() actor: Actor, @UuidParam('id') id: string, @Body() body: unknown, @Res({ passthrough: true }) res: Response) {
-    const { replayed, result } = await this.service.record(actor, id, body);
+  async record(
+    @CurrentActor() actor: Actor,
+    @UuidParam('id') id: string,
+    @ZQuery(RecordOptions) options: RecordOptions,
+    @Body() body: unknown,
+    @Res({ passthrough: true }) res: Response,
+  ) {
+    const { replayed, result, circuits } = await this.service.record(actor, id, body);
     // A re-sent reading (same clientKey) is answered with what was stored, as 200 rather than 201.
     if (replayed) res.status(200);
-    return result;
+    if (!options.diagnosis) return result;
+    const diagnoses = [];
+    for (const circuit of circuits) {
+      const { tree, diagnosis } = await this.diagnoses.ofCircuit(actor, id, circuit);
+      diagnoses.push({ circuitId: circuit.id, ...diagnosisView(tree, diagnosis) });
+    }
+    return { ...(result as object), diagnoses };
   }
 
   @Get()

@@ -73,6 +73,15 @@ export const MeasurementBatch = z.array(MeasurementInput).min(1, 'at least one r
 /** For the OpenAPI document: one reading, or a batch stored all-or-nothing. */
 export const MeasurementBody = z.union([MeasurementInput, MeasurementBatch]);
 
+export const RecordOptions = z.strictObject({
+  diagnosis: z
+    .enum(['true', 'false'])
+    .transform((v) => v === 'true')
+    .default(false)
+    .describe('true: the answer also carries `diagnoses`, the diagnosis of each circuit the readings are on, recomputed with them'),
+});
+export type RecordOptions = z.output<typeof RecordOptions>;
+
 export const ListMeasurements = z.strictObject({
   circuitId: z.uuid().optional(),
   phase: PhaseEnum.optional(),

@@ -1,11 +1,13 @@
-import { Module } from '@nestjs/common';
+import { forwardRef, Module } from '@nestjs/common';
+import { DiagnosisModule } from '../diagnosis/diagnosis.module';
 import { RepairOrdersModule } from '../repair-orders/repair-orders.module';
 import { MeasurementsController } from './measurements.controller';
 import { MeasurementsRepository } from './measurements.repository';
 import { MeasurementsService } from './measurements.service';
 
 @Module({
-  imports: [RepairOrdersModule],
+  // Recording a reading can answer with the diagnosis after it; the diagnosis reads the stored readings.
+  imports: [RepairOrdersModule, forwardRef(() => DiagnosisModule)],
   controllers: [MeasurementsController],
   providers: [MeasurementsRepository, MeasurementsService],
   exports: [MeasurementsRepository],

@@ -12,10 +12,6 @@ export type MeasurementRow = Prisma.MeasurementGetPayload<{ include: typeof meas
 
 @Injectable()
 export class MeasurementsRepository extends PrismaRepository {
-  circuitIds(repairOrderId: string, db: Db): Promise<Array<{ id: string }>> {
-    return db.circuit.findMany({ where: { repairOrderId }, select: { id: true } });
-  }
-
   /** The rows a batch wants to correct, with whether each is already corrected. */
   correctionTargets(repairOrderId: string, ids: string[], db: Db) {
     return db.measurement.findMany({
@@ -44,10 +40,13 @@ export class MeasurementsRepository extends PrismaRepository {
     return db.measurement.findMany({ where: { repairOrderId, clientKey: { in: keys } }, include: measurementInclude });
   }
 
-  async insertMany(db: Db, rows: Prisma.MeasurementUncheckedCreateInput[]): Promise<MeasurementRow[]> {
+  /**
+   * One by one inside the caller's transaction: the batch keeps its order and a failure undoes all of it. Each
+   * insert returns its row; who took it is the caller, and a new reading is corrected by nobody yet.
+   */
+  async insertMany(db: Db, takenBy: { id: string; name: string }, rows: Prisma.MeasurementUncheckedCreateInput[]): Promise<MeasurementRow[]> {
     const created: MeasurementRow[] = [];
-    // One by one inside the caller's transaction: the batch keeps its order and a failure undoes all of it.
-    for (const data of rows) created.push(await db.measurement.create({ data, include: measurementInclude }));
+    for (const data of rows) created.push({ ...(await db.measurement.create({ data })), takenBy, supersededBy: null });
     return created;
   }
 

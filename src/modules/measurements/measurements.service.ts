@@ -1,12 +1,12 @@
 import { Injectable } from '@nestjs/common';
-import { ConflictException, InvalidInputException, NotFoundException, type Finding } from '../../common/errors/domain.exception';
+import { ConflictException, DomainException, InvalidInputException, NotFoundException, type Finding } from '../../common/errors/domain.exception';
 import { isUniqueViolation } from '../../common/database/prisma-errors';
 import { ZodPipe } from '../../common/validation/zod-input';
 import type { Prisma, RepairOrderStatus } from '../../generated/prisma/client';
 import { orderScope, type Actor } from '../identity/actor';
-import { RepairOrdersRepository } from '../repair-orders/repair-orders.repository';
+import { RepairOrdersRepository, type CircuitOfOrder } from '../repair-orders/repair-orders.repository';
 import { MeasurementBatch, MeasurementInput, type ListMeasurements } from './measurements.dto';
-import { MeasurementsRepository } from './measurements.repository';
+import { MeasurementsRepository, type MeasurementRow } from './measurements.repository';
 import { measurementView, requestOf } from './measurements.view';
 import { requestKey } from '../../engine/diagnosis';
 
@@ -27,6 +27,13 @@ const PHASES_BY_STATUS: Record<RepairOrderStatus, ReadonlyArray<'diagnosis' | 'v
   closed: [],
 };
 
+/** What recording answers: the stored readings (or the earlier copies, when re-sent) and the circuits they are on. */
+export interface Recorded {
+  replayed: boolean;
+  result: unknown;
+  circuits: CircuitOfOrder[];
+}
+
 @Injectable()
 export class MeasurementsService {
   private readonly one = new ZodPipe(MeasurementInput, 'body');
@@ -41,37 +48,68 @@ export class MeasurementsService {
    * One reading or a batch; a batch is stored all-or-nothing. Readings whose `clientKey` is already stored are
    * not stored again: the stored reading comes back instead (`replayed`), so a tablet may safely re-send.
    */
-  async record(actor: Actor, repairOrderId: string, body: unknown): Promise<{ replayed: boolean; result: unknown }> {
+  async record(actor: Actor, repairOrderId: string, body: unknown): Promise<Recorded> {
     const batch = Array.isArray(body);
     const inputs = batch ? this.many.transform(body) : [this.one.transform(body)];
     const at = (i: number, field: string) => (batch ? `body.${i}.${field}` : `body.${field}`);
+    const keyed = inputs.some((m) => m.clientKey);
     try {
-      return await this.store(actor, repairOrderId, inputs, batch, at);
+      // Nearly every reading is new: store it straight away, and look for an earlier copy only when that fails.
+      return await this.store(actor, repairOrderId, inputs, batch, at, false);
     } catch (error) {
-      if (isUniqueViolation(error, 'clientKey')) {
-        // The same reading arrived twice at once; the other request stored it, so this one replays it.
-        return this.store(actor, repairOrderId, inputs, batch, at);
+      if (keyed && (isUniqueViolation(error, 'clientKey') || error instanceof DomainException)) {
+        // A re-sent reading (or one that arrived twice at once): answer with the stored copy, which also holds
+        // when the order has moved on since; a refusal that was not about a re-send comes back the same again.
+        return this.retryWithReplays(actor, repairOrderId, inputs, batch, at);
       }
-      if (isUniqueViolation(error, 'supersedes')) {
-        throw new ConflictException('measurement.already_corrected', 'That reading was corrected at the same moment by someone else; reload and correct the latest one.');
-      }
-      throw error;
+      throw this.mapped(error);
     }
   }
 
-  private async store(actor: Actor, repairOrderId: string, inputs: MeasurementInput[], batch: boolean, at: (i: number, field: string) => string) {
-    const { rows, replayed } = await this.measurements.transaction(async (tx) => {
-      const order = await this.orders.findHeader(orderScope(actor), repairOrderId, tx);
+  private async retryWithReplays(actor: Actor, repairOrderId: string, inputs: MeasurementInput[], batch: boolean, at: (i: number, field: string) => string) {
+    try {
+      return await this.store(actor, repairOrderId, inputs, batch, at, true);
+    } catch (error) {
+      if (!isUniqueViolation(error, 'clientKey')) throw this.mapped(error);
+    }
+    // Stored by a concurrent request between our look and our insert: that copy is there now to replay.
+    try {
+      return await this.store(actor, repairOrderId, inputs, batch, at, true);
+    } catch (error) {
+      throw this.mapped(error);
+    }
+  }
+
+  private mapped(error: unknown): unknown {
+    if (isUniqueViolation(error, 'supersedes')) {
+      return new ConflictException('measurement.already_corrected', 'That reading was corrected at the same moment by someone else; reload and correct the latest one.');
+    }
+    return error;
+  }
+
+  private async store(
+    actor: Actor,
+    repairOrderId: string,
+    inputs: MeasurementInput[],
+    batch: boolean,
+    at: (i: number, field: string) => string,
+    lookForReplays: boolean,
+  ): Promise<Recorded> {
+    const { rows, replayed, circuits } = await this.measurements.transaction(async (tx) => {
+      const order = await this.orders.findHeaderWithCircuits(orderScope(actor), repairOrderId, tx);
       if (!order) throw new NotFoundException('repair_order', repairOrderId);
-      const stored = await this.replays(repairOrderId, inputs, at, tx);
+      this.requireDistinctKeys(inputs, at);
+      const stored = lookForReplays ? await this.replays(repairOrderId, inputs, at, tx) : new Map<string, MeasurementRow>();
+      const touched = order.circuits.filter((c) => inputs.some((m) => m.circuitId === c.id));
       const fresh = inputs.filter((m) => !m.clientKey || !stored.has(m.clientKey));
-      if (fresh.length === 0) return { rows: inputs.map((m) => stored.get(m.clientKey!)!), replayed: true };
+      if (fresh.length === 0) return { rows: inputs.map((m) => stored.get(m.clientKey!)!), replayed: true, circuits: touched };
       this.requirePhases(order, fresh);
       this.requireTimes(order, inputs, at);
-      await this.requireReferences(repairOrderId, inputs, at, tx);
+      await this.requireReferences(repairOrderId, order.circuits, inputs, at, tx);
       const now = Date.now();
       const created = await this.measurements.insertMany(
         tx,
+        { id: actor.userId, name: actor.name },
         fresh.map((m) => ({
             repairOrderId,
             circuitId: m.circuitId,
@@ -107,14 +145,13 @@ export class MeasurementsService {
         await this.orders.touch(tx, repairOrderId);
       }
       const byInput = new Map(fresh.map((m, i) => [m, created[i]!]));
-      return { rows: inputs.map((m) => byInput.get(m) ?? stored.get(m.clientKey!)!), replayed: false };
+      return { rows: inputs.map((m) => byInput.get(m) ?? stored.get(m.clientKey!)!), replayed: false, circuits: touched };
     });
     const views = rows.map(measurementView);
-    return { replayed, result: batch ? { items: views } : views[0] };
+    return { replayed, result: batch ? { items: views } : views[0], circuits };
   }
 
-  /** Stored readings for the batch's client keys; a key reused for a different reading is refused. */
-  private async replays(repairOrderId: string, inputs: MeasurementInput[], at: (i: number, field: string) => string, tx: Prisma.TransactionClient) {
+  private requireDistinctKeys(inputs: MeasurementInput[], at: (i: number, field: string) => string): void {
     const keys = inputs.flatMap((m) => (m.clientKey ? [m.clientKey] : []));
     const findings: Finding[] = [];
     inputs.forEach((m, i) => {
@@ -123,6 +160,12 @@ export class MeasurementsService {
       }
     });
     if (findings.length) throw new InvalidInputException(findings);
+  }
+
+  /** Stored readings for the batch's client keys; a key reused for a different reading is refused. */
+  private async replays(repairOrderId: string, inputs: MeasurementInput[], at: (i: number, field: string) => string, tx: Prisma.TransactionClient) {
+    const keys = inputs.flatMap((m) => (m.clientKey ? [m.clientKey] : []));
+    const findings: Finding[] = [];
     const stored = new Map((await this.measurements.byClientKeys(repairOrderId, keys, tx)).map((r) => [r.clientKey!, r]));
     inputs.forEach((m, i) => {
       const row = m.clientKey ? stored.get(m.clientKey) : undefined;
@@ -165,17 +208,18 @@ export class MeasurementsService {
 
   private async requireReferences(
     repairOrderId: string,
+    ofOrder: ReadonlyArray<{ id: string }>,
     inputs: MeasurementInput[],
     at: (i: number, field: string) => string,
     tx: Prisma.TransactionClient,
   ): Promise<void> {
     const findings: Finding[] = [];
-    const circuits = new Set((await this.measurements.circuitIds(repairOrderId, tx)).map((c) => c.id));
+    const circuits = new Set(ofOrder.map((c) => c.id));
     inputs.forEach((m, i) => {
       if (!circuits.has(m.circuitId)) findings.push({ code: 'circuit.not_found', path: at(i, 'circuitId'), message: 'names no circuit of this repair order' });
     });
     const targetIds = inputs.flatMap((m) => (m.supersedes ? [m.supersedes] : []));
-    const targets = new Map((await this.measurements.correctionTargets(repairOrderId, targetIds, tx)).map((t) => [t.id, t]));
+    const targets = new Map(targetIds.length ? (await this.measurements.correctionTargets(repairOrderId, targetIds, tx)).map((t) => [t.id, t]) : []);
     const seen = new Set<string>();
     inputs.forEach((m, i) => {
       if (!m.supersedes) return;

@@ -29,6 +29,7 @@ export class PagesErrorFilter implements ExceptionFilter {
     if (error instanceof DomainException) {
       status = HTTP_STATUS[error.kind];
       message = error.message;
+      if (status === 429) response.setHeader('Retry-After', String(Math.max(1, Math.ceil(Number(error.details.retryAfterSeconds) || 1))));
     } else if (error instanceof HttpException) {
       status = error.getStatus();
       message = status === 404 ? 'There is no such page.' : error.message;

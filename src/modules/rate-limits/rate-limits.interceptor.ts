@@ -6,8 +6,11 @@ import { TooManyRequestsException } from '../../common/errors/domain.exception';
 import type { RequestWithActor } from '../identity/actor';
 import { RateLimitsRepository } from './rate-limits.repository';
 
-/** The sign-in route, matched by path so the limit holds whoever implements it. */
-export const SIGN_IN_PATH = '/api/auth/sign-in';
+/**
+ * The sign-in routes (the API's and the pages' form), matched by path so the limit holds whoever implements them.
+ * Both draw on the same budgets: alternating between them gains an attacker nothing.
+ */
+export const SIGN_IN_PATHS: ReadonlySet<string> = new Set(['/api/auth/sign-in', '/sign-in']);
 
 interface Budget {
   bucket: string;
@@ -53,7 +56,7 @@ export class RateLimitsInterceptor implements NestInterceptor {
   private budgetsFor(req: RequestWithActor): Budget[] {
     const limits = this.config.rateLimits;
     // Routing ignores case and a trailing slash, so the match does too.
-    if (req.path.toLowerCase().replace(/\/+$/, '') === SIGN_IN_PATH) {
+    if (SIGN_IN_PATHS.has(req.path.toLowerCase().replace(/\/+$/, ''))) {
       const ip = req.ip ?? req.socket.remoteAddress ?? 'unknown';
       const email = typeof req.body?.email === 'string' ? req.body.email.trim().toLowerCase().slice(0, 254) : undefined;
       return [

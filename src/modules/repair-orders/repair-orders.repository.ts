@@ -35,6 +35,9 @@ export function scopeWhere(scope: OrderScope): Prisma.RepairOrderWhereInput {
 
 export type RepairOrderDetail = Prisma.RepairOrderGetPayload<{ include: typeof detailInclude }>;
 
+const CIRCUIT_OF_ORDER = { id: true, kind: true, faultTreeId: true } satisfies Prisma.CircuitSelect;
+export type CircuitOfOrder = Prisma.CircuitGetPayload<{ select: typeof CIRCUIT_OF_ORDER }>;
+
 @Injectable()
 export class RepairOrdersRepository extends PrismaRepository {
   async list(scope: OrderScope, q: ListRepairOrders) {
@@ -76,6 +79,14 @@ export class RepairOrdersRepository extends PrismaRepository {
     return db.repairOrder.findFirst({ where: { id, ...scopeWhere(scope) }, select: { id: true, status: true, version: true, number: true, createdAt: true } });
   }
 
+  /** The header and the order's circuits (what a reading may name, and which fault tree each one follows), in one query. */
+  findHeaderWithCircuits(scope: OrderScope, id: string, db: Db = this.prisma) {
+    return db.repairOrder.findFirst({
+      where: { id, ...scopeWhere(scope) },
+      select: { id: true, status: true, version: true, number: true, createdAt: true, circuits: { select: CIRCUIT_OF_ORDER } },
+    });
+  }
+
   /** Marks the order as changed (for `changedSince`) when something on it was added; the version stays. */
   async touch(db: Db, id: string): Promise<void> {
     await db.repairOrder.updateMany({ where: { id }, data: { updatedAt: new Date() } });
@@ -103,6 +114,14 @@ export class RepairOrdersRepository extends PrismaRepository {
 
   countInShop(shopId: string, db: Db) {
     return db.repairOrder.count({ where: { shopId } });
+  }
+
+  /**
+   * Serialises numbering within one shop until the caller's transaction ends (on every instance: the lock is the
+   * database's), so two orders opened at the same moment never draw the same next number.
+   */
+  async lockNumbering(shopId: string, db: Db): Promise<void> {
+    await db.$executeRaw`SELECT pg_advisory_xact_lock(hashtext(${`repair-order-number:${shopId}`}))`;
   }
 
   async numberTaken(shopId: string, number: string, db: Db): Promise<boolean> {
