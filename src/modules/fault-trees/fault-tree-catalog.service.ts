@@ -28,6 +28,8 @@ function treeFindings(findings: ReadonlyArray<{ code: string; path: string; mess
 export class FaultTreeCatalog {
   private readonly loaded = new Map<string, Tree>();
   private readonly byRow = new Map<string, { shopId: string | null; tree: Tree }>();
+  /** Row id of each built-in tree version once stored (rows of fault trees are never changed or deleted). */
+  private readonly builtInRows = new Map<string, string>();
 
   constructor(private readonly trees: FaultTreesRepository) {
     for (const tree of Object.values(builtInTrees())) this.loaded.set(tree.version, tree);
@@ -51,7 +53,10 @@ export class FaultTreeCatalog {
       throw new InvalidInputException([{ code: 'fault_tree.not_found', path: 'body.treeId', message: `no fault tree "${wanted}" in this shop or built in` }]);
     }
     this.requireKind(builtIn, kind);
-    const { row } = await this.trees.ensure(db, {
+    const key = `${builtIn.id}@${builtIn.version}`;
+    const known = this.builtInRows.get(key);
+    if (known) return { id: known, tree: builtIn };
+    const { row, created } = await this.trees.ensure(db, {
       shopId: null,
       treeId: builtIn.id,
       version: builtIn.version,
@@ -60,6 +65,8 @@ export class FaultTreeCatalog {
       document: builtIn.document as object,
       createdById: null,
     });
+    // Only a row that was there before is known to be committed; one stored just now may still be rolled back.
+    if (!created) this.builtInRows.set(key, row.id);
     return { id: row.id, tree: builtIn };
   }
 
