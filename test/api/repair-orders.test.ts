@@ -33,6 +33,14 @@ describe.each(BACKENDS)('repair orders over HTTP on the %s database', (backend) 
     expect(new Set(opened.map((r) => r.body.number)).size).toBe(12);
   });
 
+  it('puts six orders opened at the same moment for one new VIN on one vehicle', async () => {
+    // 7XTRA2C18SK000031: made up, check digit 8 by 49 CFR 565 (weighted sum 239 = 21 × 11 + 8).
+    const vin = '7XTRA2C18SK000031';
+    const opened = await Promise.all(Array.from({ length: 6 }, (_, i) => open({ vehicle: newVehicle({ vin }), complaint: `Same car ${i}` })));
+    expect(opened.map((r) => r.status)).toEqual(Array(6).fill(201));
+    expect(new Set(opened.map((r) => r.body.vehicle.id)).size).toBe(1);
+  });
+
   it('refuses a VIN whose check digit does not match, naming the field and the expected digit', async () => {
     // 1M8GDM9A1KP042788: the textbook VIN with a wrong check digit (49 CFR 565 computes X).
     const res = await open({ vehicle: newVehicle({ vin: '1M8GDM9A1KP042788' }), complaint: 'No start' });

@@ -117,11 +117,12 @@ export class RepairOrdersRepository extends PrismaRepository {
   }
 
   /**
-   * Serialises numbering within one shop until the caller's transaction ends (on every instance: the lock is the
-   * database's), so two orders opened at the same moment never draw the same next number.
+   * Serialises opening orders within one shop until the caller's transaction ends (on every instance: the lock is
+   * the database's), so two orders opened at the same moment never draw the same next number, and two orders for
+   * the same new VIN share one vehicle instead of both creating it.
    */
-  async lockNumbering(shopId: string, db: Db): Promise<void> {
-    await db.$executeRaw`SELECT pg_advisory_xact_lock(hashtext(${`repair-order-number:${shopId}`}))`;
+  async lockOpening(shopId: string, db: Db): Promise<void> {
+    await db.$executeRaw`SELECT pg_advisory_xact_lock(hashtext(${`repair-order-opening:${shopId}`}))`;
   }
 
   async numberTaken(shopId: string, number: string, db: Db): Promise<boolean> {

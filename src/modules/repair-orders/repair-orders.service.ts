@@ -30,9 +30,9 @@ export class RepairOrdersService {
   async create(actor: Actor, input: CreateRepairOrder) {
     try {
       const id = await this.orders.transaction(async (tx) => {
+        await this.orders.lockOpening(actor.shopId, tx);
         await this.requireTechnician(actor, input.technicianId, 'body.technicianId', tx);
         const vehicleId = await this.resolveVehicle(actor, input, tx);
-        await this.orders.lockNumbering(actor.shopId, tx);
         const number = input.number ?? (await this.nextNumber(actor.shopId, tx));
         const created = await this.orders.create(tx, {
           shopId: actor.shopId,
