@@ -107,7 +107,8 @@ describe.each(BACKENDS)('rate limits on the %s database', (backend) => {
       const refused = await viaForm();
       expect(refused.status).toBe(429);
       expect(refused.headers.get('content-type')).toContain('text/html');
-      expect(refused.body as string).toContain('Too many sign-in attempts for this account');
+      expect(refused.body as string).toContain('<h1>Too many tries</h1>');
+      expect(refused.body as string).toMatch(/Too many sign-in attempts for this account: at most 2 in 3597 s\. Try again in \d+ min\./);
       expect(Number(refused.headers.get('retry-after'))).toBeGreaterThanOrEqual(1);
     } finally {
       await own.close();

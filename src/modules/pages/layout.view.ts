@@ -83,7 +83,8 @@ ${body}
 
 /** An error or a not-found, in the page shell. */
 export function errorPage(status: number, message: string, actor?: Actor): SafeHtml {
-  const heading = status === 404 ? 'Not found' : status === 403 ? 'Not allowed' : status === 409 ? 'Not possible now' : 'Something went wrong';
+  const heading =
+    status === 404 ? 'Not found' : status === 403 ? 'Not allowed' : status === 409 ? 'Not possible now' : status === 429 ? 'Too many tries' : 'Something went wrong';
   return page(
     { title: heading, actor, page: 'error' },
     html`<h1>${heading}</h1><p class="lead">${message}</p><p><a class="button" href="/">Back to the start</a></p>`,

@@ -45,7 +45,7 @@ export class RateLimitsInterceptor implements NestInterceptor {
         const wait = Math.max(1, Math.ceil(resetSeconds));
         throw new TooManyRequestsException(
           budget.code,
-          `Too many ${budget.what}: at most ${budget.limit} in ${budget.windowSeconds} s. Try again in ${wait} s.`,
+          `Too many ${budget.what}: at most ${budget.limit} in ${budget.windowSeconds} s. Try again in ${wait < 120 ? `${wait} s` : `${Math.ceil(wait / 60)} min`}.`,
           wait,
         );
       }
