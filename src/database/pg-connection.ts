@@ -61,7 +61,9 @@ export function createPool(target: PgTarget, options: PgConnectionOptions): Pool
     max: options.poolSize ?? 10,
     connectionTimeoutMillis: options.connectTimeoutMs ?? 5000,
     idleTimeoutMillis: 30_000,
-    ...(target.schema ? { options: `-c search_path="${target.schema}"` } : {}),
+    // UTC sessions whatever the server's zone: dates inside joined relations come back as JSON text, which Prisma
+    // reads as UTC, so a server in another zone would shift them (and the digests of proofs built from them).
+    options: ['-c TimeZone=UTC', ...(target.schema ? [`-c search_path="${target.schema}"`] : [])].join(' '),
   });
   // An idle client losing its server emits 'error' on the pool; unhandled, that kills the process.
   pool.on('error', (error) => options.logger.warn(`PostgreSQL connection lost (${target.label}): ${error.message}`));

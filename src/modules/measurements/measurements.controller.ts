@@ -23,7 +23,9 @@ export class MeasurementsController {
     description:
       'A correction is a new reading with `supersedes` naming the one it replaces; nothing is edited or deleted. ' +
       'With `diagnosis=true` the answer also carries `diagnoses`: for each circuit the readings are on, the same ' +
-      'body as GET …/circuits/{circuitId}/diagnosis, recomputed after these readings were stored (one request per reading on a tablet).',
+      'body as GET …/circuits/{circuitId}/diagnosis, recomputed after these readings were stored (one request per reading on a tablet). ' +
+      'The readings are stored first: should the diagnosis then fail (the database gone for a moment), the answer is an error yet ' +
+      'the readings are kept, and re-sending them with the same `clientKey` answers with them and the diagnosis.',
   })
   @ApiBody({ schema: openApiSchema(MeasurementBody) })
   async record(
