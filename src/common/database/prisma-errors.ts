@@ -1,8 +1,10 @@
-/** True when a Prisma error is a unique-constraint violation, optionally on a given field. */
+/** True when a Prisma error (of a model query or a raw one) is a unique-constraint violation, optionally on a given field. */
 export function isUniqueViolation(error: unknown, field?: string): boolean {
   const e = error as { code?: string; meta?: { target?: unknown; driverAdapterError?: { cause?: { constraint?: { fields?: string[] } } } }; message?: string };
-  if (e?.code !== 'P2002') return false;
+  const target = JSON.stringify(e?.meta ?? {}) + (e?.message ?? '');
+  // A raw query reports PostgreSQL's own code (23505, unique_violation) and the constraint's name.
+  const raw = e?.code === 'P2010' && target.includes('23505');
+  if (e?.code !== 'P2002' && !raw) return false;
   if (!field) return true;
-  const target = JSON.stringify(e.meta ?? {}) + (e.message ?? '');
   return target.includes(field);
 }

@@ -27,19 +27,28 @@ export abstract class PrismaRepository {
   }
 }
 
-async function stampTransaction(tx: Prisma.TransactionClient): Promise<void> {
+/** Who writes and from where, as the audit triggers read it; undefined outside a request (CLI, seeding). */
+export function writeStamp(): { context: string; idempotencyId?: string } | undefined {
   const context = currentWriteContext();
-  if (!context) return;
-  const stamp = JSON.stringify({
-    userId: context.actor?.userId ?? null,
-    shopId: context.actor?.shopId ?? null,
-    ip: context.client?.ip ?? null,
-    userAgent: context.client?.userAgent ?? null,
-    requestId: context.requestId,
-    clientId: context.client?.clientId ?? null,
-  });
-  await tx.$queryRaw`SELECT set_config('tracebay.context', ${stamp}, true)`;
-  if (context.idempotencyId) {
-    await tx.$executeRaw`UPDATE "IdempotencyKey" SET "committedAt" = CURRENT_TIMESTAMP WHERE "id" = ${context.idempotencyId}::uuid AND "committedAt" IS NULL`;
+  if (!context) return undefined;
+  return {
+    context: JSON.stringify({
+      userId: context.actor?.userId ?? null,
+      shopId: context.actor?.shopId ?? null,
+      ip: context.client?.ip ?? null,
+      userAgent: context.client?.userAgent ?? null,
+      requestId: context.requestId,
+      clientId: context.client?.clientId ?? null,
+    }),
+    ...(context.idempotencyId ? { idempotencyId: context.idempotencyId } : {}),
+  };
+}
+
+async function stampTransaction(tx: Prisma.TransactionClient): Promise<void> {
+  const stamp = writeStamp();
+  if (!stamp) return;
+  await tx.$queryRaw`SELECT set_config('tracebay.context', ${stamp.context}, true)`;
+  if (stamp.idempotencyId) {
+    await tx.$executeRaw`UPDATE "IdempotencyKey" SET "committedAt" = CURRENT_TIMESTAMP WHERE "id" = ${stamp.idempotencyId}::uuid AND "committedAt" IS NULL`;
   }
 }

@@ -27,6 +27,36 @@ const PHASES_BY_STATUS: Record<RepairOrderStatus, ReadonlyArray<'diagnosis' | 'v
   closed: [],
 };
 
+/** The row a reading is stored as. */
+function rowFor(m: MeasurementInput, repairOrderId: string, takenById: string, now: number) {
+  return {
+    repairOrderId,
+    circuitId: m.circuitId,
+    quantity: m.quantity,
+    at: m.at,
+    against: m.against ?? null,
+    location: m.location,
+    connector: m.connector,
+    key: m.key,
+    engine: m.engine,
+    jumpers: m.jumpers,
+    pid: m.pid ?? null,
+    sensor: m.sensor ?? null,
+    clientKey: m.clientKey ?? null,
+    valueEntered: m.value,
+    unitEntered: m.unit,
+    valueSi: m.valueSi,
+    overload: m.overload,
+    siUnit: m.siUnit,
+    meterOhms: m.meterOhms,
+    phase: m.phase,
+    note: m.note,
+    supersedesId: m.supersedes ?? null,
+    takenById,
+    takenAt: new Date(m.takenAt ?? now),
+  };
+}
+
 /** What recording answers: the stored readings (or the earlier copies, when re-sent) and the circuits they are on. */
 export interface Recorded {
   replayed: boolean;
@@ -55,7 +85,7 @@ export class MeasurementsService {
     const keyed = inputs.some((m) => m.clientKey);
     try {
       // Nearly every reading is new: store it straight away, and look for an earlier copy only when that fails.
-      return await this.store(actor, repairOrderId, inputs, batch, at, false);
+      return (await this.storeAlone(actor, repairOrderId, inputs, batch, at)) ?? (await this.store(actor, repairOrderId, inputs, batch, at, false));
     } catch (error) {
       if (keyed && (isUniqueViolation(error, 'clientKey') || error instanceof DomainException)) {
         // A re-sent reading (or one that arrived twice at once): answer with the stored copy, which also holds
@@ -87,6 +117,27 @@ export class MeasurementsService {
     return error;
   }
 
+  /**
+   * The common case in one write: a single new reading, not a correction, on an order already under diagnosis or
+   * repaired. The order is read and the reading checked as `store` does; the reading is then stored only while the
+   * order still has the status it was checked against. Undefined when the case is another one, or the order moved
+   * on in between: `store` then does it all in one transaction.
+   */
+  private async storeAlone(actor: Actor, repairOrderId: string, inputs: MeasurementInput[], batch: boolean, at: (i: number, field: string) => string) {
+    const m = inputs[0]!;
+    if (batch || m.supersedes) return undefined;
+    const order = await this.orders.findHeaderWithCircuits(orderScope(actor), repairOrderId);
+    if (!order) throw new NotFoundException('repair_order', repairOrderId);
+    // The first reading moves an open order to diagnosing, which `store` records.
+    if (order.status === 'open') return undefined;
+    this.requirePhases(order, inputs);
+    this.requireTimes(order, inputs, at);
+    await this.requireReferences(repairOrderId, order.circuits, inputs, at, this.measurements.prisma);
+    const row = await this.measurements.insertWhileStatus(order.status, { id: actor.userId, name: actor.name }, rowFor(m, repairOrderId, actor.userId, Date.now()));
+    if (!row) return undefined;
+    return { replayed: false, result: measurementView(row), circuits: order.circuits.filter((c) => c.id === m.circuitId) } satisfies Recorded;
+  }
+
   private async store(
     actor: Actor,
     repairOrderId: string,
@@ -110,32 +161,7 @@ export class MeasurementsService {
       const created = await this.measurements.insertMany(
         tx,
         { id: actor.userId, name: actor.name },
-        fresh.map((m) => ({
-            repairOrderId,
-            circuitId: m.circuitId,
-            quantity: m.quantity,
-            at: m.at,
-            against: m.against ?? null,
-            location: m.location,
-            connector: m.connector,
-            key: m.key,
-            engine: m.engine,
-            jumpers: m.jumpers,
-            pid: m.pid ?? null,
-            sensor: m.sensor ?? null,
-            clientKey: m.clientKey ?? null,
-            valueEntered: m.value,
-            unitEntered: m.unit,
-            valueSi: m.valueSi,
-            overload: m.overload,
-            siUnit: m.siUnit,
-            meterOhms: m.meterOhms,
-            phase: m.phase,
-            note: m.note,
-            supersedesId: m.supersedes ?? null,
-            takenById: actor.userId,
-            takenAt: new Date(m.takenAt ?? now),
-          })),
+        fresh.map((m) => rowFor(m, repairOrderId, actor.userId, now)),
       );
       if (order.status === 'open') {
         // The first reading starts the diagnosis.
