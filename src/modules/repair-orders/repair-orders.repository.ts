@@ -1,7 +1,6 @@
 import { Injectable } from '@nestjs/common';
 import type { Db } from '../../common/database/database.tokens';
 import { PrismaRepository } from '../../common/database/prisma-repository';
-import { DomainException } from '../../common/errors/domain.exception';
 import type { Prisma, RepairOrderStatus } from '../../generated/prisma/client';
 import type { ListRepairOrders } from './repair-orders.dto';
 import type { OrderScope } from '../identity/actor';
@@ -35,15 +34,6 @@ export function scopeWhere(scope: OrderScope): Prisma.RepairOrderWhereInput {
 }
 
 export type RepairOrderDetail = Prisma.RepairOrderGetPayload<{ include: typeof detailInclude }>;
-
-/** How long opening an order waits for the one before it in the same shop. */
-export const OPENING_LOCK_WAIT_MS = 3000;
-
-/** PostgreSQL's lock_not_available (55P03), as the driver adapter reports it. */
-function isLockTimeout(error: unknown): boolean {
-  const text = JSON.stringify((error as { meta?: unknown })?.meta ?? {}) + String((error as Error)?.message ?? '');
-  return text.includes('55P03') || /lock timeout/i.test(text);
-}
 
 const CIRCUIT_OF_ORDER = { id: true, kind: true, faultTreeId: true } satisfies Prisma.CircuitSelect;
 export type CircuitOfOrder = Prisma.CircuitGetPayload<{ select: typeof CIRCUIT_OF_ORDER }>;
@@ -124,22 +114,6 @@ export class RepairOrdersRepository extends PrismaRepository {
 
   countInShop(shopId: string, db: Db) {
     return db.repairOrder.count({ where: { shopId } });
-  }
-
-  /**
-   * Serialises opening orders within one shop until the caller's transaction ends (on every instance: the lock is
-   * the database's), so two orders opened at the same moment never draw the same next number, and two orders for
-   * the same new VIN share one vehicle instead of both creating it.
-   */
-  async lockOpening(shopId: string, db: Db): Promise<void> {
-    // A bounded wait: a burst of openings must not hold the pool's connections while they queue.
-    await db.$executeRaw`SELECT set_config('lock_timeout', ${`${OPENING_LOCK_WAIT_MS}ms`}, true)`;
-    try {
-      await db.$executeRaw`SELECT pg_advisory_xact_lock(hashtext(${`repair-order-opening:${shopId}`}))`;
-    } catch (error) {
-      if (!isLockTimeout(error)) throw error;
-      throw new DomainException('unavailable', 'repair_order.opening_busy', 'Many repair orders are being opened in this shop at this moment; try again in a few seconds.');
-    }
   }
 
   async numberTaken(shopId: string, number: string, db: Db): Promise<boolean> {

@@ -1,5 +1,5 @@
 import { Injectable } from '@nestjs/common';
-import { ConflictException, InvalidInputException, NotFoundException } from '../../common/errors/domain.exception';
+import { ConflictException, DomainException, InvalidInputException, NotFoundException } from '../../common/errors/domain.exception';
 import { isUniqueViolation } from '../../common/database/prisma-errors';
 import { checkMove } from '../../engine/status';
 import type { Prisma } from '../../generated/prisma/client';
@@ -8,6 +8,9 @@ import { UsersRepository } from '../identity/users.repository';
 import type { ChangeStatus, CreateRepairOrder, ListRepairOrders, UpdateRepairOrder } from './repair-orders.dto';
 import { RepairOrdersRepository } from './repair-orders.repository';
 import { toDetailView } from './repair-orders.view';
+
+/** Tries at opening an order before answering 503: each clash means another order was opened meanwhile. */
+const OPENING_ATTEMPTS = 20;
 
 @Injectable()
 export class RepairOrdersService {
@@ -27,35 +30,49 @@ export class RepairOrdersService {
     return toDetailView(order);
   }
 
+  /**
+   * Opens an order. Orders opened at the same moment (on any instance) may draw the same next number or both find
+   * a new VIN unknown: the database's unique indexes refuse the second, and that one simply tries again, seeing
+   * the first. No lock is held while waiting, so a burst of openings never ties up the connections readings need.
+   */
   async create(actor: Actor, input: CreateRepairOrder) {
-    try {
-      const id = await this.orders.transaction(async (tx) => {
-        await this.orders.lockOpening(actor.shopId, tx);
-        await this.requireTechnician(actor, input.technicianId, 'body.technicianId', tx);
-        const vehicleId = await this.resolveVehicle(actor, input, tx);
-        const number = input.number ?? (await this.nextNumber(actor.shopId, tx));
-        const created = await this.orders.create(tx, {
-          shopId: actor.shopId,
-          number,
-          vehicleId,
-          technicianId: input.technicianId ?? null,
-          complaint: input.complaint,
-          codes: input.codes,
-          odometerIn: input.vehicle?.odometer ?? null,
-          createdById: actor.userId,
-        });
-        await this.orders.logStatus(tx, created.id, null, 'open', actor.userId);
-        return created.id;
-      });
-      return this.get(actor, id);
-    } catch (error) {
-      if (isUniqueViolation(error, 'number')) {
-        throw new ConflictException('repair_order.number_taken', `Repair order number ${input.number} is already used in this shop.`, {}, [
-          { code: 'repair_order.number_taken', path: 'body.number', message: 'already used in this shop' },
-        ]);
+    for (let attempt = 1; ; attempt++) {
+      try {
+        return await this.get(actor, await this.open(actor, input));
+      } catch (error) {
+        const clash = (input.number === undefined && isUniqueViolation(error, 'number')) || isUniqueViolation(error, 'vin');
+        if (clash && attempt < OPENING_ATTEMPTS) continue;
+        if (clash) {
+          throw new DomainException('unavailable', 'repair_order.opening_busy', 'Many repair orders are being opened in this shop at this moment; try again in a few seconds.');
+        }
+        if (isUniqueViolation(error, 'number')) {
+          throw new ConflictException('repair_order.number_taken', `Repair order number ${input.number} is already used in this shop.`, {}, [
+            { code: 'repair_order.number_taken', path: 'body.number', message: 'already used in this shop' },
+          ]);
+        }
+        throw error;
       }
-      throw error;
     }
+  }
+
+  private open(actor: Actor, input: CreateRepairOrder): Promise<string> {
+    return this.orders.transaction(async (tx) => {
+      await this.requireTechnician(actor, input.technicianId, 'body.technicianId', tx);
+      const vehicleId = await this.resolveVehicle(actor, input, tx);
+      const number = input.number ?? (await this.nextNumber(actor.shopId, tx));
+      const created = await this.orders.create(tx, {
+        shopId: actor.shopId,
+        number,
+        vehicleId,
+        technicianId: input.technicianId ?? null,
+        complaint: input.complaint,
+        codes: input.codes,
+        odometerIn: input.vehicle?.odometer ?? null,
+        createdById: actor.userId,
+      });
+      await this.orders.logStatus(tx, created.id, null, 'open', actor.userId);
+      return created.id;
+    });
   }
 
   async update(actor: Actor, id: string, input: UpdateRepairOrder) {
