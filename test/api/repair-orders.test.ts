@@ -33,6 +33,12 @@ describe.each(BACKENDS)('repair orders over HTTP on the %s database', (backend) 
     expect(new Set(opened.map((r) => r.body.number)).size).toBe(24);
   });
 
+  it('numbers a new order after the highest "RO-" number of the shop, hand-typed ones included', async () => {
+    expect((await open({ vehicle: newVehicle(), complaint: 'Typed number', number: 'RO-70000' })).status).toBe(201);
+    const next = await open({ vehicle: newVehicle(), complaint: 'Numbered by the service' });
+    expect(next.body.number).toBe('RO-70001');
+  });
+
   it('puts six orders opened at the same moment for one new VIN on one vehicle', async () => {
     // 7XTRA2C18SK000031: made up, check digit 8 by 49 CFR 565 (weighted sum 239 = 21 × 11 + 8).
     const vin = '7XTRA2C18SK000031';

@@ -112,8 +112,12 @@ export class RepairOrdersRepository extends PrismaRepository {
     return db.vehicle.create({ data, select: { id: true } });
   }
 
-  countInShop(shopId: string, db: Db) {
-    return db.repairOrder.count({ where: { shopId } });
+  /** The highest number of the form "RO-<digits>" in the shop, 0 when there is none. */
+  async highestRoNumber(shopId: string, db: Db): Promise<number> {
+    const [row] = await db.$queryRaw<Array<{ n: number }>>`
+      SELECT COALESCE(MAX(substring("number" FROM 4)::int), 0)::int AS n FROM "RepairOrder"
+      WHERE "shopId" = ${shopId}::uuid AND "number" ~ '^RO-[0-9]{1,9}$'`;
+    return Number(row?.n ?? 0);
   }
 
   async numberTaken(shopId: string, number: string, db: Db): Promise<boolean> {

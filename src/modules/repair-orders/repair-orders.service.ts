@@ -38,7 +38,7 @@ export class RepairOrdersService {
   async create(actor: Actor, input: CreateRepairOrder) {
     for (let attempt = 1; ; attempt++) {
       try {
-        return await this.get(actor, await this.open(actor, input));
+        return await this.get(actor, await this.open(actor, input, attempt));
       } catch (error) {
         const clash = (input.number === undefined && isUniqueViolation(error, 'number')) || isUniqueViolation(error, 'vin');
         if (clash && attempt < OPENING_ATTEMPTS) continue;
@@ -55,11 +55,11 @@ export class RepairOrdersService {
     }
   }
 
-  private open(actor: Actor, input: CreateRepairOrder): Promise<string> {
+  private open(actor: Actor, input: CreateRepairOrder, attempt: number): Promise<string> {
     return this.orders.transaction(async (tx) => {
       await this.requireTechnician(actor, input.technicianId, 'body.technicianId', tx);
       const vehicleId = await this.resolveVehicle(actor, input, tx);
-      const number = input.number ?? (await this.nextNumber(actor.shopId, tx));
+      const number = input.number ?? (await this.nextNumber(actor.shopId, tx, attempt));
       const created = await this.orders.create(tx, {
         shopId: actor.shopId,
         number,
@@ -174,9 +174,13 @@ export class RepairOrdersService {
     return created.id;
   }
 
-  /** Next free "RO-nnnnn" number in the shop; a clash with a hand-typed number is skipped. */
-  private async nextNumber(shopId: string, tx: Prisma.TransactionClient): Promise<string> {
-    let n = (await this.orders.countInShop(shopId, tx)) + 1;
+  /**
+   * The number after the shop's highest "RO-nnnnn" (a clash with a hand-typed number is skipped). After a clash
+   * with an order opened at the same moment, each retry starts a little further on (at random), so that several
+   * openings retrying together part ways instead of clashing again; a number may then be left out.
+   */
+  private async nextNumber(shopId: string, tx: Prisma.TransactionClient, attempt = 1): Promise<string> {
+    let n = (await this.orders.highestRoNumber(shopId, tx)) + 1 + Math.floor(Math.random() * attempt);
     for (;;) {
       const candidate = `RO-${String(n).padStart(5, '0')}`;
       if (!(await this.orders.numberTaken(shopId, candidate, tx))) return candidate;
