@@ -2,6 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { BACKENDS } from '../support/db';
 import { FOREMAN_A, INACTIVE_A, newVehicle, TECH_A, TECH_A2, TECH_B, VIN_SAMPLE, VIN_TEXTBOOK } from '../support/fixtures';
 import { startApi, type TestApi } from '../support/http';
+import { startInstance, type Instance } from '../support/two-instances';
 
 describe.each(BACKENDS)('repair orders over HTTP on the %s database', (backend) => {
   let api: TestApi;
@@ -167,5 +168,35 @@ describe.each(BACKENDS)('repair orders over HTTP on the %s database', (backend) 
     expect((await api.call('GET', '/api/repair-orders')).status).toBe(401);
     expect((await api.call('GET', '/api/repair-orders/not-a-uuid', { user: TECH_A })).body.error.findings[0].path).toBe('params.id');
     expect((await api.call('GET', '/api/repair-orders/00000000-0000-4000-8000-000000000000', { user: TECH_A })).status).toBe(404);
+  });
+});
+
+describe.runIf(BACKENDS.includes('postgresql'))('opening orders at the same moment on two instances of one PostgreSQL database', () => {
+  let api: TestApi;
+  let a: Instance;
+  let b: Instance;
+  beforeAll(async () => {
+    api = await startApi('postgresql');
+    [a, b] = [await startInstance(api), await startInstance(api)];
+  });
+  afterAll(async () => {
+    await Promise.all([a?.close(), b?.close()]);
+    await api?.close();
+  });
+
+  const openOn = (instance: Instance, body: Record<string, unknown>) => instance.call('POST', '/api/repair-orders', { user: FOREMAN_A, body });
+
+  it('gives sixteen orders spread over both instances sixteen different numbers', async () => {
+    const opened = await Promise.all(Array.from({ length: 16 }, (_, i) => openOn(i % 2 ? a : b, { vehicle: newVehicle(), complaint: `Two instances ${i}` })));
+    expect(opened.map((r) => r.status)).toEqual(Array(16).fill(201));
+    expect(new Set(opened.map((r) => r.body.number)).size).toBe(16);
+  });
+
+  it('puts orders opened on both instances for one new VIN on one vehicle', async () => {
+    // 7XTRA2C11SK000047: made up, check digit 1 by 49 CFR 565 (weighted sum 254 = 23 × 11 + 1).
+    const vin = '7XTRA2C11SK000047';
+    const opened = await Promise.all(Array.from({ length: 8 }, (_, i) => openOn(i % 2 ? a : b, { vehicle: newVehicle({ vin }), complaint: `Same car, two instances ${i}` })));
+    expect(opened.map((r) => r.status)).toEqual(Array(8).fill(201));
+    expect(new Set(opened.map((r) => r.body.vehicle.id)).size).toBe(1);
   });
 });

@@ -14,6 +14,9 @@ const OPENING_ATTEMPTS = 20;
 
 @Injectable()
 export class RepairOrdersService {
+  /** Per shop, the end of the queue of openings in this process. */
+  private readonly openings = new Map<string, Promise<void>>();
+
   constructor(
     private readonly orders: RepairOrdersRepository,
     private readonly users: UsersRepository,
@@ -31,14 +34,15 @@ export class RepairOrdersService {
   }
 
   /**
-   * Opens an order. Orders opened at the same moment (on any instance) may draw the same next number or both find
+   * Opens an order. Orders opened at the same moment on two instances may draw the same next number or both find
    * a new VIN unknown: the database's unique indexes refuse the second, and that one simply tries again, seeing
-   * the first. No lock is held while waiting, so a burst of openings never ties up the connections readings need.
+   * the first. No database lock is held while waiting, so a burst of openings never ties up the connections
+   * readings need.
    */
   async create(actor: Actor, input: CreateRepairOrder) {
     for (let attempt = 1; ; attempt++) {
       try {
-        return await this.get(actor, await this.open(actor, input, attempt));
+        return await this.get(actor, await this.oneAtATime(actor.shopId, () => this.open(actor, input, attempt)));
       } catch (error) {
         const clash = (input.number === undefined && isUniqueViolation(error, 'number')) || isUniqueViolation(error, 'vin');
         if (clash && attempt < OPENING_ATTEMPTS) continue;
@@ -53,6 +57,23 @@ export class RepairOrdersService {
         throw error;
       }
     }
+  }
+
+  /**
+   * Openings in one shop take turns within this process, queued in memory, so they do not clash with each other
+   * and hold no database connection while they wait; only openings on other instances can still clash.
+   */
+  private oneAtATime<T>(shopId: string, work: () => Promise<T>): Promise<T> {
+    const run = (this.openings.get(shopId) ?? Promise.resolve()).then(work);
+    const settled = run.then(
+      () => undefined,
+      () => undefined,
+    );
+    this.openings.set(shopId, settled);
+    void settled.then(() => {
+      if (this.openings.get(shopId) === settled) this.openings.delete(shopId);
+    });
+    return run;
   }
 
   private open(actor: Actor, input: CreateRepairOrder, attempt: number): Promise<string> {
