@@ -83,6 +83,7 @@ async function runService() {
   const agent = new http.Agent({ keepAlive: true, maxSockets: job.tablets.length });
   const headers = job.headers;
   const times = [];
+  const setups = [];
   const errors = {};
   let readings = 0;
   let jobs = 0;
@@ -123,7 +124,9 @@ async function runService() {
       // but not a reading, so it is neither counted nor timed.
       if (!work || work.diagnosis.status === 'concluded' || !work.diagnosis.nextTest || work.readings >= 25) {
         if (work && work.diagnosis.status === 'concluded' && measuring) concluded++;
+        const setupStarted = performance.now();
         work = await newJob(index, n++);
+        if (work && measuring) setups.push(performance.now() - setupStarted);
         if (!work) continue;
         if (job.paceMs) due = Math.max(due, performance.now());
       }
@@ -163,7 +166,7 @@ async function runService() {
   stop = true;
   await all;
   agent.destroy();
-  return { readings, seconds, perSecond: readings / seconds, post: summary(times), errors, jobs, concluded };
+  return { readings, seconds, perSecond: readings / seconds, post: summary(times), setup: summary(setups), errors, jobs, concluded };
 }
 
 async function runRaw() {

@@ -108,6 +108,10 @@ export default async (): Promise<BenchResult> => {
       title: `Load: ${TABLETS} tablets on loopback, PostgreSQL server, each run ${DURATION_MS / 1000} s measured after ${WARMUP_MS / 1000} s warm-up`,
       rows: [
         row(`service, flat out: ${TABLETS} tablets, reading + diagnosis in one request`, flat),
+        {
+          ...row(`service, flat out: setting up a job (repair order, circuit, first diagnosis; not a reading)`, { perSecond: flat.jobs / flat.seconds, post: flat.setup }),
+          'readings per second': `${(flat.jobs / flat.seconds).toFixed(0)} jobs/s`,
+        },
         row(`service, paced: ${TABLETS} tablets, one reading each every 5 s (${(3 * DURATION_MS) / 1000} s measured)`, busy),
         row(`service, paced: ${TABLETS} tablets, one reading each every second`, paced),
         row('service, one tablet alone, flat out', alone),
