@@ -66,6 +66,19 @@ describe.each(BACKENDS)('circuits and measurements over HTTP on the %s database'
     expect(ro.body.status).toBe('diagnosing');
   });
 
+  it('answers a reading on an order under diagnosis exactly as it lists it afterwards (a jumper, an over-range reading)', async () => {
+    // A first reading puts the order under diagnosis, if an earlier test has not.
+    expect((await post(reading({ clientKey: 'as-listed-0' }))).status).toBe(201);
+    const jumpered = await post(reading({ jumpers: [{ from: 'signal', to: 'reference', via: { kind: 'resistor', ohms: 1000 } }], clientKey: 'as-listed-1' }));
+    const overRange = await post(reading({ quantity: 'ohms', at: 'signal', against: 'ground', connector: 'unplugged', key: 'off', value: 'OL', unit: 'ohm', clientKey: 'as-listed-2' }));
+    expect([jumpered.status, overRange.status]).toEqual([201, 201]);
+    const listed = (await api.call('GET', `/api/repair-orders/${roId}/measurements`, { user: TECH_A })).body.items as Array<{ id: string }>;
+    for (const answered of [jumpered.body, overRange.body]) {
+      // Same keys in the same order too: a client may hash or compare the bodies.
+      expect(JSON.stringify(listed.find((m) => m.id === answered.id))).toBe(JSON.stringify(answered));
+    }
+  });
+
   it('converts ohms, kilohms and pressure units to SI (NIST SP 811: 1 inHg = 3386.389 Pa)', async () => {
     const res = await post([
       reading({ quantity: 'ohms', key: 'off', connector: 'unplugged', value: 253, unit: 'kohm' }),

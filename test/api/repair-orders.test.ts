@@ -38,6 +38,9 @@ describe.each(BACKENDS)('repair orders over HTTP on the %s database', (backend) 
     expect((await open({ vehicle: newVehicle(), complaint: 'Typed number', number: 'RO-70000' })).status).toBe(201);
     const next = await open({ vehicle: newVehicle(), complaint: 'Numbered by the service' });
     expect(next.body.number).toBe('RO-70001');
+    // Ten digits and more are followed too (up to fifteen), not skipped over one lookup at a time.
+    expect((await open({ vehicle: newVehicle(), complaint: 'Long typed number', number: 'RO-1000000000' })).status).toBe(201);
+    expect((await open({ vehicle: newVehicle(), complaint: 'After the long one' })).body.number).toBe('RO-1000000001');
   });
 
   it('puts six orders opened at the same moment for one new VIN on one vehicle', async () => {

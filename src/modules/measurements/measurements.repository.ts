@@ -67,7 +67,7 @@ export class MeasurementsRepository extends PrismaRepository {
     const touchedAt = new Date();
     // The stamp is set before the order is touched and the row inserted (the UPDATE waits on it), and the audit
     // triggers fire at the end of the statement.
-    const rows = await this.prisma.$queryRaw<Array<{ seq: number }>>`
+    const rows = await this.prisma.$queryRaw<Array<{ seq: number; jumpers: Prisma.JsonValue }>>`
       WITH stamp AS (SELECT set_config('tracebay.context', ${stamp.context}, true) AS c),
       still AS (
         UPDATE "RepairOrder" SET "updatedAt" = ${touchedAt}::timestamptz
@@ -84,10 +84,11 @@ export class MeasurementsRepository extends PrismaRepository {
         ${data.siUnit}::varchar, ${data.meterOhms}::float8, ${data.phase}::"Phase", ${data.note}::text, NULL, ${data.clientKey}::varchar,
         ${data.takenById}::uuid, ${data.takenAt}::timestamptz
       FROM still
-      RETURNING "seq"`;
+      RETURNING "seq", "jumpers"`;
     const row = rows[0];
     if (!row) return null;
-    return { ...data, id, seq: Number(row.seq), supersedesId: null, jumpers: data.jumpers as Prisma.JsonValue, takenBy, supersededBy: null };
+    // The stored jumpers as the database gives them back (jsonb orders keys its own way), like every other answer.
+    return { ...data, id, seq: Number(row.seq), supersedesId: null, jumpers: row.jumpers, takenBy, supersededBy: null };
   }
 
   list(repairOrderId: string, filter: { circuitId?: string; phase?: 'diagnosis' | 'verification'; includeSuperseded: boolean }, db: Db = this.prisma) {

@@ -11,6 +11,11 @@ import { toDetailView } from './repair-orders.view';
 
 /** Tries at opening an order before answering 503: each clash means another order was opened meanwhile. */
 const OPENING_ATTEMPTS = 20;
+/** Longest an opening waits for its turn in this process before answering 503. */
+const OPENING_WAIT_MS = 5000;
+
+const busyOpening = () =>
+  new DomainException('unavailable', 'repair_order.opening_busy', 'Many repair orders are being opened in this shop at this moment; try again in a few seconds.');
 
 @Injectable()
 export class RepairOrdersService {
@@ -46,9 +51,7 @@ export class RepairOrdersService {
       } catch (error) {
         const clash = (input.number === undefined && isUniqueViolation(error, 'number')) || isUniqueViolation(error, 'vin');
         if (clash && attempt < OPENING_ATTEMPTS) continue;
-        if (clash) {
-          throw new DomainException('unavailable', 'repair_order.opening_busy', 'Many repair orders are being opened in this shop at this moment; try again in a few seconds.');
-        }
+        if (clash) throw busyOpening();
         if (isUniqueViolation(error, 'number')) {
           throw new ConflictException('repair_order.number_taken', `Repair order number ${input.number} is already used in this shop.`, {}, [
             { code: 'repair_order.number_taken', path: 'body.number', message: 'already used in this shop' },
@@ -64,7 +67,12 @@ export class RepairOrdersService {
    * and hold no database connection while they wait; only openings on other instances can still clash.
    */
   private oneAtATime<T>(shopId: string, work: () => Promise<T>): Promise<T> {
-    const run = (this.openings.get(shopId) ?? Promise.resolve()).then(work);
+    const queuedAt = Date.now();
+    const run = (this.openings.get(shopId) ?? Promise.resolve()).then(() => {
+      // Whoever sent a request that waited this long has likely given up (and may send it again): do not open it late.
+      if (Date.now() - queuedAt > OPENING_WAIT_MS) throw busyOpening();
+      return work();
+    });
     const settled = run.then(
       () => undefined,
       () => undefined,
