@@ -8,7 +8,7 @@
 //                   diagnosis recomputed from every reading), until the diagnosis concludes. Keep-alive HTTP/1.1 on
 //                   loopback, one connection per tablet; flat out (the next reading as soon as the last is answered)
 //                   or paced (one reading every paceMs per tablet, latency counted from when it was due).
-//   mode "raw":     each client loops: one INSERT of the same row shape straight into PostgreSQL with pg.
+//   mode "raw":     each client loops: one INSERT of the same row shape (job.reading) straight into PostgreSQL with pg.
 import http from 'node:http';
 import { randomUUID } from 'node:crypto';
 import { createRequire } from 'node:module';
@@ -36,23 +36,6 @@ function request(agent, url, method, path, headers, body) {
     req.on('error', reject);
     req.end(body);
   });
-}
-
-/** A back-probed reference reading, key on engine off, with a little meter scatter. */
-function reading(circuitId, clientKey, i) {
-  return {
-    circuitId,
-    quantity: 'dc_volts',
-    at: 'reference',
-    against: 'ground',
-    location: 'sensor_connector',
-    connector: 'backprobed',
-    key: 'on',
-    engine: 'off',
-    value: 4.98 + (i % 5) / 100,
-    unit: 'V',
-    clientKey,
-  };
 }
 
 // The circuit model (built into dist/ by the benchmark before it starts the service) gives each job's readings.
@@ -190,7 +173,8 @@ async function runRaw() {
     const t = job.tablets[index % job.tablets.length];
     let i = 0;
     while (!stop) {
-      const r = reading(t.circuitId, `raw-${index}-${i}-${job.runTag}`, i);
+      // The reading shape the test bursts send (job.reading), with a little meter scatter.
+      const r = { ...job.reading, value: 4.98 + (i % 5) / 100, clientKey: `raw-${index}-${i}-${job.runTag}` };
       const started = performance.now();
       await client.query(sql, [randomUUID(), t.roId, t.circuitId, r.quantity, r.at, r.against, r.location, r.connector, r.key, r.engine,
         '[]', r.value, r.unit, r.value, false, 'V', 1e7, 'diagnosis', '', r.clientKey, job.takenById, new Date()]);

@@ -20,7 +20,7 @@ import { promisify } from 'node:util';
 import { Client } from 'pg';
 import { openDatabase } from '../src/database';
 import { seedShops, TECH_A } from '../test/support/fixtures';
-import { createOrderWithCircuit } from '../test/faults/burst';
+import { createOrderWithCircuit, referenceReading } from '../test/faults/burst';
 import { credentialsFor, startService } from '../test/faults/service-process';
 import { fixtureUser } from '../test/faults/users';
 import type { BenchResult } from './run';
@@ -89,7 +89,7 @@ export default async (): Promise<BenchResult> => {
     const readingsAfter = perCircuit;
     await service.kill('SIGTERM');
     service = undefined;
-    const raw = await generate({ mode: 'raw', databaseUrl, clients: TABLETS, tablets, takenById: TECH_A, durationMs: DURATION_MS, warmupMs: WARMUP_MS, runTag });
+    const raw = await generate({ mode: 'raw', databaseUrl, clients: TABLETS, tablets, takenById: TECH_A, reading: referenceReading('', '', 0), durationMs: DURATION_MS, warmupMs: WARMUP_MS, runTag });
 
     const ratio = flat.perSecond / raw.perSecond;
     const errors =

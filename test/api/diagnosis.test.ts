@@ -1,22 +1,11 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { builtInDocuments } from '../../src/engine/diagnosis';
+import { builtInDocuments, builtInTrees } from '../../src/engine/diagnosis';
 import { FOREMAN_A, newVehicle, TECH_A, TECH_B } from '../support/fixtures';
 import { startApi, type TestApi } from '../support/http';
 import { diagnoseToEnd, simulatedReading } from '../support/simulate';
 
-const THREE_WIRE_FAULTS = [
-  'reference_open',
-  'reference_short_ground',
-  'reference_short_voltage',
-  'signal_open',
-  'signal_short_ground',
-  'signal_short_voltage',
-  'signal_short_reference',
-  'ground_open',
-  'ground_high_resistance',
-  'sensor_internal',
-  'module_internal',
-] as const;
+// Every fault of the built-in three-wire tree (its hypotheses but the catch-all "unknown").
+const THREE_WIRE_FAULTS = builtInTrees()['three-wire-5v']!.hypotheses.map((h) => h.id).filter((id) => id !== 'unknown');
 
 describe('diagnosis over HTTP, driven by readings simulated from the circuit model', () => {
   let api: TestApi;

@@ -5,6 +5,11 @@ import { currentRequestId } from '../logging/request-context';
 import { isDatabaseUnavailable, isDataRejected } from '../../database/unavailable';
 
 /** The one mapping from error kinds to HTTP statuses (pages render the same statuses as HTML). */
+/** The Retry-After of a 429: the whole seconds its exception named, at least 1. */
+export function retryAfter(seconds: unknown): string {
+  return String(Math.max(1, Math.ceil(Number(seconds) || 1)));
+}
+
 export const HTTP_STATUS: Readonly<Record<ErrorKind, number>> = {
   invalid: 400,
   unauthenticated: 401,
@@ -33,7 +38,7 @@ export class HttpErrorFilter implements ExceptionFilter {
     if (status === 503) this.logger.warn(`${body.error.code}: ${error instanceof Error ? error.message.trim().split('\n').pop() : String(error)}`);
     else if (status >= 500) this.logger.error(error instanceof Error ? (error.stack ?? error.message) : String(error));
     if (status === 503) response.setHeader('Retry-After', '2');
-    if (status === 429) response.setHeader('Retry-After', String(Math.max(1, Math.ceil(Number(body.error.retryAfterSeconds) || 1))));
+    if (status === 429) response.setHeader('Retry-After', retryAfter(body.error.retryAfterSeconds));
     response.status(status).json(body);
   }
 

@@ -1,7 +1,7 @@
 import { ArgumentsHost, Catch, ExceptionFilter, HttpException, Logger } from '@nestjs/common';
 import type { Response } from 'express';
 import { DomainException } from '../../common/errors/domain.exception';
-import { HTTP_STATUS } from '../../common/errors/http-error.filter';
+import { HTTP_STATUS, retryAfter } from '../../common/errors/http-error.filter';
 import type { RequestWithActor } from '../identity/actor';
 import { SESSION_COOKIE } from '../auth/credentials';
 import { errorPage } from './layout.view';
@@ -29,7 +29,7 @@ export class PagesErrorFilter implements ExceptionFilter {
     if (error instanceof DomainException) {
       status = HTTP_STATUS[error.kind];
       message = error.message;
-      if (status === 429) response.setHeader('Retry-After', String(Math.max(1, Math.ceil(Number(error.details.retryAfterSeconds) || 1))));
+      if (status === 429) response.setHeader('Retry-After', retryAfter(error.details.retryAfterSeconds));
     } else if (error instanceof HttpException) {
       status = error.getStatus();
       message = status === 404 ? 'There is no such page.' : error.message;

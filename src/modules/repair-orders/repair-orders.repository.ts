@@ -35,6 +35,9 @@ export function scopeWhere(scope: OrderScope): Prisma.RepairOrderWhereInput {
 
 export type RepairOrderDetail = Prisma.RepairOrderGetPayload<{ include: typeof detailInclude }>;
 
+/** What checks on a write need of an order. */
+const HEADER = { id: true, status: true, version: true, number: true, createdAt: true } satisfies Prisma.RepairOrderSelect;
+
 const CIRCUIT_OF_ORDER = { id: true, kind: true, faultTreeId: true } satisfies Prisma.CircuitSelect;
 export type CircuitOfOrder = Prisma.CircuitGetPayload<{ select: typeof CIRCUIT_OF_ORDER }>;
 
@@ -76,14 +79,14 @@ export class RepairOrdersRepository extends PrismaRepository {
   }
 
   findHeader(scope: OrderScope, id: string, db: Db = this.prisma) {
-    return db.repairOrder.findFirst({ where: { id, ...scopeWhere(scope) }, select: { id: true, status: true, version: true, number: true, createdAt: true } });
+    return db.repairOrder.findFirst({ where: { id, ...scopeWhere(scope) }, select: HEADER });
   }
 
   /** The header and the order's circuits (what a reading may name, and which fault tree each one follows), in one query. */
   findHeaderWithCircuits(scope: OrderScope, id: string, db: Db = this.prisma) {
     return db.repairOrder.findFirst({
       where: { id, ...scopeWhere(scope) },
-      select: { id: true, status: true, version: true, number: true, createdAt: true, circuits: { select: CIRCUIT_OF_ORDER, orderBy: [{ createdAt: 'asc' }, { id: 'asc' }] } },
+      select: { ...HEADER, circuits: { select: CIRCUIT_OF_ORDER, orderBy: [{ createdAt: 'asc' }, { id: 'asc' }] } },
     });
   }
 
@@ -121,10 +124,6 @@ export class RepairOrdersRepository extends PrismaRepository {
       SELECT COALESCE(MAX(substring("number" FROM 4)::bigint), 0)::text AS n FROM "RepairOrder"
       WHERE "shopId" = ${shopId}::uuid AND "number" ~ '^RO-[0-9]{1,15}$'`;
     return Number(row?.n ?? 0);
-  }
-
-  async numberTaken(shopId: string, number: string, db: Db): Promise<boolean> {
-    return (await db.repairOrder.findUnique({ where: { shopId_number: { shopId, number } }, select: { id: true } })) !== null;
   }
 
   create(db: Db, data: Prisma.RepairOrderUncheckedCreateInput) {

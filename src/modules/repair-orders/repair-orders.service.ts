@@ -204,16 +204,12 @@ export class RepairOrdersService {
   }
 
   /**
-   * The number after the shop's highest "RO-nnnnn" (a clash with a hand-typed number is skipped). After a clash
-   * with an order opened at the same moment, each retry starts a little further on (at random), so that several
-   * openings retrying together part ways instead of clashing again; a number may then be left out.
+   * The number after the shop's highest "RO-nnnnn", hand-typed ones included. After a clash with an order opened
+   * at the same moment (the unique index refuses it, and `create` tries again), each retry starts a little further
+   * on (at random), so that several openings retrying together part ways; a number may then be left out.
    */
   private async nextNumber(shopId: string, tx: Prisma.TransactionClient, attempt = 1): Promise<string> {
-    let n = (await this.orders.highestRoNumber(shopId, tx)) + 1 + Math.floor(Math.random() * attempt);
-    for (;;) {
-      const candidate = `RO-${String(n).padStart(5, '0')}`;
-      if (!(await this.orders.numberTaken(shopId, candidate, tx))) return candidate;
-      n += 1;
-    }
+    const n = (await this.orders.highestRoNumber(shopId, tx)) + 1 + Math.floor(Math.random() * attempt);
+    return `RO-${String(n).padStart(5, '0')}`;
   }
 }

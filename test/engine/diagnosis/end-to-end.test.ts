@@ -8,19 +8,8 @@ import { drawCase } from '../../../src/engine/diagnosis/simulate';
 // spreads, every test the engine asks for is answered with the model's reading plus meter error (seeded), and the
 // engine must reach the right conclusion. Both module biases are exercised (pull-up and pull-down).
 const threeWire = builtInTrees()['three-wire-5v']!;
-const faults = [
-  'reference_open',
-  'reference_short_ground',
-  'reference_short_voltage',
-  'signal_open',
-  'signal_short_ground',
-  'signal_short_voltage',
-  'signal_short_reference',
-  'ground_open',
-  'ground_high_resistance',
-  'sensor_internal',
-  'module_internal',
-];
+// Every fault of the tree (its hypotheses but the catch-all "unknown").
+const faults = threeWire.hypotheses.map((h) => h.id).filter((id) => id !== 'unknown');
 const cases = faults.flatMap((f, i) => ['bias_pull_up', 'bias_pull_down'].map((v, j) => [f, v, 1000 + 10 * i + j] as const));
 
 describe('diagnosing simulated three-wire faults end to end', () => {
