@@ -18,13 +18,9 @@ async function main(): Promise<void> {
   const where = database.kind === 'embedded' ? `embedded database in ${config.dataDir}` : 'PostgreSQL server';
   const seeded = config.demo && (await seedDemo(database.prisma)) === 'seeded';
   if (seeded) logger.log('Seeded the invented demo shops "Kestrel Row Motor Works" and "Fennick Yard Auto Electric".', 'demo');
-  const nestListeners = new Map(SIGNALS.map((signal) => [signal, process.listeners(signal)]));
   const app = await createApp(config, database, logger);
-  // Nest's own signal handlers close the application but not the database, then re-raise the signal, so the
-  // process dies before the embedded database is closed and its lock file released. Ours do it in order.
-  for (const signal of SIGNALS) {
-    for (const listener of process.listeners(signal)) if (!nestListeners.get(signal)!.includes(listener)) process.removeListener(signal, listener);
-  }
+  // Our own signal handlers (not Nest's shutdown hooks, which close the application but not the database and then
+  // re-raise the signal): close the application, then the database, so the embedded database's lock is released.
   stopOnSignals(async () => {
     await app.close();
     await database.close();

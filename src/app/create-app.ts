@@ -64,7 +64,6 @@ export async function createApp(config: AppConfig, database: OpenDatabase, logge
   app.use('/api/proofs/verify', raw({ type: 'application/pdf', limit: '20mb' }));
   app.use(bodyErrors);
   app.disable('x-powered-by');
-  app.enableShutdownHooks();
 
   const document = SwaggerModule.createDocument(
     app,

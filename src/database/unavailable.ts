@@ -45,7 +45,7 @@ export function isDatabaseUnavailable(error: unknown): boolean {
 }
 
 /** SQLSTATE of the driver error behind a Prisma or pg error, if any. */
-function sqlState(error: unknown): string | undefined {
+export function sqlState(error: unknown): string | undefined {
   const seen = new Set<unknown>();
   const visit = (value: unknown, depth: number): string | undefined => {
     if (!value || typeof value !== 'object' || depth > 5 || seen.has(value)) return undefined;

@@ -4,7 +4,7 @@
  * fault-tree engine asks for, answered by the circuit model for that job's invented fault.
  */
 import type { Prisma, PrismaClient } from '../generated/prisma/client';
-import { builtInTrees } from '../engine/diagnosis';
+import { builtInTreeFor } from '../engine/diagnosis';
 import { checkReading } from '../engine/units';
 import { withCheckDigit } from '../engine/vin';
 import { hashPassword } from '../modules/auth/secrets';
@@ -13,8 +13,6 @@ import { diagnosisReadings, meterShows, type SimulatedReading } from './simulate
 
 const DAY = 86_400_000;
 const MINUTE = 60_000;
-const TREE_FOR = { three_wire_5v: 'three-wire-5v', two_wire_thermistor: 'two-wire-thermistor' } as const;
-
 interface DemoShopPlan {
   shop: { id: string; name: string; address: string };
   users: ReadonlyArray<{ id: string; name: string; email: string; role: 'technician' | 'foreman' | 'admin'; password: string }>;
@@ -86,7 +84,7 @@ async function seedOrder(tx: Prisma.TransactionClient, shop: { shopId: string; f
   if (!order.circuit) return;
 
   const c = order.circuit;
-  const tree = builtInTrees()[TREE_FOR[c.kind]]!;
+  const tree = builtInTreeFor(c.kind)!;
   const faultTree =
     (await tx.faultTree.findFirst({ where: { shopId: null, treeId: tree.id, version: tree.version } })) ??
     (await tx.faultTree.create({ data: { shopId: null, treeId: tree.id, version: tree.version, circuitKind: c.kind, label: tree.title, document: tree.document as object } }));

@@ -3,7 +3,7 @@
  * the invented fault, exactly as a technician at a faulted car would see it.
  */
 import { defaultCircuit, faultsFor, predictReading } from '../engine/circuit';
-import { builtInTrees, diagnose, type Reading } from '../engine/diagnosis';
+import { builtInTreeFor, diagnose, type Reading } from '../engine/diagnosis';
 import type { CircuitKind, MeasurementRequest } from '../engine/vocabulary';
 
 export interface SimulatedReading {
@@ -13,7 +13,6 @@ export interface SimulatedReading {
   unit: string;
 }
 
-const TREE_FOR: Record<CircuitKind, string> = { three_wire_5v: 'three-wire-5v', two_wire_thermistor: 'two-wire-thermistor' };
 const TYPED_UNIT = { V: 'V', ohm: 'Ω', A: 'A' } as const;
 
 /** What the meter shows on the circuit with `hypothesis` ('good' after the repair), rounded as a meter shows it. */
@@ -27,7 +26,7 @@ export function meterShows(kind: CircuitKind, hypothesis: string, request: Measu
 
 /** The readings the engine asks for, answered for `hypothesis`, until it concludes or `maxSteps` are taken. */
 export async function diagnosisReadings(kind: CircuitKind, hypothesis: string, maxSteps = 20): Promise<SimulatedReading[]> {
-  const tree = builtInTrees()[TREE_FOR[kind]]!;
+  const tree = builtInTreeFor(kind)!;
   const taken: SimulatedReading[] = [];
   const engineReadings: Reading[] = [];
   for (let step = 0; step < maxSteps; step++) {

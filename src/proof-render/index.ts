@@ -10,3 +10,4 @@ export { validateProofView, requiredCautions, inRange, type ValidationResult } f
 export { canonicalJson, proofDigest, qrPayload, sha256Hex, verifyProofDigest, QR_PREFIX, type DigestCheck } from './digest';
 export { ProofViewError, type Finding } from './findings';
 export { CAUTION_TEXT } from './sections-close';
+export { formatProbability } from './format';

@@ -1,10 +1,12 @@
+import { sqlState } from '../../database/unavailable';
+
 /** True when a Prisma error (of a model query or a raw one) is a unique-constraint violation, optionally on a given field. */
 export function isUniqueViolation(error: unknown, field?: string): boolean {
   const e = error as { code?: string; meta?: { target?: unknown; driverAdapterError?: { cause?: { constraint?: { fields?: string[] } } } }; message?: string };
-  const target = JSON.stringify(e?.meta ?? {}) + (e?.message ?? '');
   // A raw query reports PostgreSQL's own code (23505, unique_violation) and the constraint's name.
-  const raw = e?.code === 'P2010' && target.includes('23505');
+  const raw = e?.code === 'P2010' && sqlState(error) === '23505';
   if (e?.code !== 'P2002' && !raw) return false;
+  const target = JSON.stringify(e?.meta ?? {}) + (e?.message ?? '');
   if (!field) return true;
   return target.includes(field);
 }

@@ -174,6 +174,11 @@ export function builtInTrees(): Record<string, Tree> {
   return (builtIns = out);
 }
 
+/** The built-in tree made for a kind of circuit (there is one per kind), or undefined for a kind without one. */
+export function builtInTreeFor(circuitKind: string): Tree | undefined {
+  return Object.values(builtInTrees()).find((t) => t.circuitKind === circuitKind);
+}
+
 /** The raw built-in documents (for the derive script and for shops copying a tree to adapt). */
 export function builtInDocuments(): TreeDocument[] {
   return [threeWire, twoWire, sharedReference] as unknown as TreeDocument[];

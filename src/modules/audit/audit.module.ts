@@ -4,6 +4,7 @@ import { IdempotencyInterceptor } from '../idempotency/idempotency.interceptor';
 import { IdempotencyModule } from '../idempotency/idempotency.module';
 import { RateLimitsInterceptor } from '../rate-limits/rate-limits.interceptor';
 import { RateLimitsModule } from '../rate-limits/rate-limits.module';
+import { RepairOrdersModule } from '../repair-orders/repair-orders.module';
 import { AuditContextInterceptor } from './audit-context.interceptor';
 import { AuditController } from './audit.controller';
 import { AuditRepository } from './audit.repository';
@@ -15,7 +16,7 @@ import { AuditService } from './audit.service';
  * then is a request counted against its rate limit, so a tablet's retry is never throttled.
  */
 @Module({
-  imports: [IdempotencyModule, RateLimitsModule],
+  imports: [IdempotencyModule, RateLimitsModule, RepairOrdersModule],
   controllers: [AuditController],
   providers: [
     AuditRepository,

@@ -1,16 +1,9 @@
 import { Injectable } from '@nestjs/common';
 import { PrismaRepository } from '../../common/database/prisma-repository';
-import type { OrderScope } from '../identity/actor';
-import { scopeWhere } from '../repair-orders/repair-orders.repository';
 
 /** Reads the trail; nothing here writes it (database triggers do, on every table of evidence). */
 @Injectable()
 export class AuditRepository extends PrismaRepository {
-  /** The order, if the caller's scope (shop; own or assigned for a technician) reaches it. */
-  orderInScope(scope: OrderScope, repairOrderId: string) {
-    return this.prisma.repairOrder.findFirst({ where: { id: repairOrderId, ...scopeWhere(scope) }, select: { id: true } });
-  }
-
   async forRepairOrder(shopId: string, repairOrderId: string, page: number, pageSize: number) {
     const where = { repairOrderId, shopId };
     const [rows, total] = await Promise.all([

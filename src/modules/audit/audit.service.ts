@@ -2,15 +2,19 @@ import { Injectable } from '@nestjs/common';
 import { NotFoundException } from '../../common/errors/domain.exception';
 import { orderScope, type Actor } from '../identity/actor';
 import type { ListAuditEvents } from './audit.dto';
+import { RepairOrdersRepository } from '../repair-orders/repair-orders.repository';
 import { AuditRepository } from './audit.repository';
 
 @Injectable()
 export class AuditService {
-  constructor(private readonly audit: AuditRepository) {}
+  constructor(
+    private readonly audit: AuditRepository,
+    private readonly orders: RepairOrdersRepository,
+  ) {}
 
   /** The trail of one repair order of the caller's shop, oldest first; another shop's order is a 404. */
   async forRepairOrder(actor: Actor, repairOrderId: string, query: ListAuditEvents) {
-    if (!(await this.audit.orderInScope(orderScope(actor), repairOrderId))) throw new NotFoundException('repair_order', repairOrderId);
+    if (!(await this.orders.findHeader(orderScope(actor), repairOrderId))) throw new NotFoundException('repair_order', repairOrderId);
     const { rows, total } = await this.audit.forRepairOrder(actor.shopId, repairOrderId, query.page, query.pageSize);
     const userIds = [...new Set(rows.map((r) => r.userId).filter((id): id is string => id !== null))];
     const names = new Map((await this.audit.userNames(userIds)).map((u) => [u.id, u.name]));

@@ -43,11 +43,4 @@ export class AuthRepository extends PrismaRepository {
     return this.prisma.signIn.updateMany({ where: { secretHash, revokedAt: null }, data: { revokedAt: now } });
   }
 
-  revokeAllOf(userId: string, now: Date) {
-    return this.prisma.signIn.updateMany({ where: { userId, revokedAt: null }, data: { revokedAt: now } });
-  }
-
-  shopName(shopId: string) {
-    return this.prisma.shop.findUnique({ where: { id: shopId }, select: { name: true } });
-  }
 }

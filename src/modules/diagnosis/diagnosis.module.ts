@@ -1,5 +1,4 @@
 import { forwardRef, Module } from '@nestjs/common';
-import { CircuitsModule } from '../circuits/circuits.module';
 import { FaultTreesModule } from '../fault-trees/fault-trees.module';
 import { MeasurementsModule } from '../measurements/measurements.module';
 import { RepairOrdersModule } from '../repair-orders/repair-orders.module';
@@ -8,7 +7,7 @@ import { DiagnosisController } from './diagnosis.controller';
 import { DiagnosisService } from './diagnosis.service';
 
 @Module({
-  imports: [RepairOrdersModule, CircuitsModule, forwardRef(() => MeasurementsModule), RepairsModule, FaultTreesModule],
+  imports: [RepairOrdersModule, forwardRef(() => MeasurementsModule), RepairsModule, FaultTreesModule],
   controllers: [DiagnosisController],
   providers: [DiagnosisService],
   exports: [DiagnosisService],

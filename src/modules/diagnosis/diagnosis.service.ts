@@ -4,7 +4,6 @@ import type { CircuitKind } from '../../generated/prisma/client';
 import { NotFoundException } from '../../common/errors/domain.exception';
 import { diagnose, type Diagnosis, type Reading, type Repair, type Tree } from '../../engine/diagnosis';
 import { orderScope, type Actor } from '../identity/actor';
-import { CircuitsRepository } from '../circuits/circuits.repository';
 import { FaultTreeCatalog } from '../fault-trees/fault-tree-catalog.service';
 import { MeasurementsRepository, type MeasurementRow } from '../measurements/measurements.repository';
 import { requestOf } from '../measurements/measurements.view';
@@ -31,7 +30,6 @@ export class DiagnosisService {
   constructor(
     @Inject(APP_CONFIG) private readonly config: AppConfig,
     private readonly orders: RepairOrdersRepository,
-    private readonly circuits: CircuitsRepository,
     private readonly measurements: MeasurementsRepository,
     private readonly repairs: RepairsRepository,
     private readonly trees: FaultTreeCatalog,
@@ -47,9 +45,9 @@ export class DiagnosisService {
     circuitId: string,
     options: { asDiagnosed?: boolean } = {},
   ): Promise<{ tree: Tree; diagnosis: Diagnosis; readings: MeasurementRow[] }> {
-    const order = await this.orders.findHeader(orderScope(actor), repairOrderId);
+    const order = await this.orders.findHeaderWithCircuits(orderScope(actor), repairOrderId);
     if (!order) throw new NotFoundException('repair_order', repairOrderId);
-    const circuit = await this.circuits.findInOrder(repairOrderId, circuitId);
+    const circuit = order.circuits.find((c) => c.id === circuitId);
     if (!circuit) throw new NotFoundException('circuit', circuitId, 'on this repair order');
     return this.ofCircuit(actor, repairOrderId, circuit, options);
   }

@@ -1,17 +1,10 @@
 import { Injectable } from '@nestjs/common';
 import { ConflictException, DomainException, InvalidInputException, NotFoundException, type Finding } from '../../common/errors/domain.exception';
 import type { Db } from '../../common/database/database.tokens';
-import { builtInTrees, loadTree, type Tree } from '../../engine/diagnosis';
+import { builtInTreeFor, builtInTrees, loadTree, type Tree } from '../../engine/diagnosis';
 import type { CircuitKind } from '../../generated/prisma/client';
 import type { Actor } from '../identity/actor';
 import { FaultTreesRepository } from './fault-trees.repository';
-
-/** The built-in tree each kind of circuit starts with. */
-const DEFAULT_TREE: Record<CircuitKind, string> = {
-  three_wire_5v: 'three-wire-5v',
-  two_wire_thermistor: 'two-wire-thermistor',
-  shared_5v_reference: 'shared-reference',
-};
 
 function treeFindings(findings: ReadonlyArray<{ code: string; path: string; message: string; severity?: string }>, root: string): Finding[] {
   return findings
@@ -40,7 +33,8 @@ export class FaultTreeCatalog {
    * one), else the built-in tree for the kind. A tree for another kind of circuit is refused.
    */
   async bindForCircuit(actor: Actor, kind: CircuitKind, treeId: string | undefined, db: Db): Promise<{ id: string; tree: Tree }> {
-    const wanted = treeId ?? DEFAULT_TREE[kind];
+    // Without a tree named, the built-in tree made for the kind.
+    const wanted = treeId ?? builtInTreeFor(kind)?.id;
     const own = treeId ? await this.trees.latestForShop(actor.shopId, treeId, db) : null;
     if (own) {
       const stored = (await this.trees.findVisible(actor.shopId, own.id, db))!;
@@ -48,7 +42,7 @@ export class FaultTreeCatalog {
       this.requireKind(tree, kind);
       return { id: own.id, tree };
     }
-    const builtIn = builtInTrees()[wanted];
+    const builtIn = wanted === undefined ? undefined : builtInTrees()[wanted];
     if (!builtIn) {
       throw new InvalidInputException([{ code: 'fault_tree.not_found', path: 'body.treeId', message: `no fault tree "${wanted}" in this shop or built in` }]);
     }

@@ -4,10 +4,6 @@ import { PrismaRepository } from '../../common/database/prisma-repository';
 
 @Injectable()
 export class UsersRepository extends PrismaRepository {
-  findActive(id: string) {
-    return this.prisma.user.findFirst({ where: { id, active: true }, select: { id: true, shopId: true, name: true, role: true } });
-  }
-
   findInShop(shopId: string, id: string, db: Db = this.prisma) {
     return db.user.findFirst({ where: { id, shopId }, select: { id: true, name: true, role: true, active: true } });
   }

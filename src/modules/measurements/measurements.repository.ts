@@ -54,6 +54,12 @@ export class MeasurementsRepository extends PrismaRepository {
     return created;
   }
 
+  /** Whether `insertWhileStatus` can serve this request (see there), known before anything is read. */
+  canInsertAlone(): boolean {
+    const stamp = writeStamp();
+    return stamp !== undefined && !stamp.idempotencyId;
+  }
+
   /**
    * One new reading in one statement, stored only while its order still has `status` (the status the caller
    * checked it against): the order is touched and the audit trigger told who writes, as in `transaction()`, all in

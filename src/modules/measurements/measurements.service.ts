@@ -97,16 +97,14 @@ export class MeasurementsService {
   }
 
   private async retryWithReplays(actor: Actor, repairOrderId: string, inputs: MeasurementInput[], batch: boolean, at: (i: number, field: string) => string) {
-    try {
-      return await this.store(actor, repairOrderId, inputs, batch, at, true);
-    } catch (error) {
-      if (!isUniqueViolation(error, 'clientKey')) throw this.mapped(error);
-    }
-    // Stored by a concurrent request between our look and our insert: that copy is there now to replay.
-    try {
-      return await this.store(actor, repairOrderId, inputs, batch, at, true);
-    } catch (error) {
-      throw this.mapped(error);
+    for (let attempt = 1; ; attempt++) {
+      try {
+        return await this.store(actor, repairOrderId, inputs, batch, at, true);
+      } catch (error) {
+        // Stored by a concurrent request between our look and our insert: that copy is there now to replay.
+        if (attempt === 1 && isUniqueViolation(error, 'clientKey')) continue;
+        throw this.mapped(error);
+      }
     }
   }
 
@@ -125,7 +123,7 @@ export class MeasurementsService {
    */
   private async storeAlone(actor: Actor, repairOrderId: string, inputs: MeasurementInput[], batch: boolean, at: (i: number, field: string) => string) {
     const m = inputs[0]!;
-    if (batch || m.supersedes) return undefined;
+    if (batch || m.supersedes || !this.measurements.canInsertAlone()) return undefined;
     const order = await this.orders.findHeaderWithCircuits(orderScope(actor), repairOrderId);
     if (!order) throw new NotFoundException('repair_order', repairOrderId);
     // The first reading moves an open order to diagnosing, which `store` records.
@@ -178,12 +176,14 @@ export class MeasurementsService {
   }
 
   private requireDistinctKeys(inputs: MeasurementInput[], at: (i: number, field: string) => string): void {
-    const keys = inputs.flatMap((m) => (m.clientKey ? [m.clientKey] : []));
+    const seen = new Set<string>();
     const findings: Finding[] = [];
     inputs.forEach((m, i) => {
-      if (m.clientKey && keys.indexOf(m.clientKey) !== inputs.filter((x) => x.clientKey).indexOf(m)) {
+      if (!m.clientKey) return;
+      if (seen.has(m.clientKey)) {
         findings.push({ code: 'measurement.client_key_twice', path: at(i, 'clientKey'), message: 'the batch uses this key for two readings; each reading needs its own key' });
       }
+      seen.add(m.clientKey);
     });
     if (findings.length) throw new InvalidInputException(findings);
   }

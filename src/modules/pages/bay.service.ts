@@ -3,6 +3,7 @@ import { NotFoundException } from '../../common/errors/domain.exception';
 import { requestKey, type Caution, type Diagnosis, type Tree } from '../../engine/diagnosis';
 import type { MeasurementRequest } from '../../engine/vocabulary';
 import { DiagnosisService } from '../diagnosis/diagnosis.service';
+import { diagnosisView } from '../diagnosis/diagnosis.view';
 import type { Actor } from '../identity/actor';
 import type { MeasurementRow } from '../measurements/measurements.repository';
 import { requestOf } from '../measurements/measurements.view';
@@ -86,22 +87,23 @@ export class BayService {
 
   async order(actor: Actor, id: string) {
     const order = await this.orders.get(actor, id);
-    const circuits: CircuitDiagnosis[] = [];
-    for (const c of order.circuits) circuits.push(await this.circuit(actor, order, c.id));
     const [repairs, reviews] = await Promise.all([this.repairs.list(actor, id), this.reviews.list(actor, id)]);
+    const circuits: CircuitDiagnosis[] = [];
+    for (const c of order.circuits) circuits.push(await this.circuit(actor, order, c.id, repairs.items));
     return { order, circuits, repairs: repairs.items, reviews };
   }
 
-  async circuit(actor: Actor, order: OrderDetail, circuitId: string): Promise<CircuitDiagnosis> {
+  /** `repairs`: the order's repairs when the caller has them already. */
+  async circuit(actor: Actor, order: OrderDetail, circuitId: string, repairs?: ReadonlyArray<{ circuitId: string | null }>): Promise<CircuitDiagnosis> {
     const found = order.circuits.find((c) => c.id === circuitId);
     if (!found) throw new NotFoundException('circuit', circuitId);
     const circuit: CircuitItem = { ...found, cavities: (found.cavities ?? {}) as Record<string, string> };
     const { tree, diagnosis, readings } = await this.diagnoses.forCircuit(actor, order.id, circuitId);
-    const repaired = (await this.repairs.list(actor, order.id)).items.some((r) => r.circuitId === null || r.circuitId === circuitId);
+    const repaired = (repairs ?? (await this.repairs.list(actor, order.id)).items).some((r) => r.circuitId === null || r.circuitId === circuitId);
     const atRepair = repaired ? (await this.diagnoses.forCircuit(actor, order.id, circuitId, { asDiagnosed: true })).diagnosis : null;
     return {
       circuit,
-      diagnosis: { tree: { id: tree.id, version: tree.version, title: tree.title }, ...diagnosis },
+      diagnosis: diagnosisView(tree, diagnosis),
       readings,
       atRepair,
       verification: verificationItems(diagnosis, readings),

@@ -97,7 +97,7 @@ export class BoardService {
       const diagnoses: Diagnosis[] = [];
       // Once repaired, the cause found before the repair is what the board shows (the live one restarts for the part).
       const asDiagnosed = order.status === 'repaired' || order.status === 'verified';
-      for (const c of order.circuits) diagnoses.push((await this.diagnoses.forCircuit(actor, order.id, c.id, { asDiagnosed })).diagnosis);
+      for (const c of order.circuits) diagnoses.push((await this.diagnoses.ofCircuit(actor, order.id, c, { asDiagnosed })).diagnosis);
       const circuits = order.circuits.map((c, i) => {
         const d = diagnoses[i]!;
         return {

@@ -14,7 +14,7 @@ const boardSelect = {
   updatedAt: true,
   vehicle: { select: { year: true, make: true, model: true, vin: true } },
   technician: { select: { id: true, name: true } },
-  circuits: { select: { id: true, label: true, sensor: true, kind: true }, orderBy: [{ createdAt: 'asc' }, { id: 'asc' }] },
+  circuits: { select: { id: true, label: true, sensor: true, kind: true, faultTreeId: true }, orderBy: [{ createdAt: 'asc' }, { id: 'asc' }] },
 } satisfies Prisma.RepairOrderSelect;
 
 export type BoardOrderRow = Prisma.RepairOrderGetPayload<{ select: typeof boardSelect }>;

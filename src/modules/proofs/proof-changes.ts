@@ -2,7 +2,7 @@
  * What changed between the evidence a proof stated and the repair order's evidence now, in plain words: the
  * answer a warranty administrator needs when a document no longer matches.
  */
-import type { ProofView } from '../../proof-render';
+import { formatProbability, type ProofView } from '../../proof-render';
 
 export interface ProofChange {
   code: string;
@@ -52,7 +52,7 @@ const repairs: Diff = (then, now) =>
 const rootCause: Diff = (then, now) =>
   then.rootCause?.code === now.rootCause?.code && then.rootCause?.probability === now.rootCause?.probability
     ? []
-    : [{ code: 'root_cause.changed', message: `Root cause now: ${now.rootCause ? `${now.rootCause.label} (${(now.rootCause.probability * 100).toFixed(1)} %)` : 'not established'}.` }];
+    : [{ code: 'root_cause.changed', message: `Root cause now: ${now.rootCause ? `${now.rootCause.label} (${formatProbability(now.rootCause.probability)})` : 'not established'}.` }];
 
 const story: Diff = (then, now) =>
   (['complaint', 'cause', 'correction'] as const)

@@ -58,7 +58,7 @@ export class ProofsService {
       this.proofs.foremanName(actor.shopId),
       Promise.all(
         order.circuits.map(async (c) => {
-          const { tree, diagnosis, readings } = await this.diagnosis.forCircuit(actor, repairOrderId, c.id, { asDiagnosed: true });
+          const { tree, diagnosis, readings } = await this.diagnosis.ofCircuit(actor, repairOrderId, c, { asDiagnosed: true });
           return { id: c.id, label: c.label, kind: c.kind, tree, diagnosis, readings };
         }),
       ),
