@@ -10,6 +10,7 @@ import { AppLogger } from '../common/logging/app-logger';
 import { requestContext } from '../common/logging/request-context';
 import { currentRequestId } from '../common/logging/request-context';
 import { AppModule } from './app.module';
+import { noStoreOnApi } from './cache-control';
 
 /** Body-parser failures (bad JSON, too large) answered in the same shape as every other error. */
 function bodyErrors(error: { type?: string; status?: number }, _req: Request, res: Response, next: NextFunction): void {
@@ -59,6 +60,7 @@ export async function createApp(config: AppConfig, database: OpenDatabase, logge
   app.use(requestContext((line) => logger.log(line, 'http')));
   if (config.trustProxy) app.set('trust proxy', 1);
   app.use(securityHeaders(config));
+  app.use(noStoreOnApi);
   app.use(json({ limit: config.bodyLimit, strict: false }));
   // A proof PDF posted for checking comes as it is.
   app.use('/api/proofs/verify', raw({ type: 'application/pdf', limit: '20mb' }));
