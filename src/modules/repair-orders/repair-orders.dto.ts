@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { checkVin } from '../../engine/vin';
+import { TypedOrderNumber } from '../order-numbering/order-numbering.dto';
 import { IsoTime, optionalText, Paging, text, TroubleCodes } from '../../common/validation/domain-schemas';
 
 const STATUSES = ['open', 'diagnosing', 'repaired', 'verified', 'closed'] as const;
@@ -27,11 +28,7 @@ export const NewVehicle = z
 
 export const CreateRepairOrder = z
   .strictObject({
-    number: text(32)
-      .regex(/^[A-Za-z0-9][A-Za-z0-9-/]*$/, 'letters, digits, "-" and "/" only')
-      .transform((n) => n.toUpperCase())
-      .optional()
-      .describe('the shop’s number, stored upper-case; by default the next RO-nnnnn'),
+    number: TypedOrderNumber.optional().describe('the shop’s number, stored upper-case; by default the next automatic one (see /api/shop/order-numbering)'),
     vehicleId: z.uuid().optional(),
     vehicle: NewVehicle.optional(),
     complaint: text(4000),
