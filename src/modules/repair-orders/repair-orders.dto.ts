@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { checkVin } from '../../engine/vin';
 import { TypedOrderNumber } from '../order-numbering/order-numbering.dto';
-import { IsoTime, optionalText, Paging, text, TroubleCodes } from '../../common/validation/domain-schemas';
+import { IsoTime, lineText, optionalLineText, optionalText, Paging, text, TroubleCodes } from '../../common/validation/domain-schemas';
 
 const STATUSES = ['open', 'diagnosing', 'repaired', 'verified', 'closed'] as const;
 export const StatusEnum = z.enum(STATUSES);
@@ -13,9 +13,9 @@ export const NewVehicle = z
     vin: z.string().max(40, 'a VIN is 17 characters'),
     builtOutsideNorthAmerica: z.boolean().default(false),
     year: z.number().int().min(1981, 'a 17-character VIN means model year 1981 or later').max(thisYear + 2),
-    make: text(60),
-    model: text(60),
-    engine: optionalText(80).default(''),
+    make: lineText(60),
+    model: lineText(60),
+    engine: optionalLineText(80).default(''),
     odometer: z.number().int().min(0).max(3_000_000),
     odometerUnit: z.enum(['mi', 'km']).default('mi'),
   })
@@ -70,7 +70,7 @@ export const ListRepairOrders = z.strictObject({
     .optional(),
   technicianId: z.uuid().optional(),
   changedSince: IsoTime.optional(),
-  q: optionalText(60).optional(),
+  q: optionalLineText(60).optional(),
   ...Paging,
 });
 export type ListRepairOrders = z.output<typeof ListRepairOrders>;
