@@ -98,3 +98,12 @@ describe('the planning budget of a diagnosis', () => {
     }
   });
 });
+
+describe('the limits as documented', () => {
+  it('are the numbers the README’s limits table gives', async () => {
+    const { readFileSync } = await import('node:fs');
+    const readme = readFileSync(new URL('../../../README.md', import.meta.url), 'utf8');
+    const rows = Object.fromEntries([...readme.matchAll(/^\| `(\w+)` \| (\d+) \| [^|]+ \|$/gm)].map((m) => [m[1], Number(m[2])]));
+    for (const [name, limit] of Object.entries(TREE_LIMITS)) expect(rows[name], name).toBe(limit.max);
+  });
+});
