@@ -1,6 +1,8 @@
 // Fault-tree size limits and the planning budget: a tree too large for the next-test search is refused on load
 // with a finding naming the limit, however it is malformed (even nested 50 000 levels deep), and a diagnosis that
 // runs out of planning time still answers, with a cheaper choice that says so.
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { builtInDocuments, builtInTrees, diagnose, loadTree, TREE_LIMITS, type Tree } from '../../../src/engine/diagnosis';
 import { searchCost } from '../../../src/engine/diagnosis/tree-limits';
@@ -100,9 +102,8 @@ describe('the planning budget of a diagnosis', () => {
 });
 
 describe('the limits as documented', () => {
-  it('are the numbers the README’s limits table gives', async () => {
-    const { readFileSync } = await import('node:fs');
-    const readme = readFileSync(new URL('../../../README.md', import.meta.url), 'utf8');
+  it('are the numbers the README’s limits table gives', () => {
+    const readme = readFileSync(join(__dirname, '..', '..', '..', 'README.md'), 'utf8');
     const rows = Object.fromEntries([...readme.matchAll(/^\| `(\w+)` \| (\d+) \| [^|]+ \|$/gm)].map((m) => [m[1], Number(m[2])]));
     for (const [name, limit] of Object.entries(TREE_LIMITS)) expect(rows[name], name).toBe(limit.max);
   });
