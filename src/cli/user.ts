@@ -1,6 +1,7 @@
 // `npm run user -- create-admin --shop "Name" --email x --name y`: creates the first admin (and their shop) on a
 // new install. The password comes from stdin (piped) or is asked for twice at the terminal, never from the
 // command line (it would stay in the shell history and the process list).
+import { textProblem } from '../engine/text';
 import { createInterface } from 'node:readline';
 import { ConfigError, loadConfig } from '../config/config';
 import { DatabaseError, openDatabase } from '../database';
@@ -23,6 +24,11 @@ function parseArgs(argv: string[]): { command: string; options: Record<string, s
     options[key.slice(2)] = value.trim();
   }
   for (const required of ['shop', 'email', 'name']) if (!options[required]) throw new UsageError(`--${required} is required`);
+  for (const key of ['shop', 'name'] as const) {
+    options[key] = options[key]!.normalize('NFC');
+    const problem = textProblem(options[key]!, 'name');
+    if (problem) throw new UsageError(`--${key}: ${problem}`);
+  }
   if (!/^[^\s@]+@[^\s@]+\.[^\s@]+$/.test(options.email!)) throw new UsageError(`--email: expected an email address, got "${options.email}"`);
   options.email = options.email!.toLowerCase();
   return { command, options };

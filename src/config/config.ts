@@ -35,6 +35,9 @@ const EnvSchema = z.object({
   /** How long a stored idempotent response is kept, and how long a duplicate waits for the first to finish. */
   TRACEBAY_IDEMPOTENCY_HOURS: z.coerce.number().gt(0).max(720).default(24),
   TRACEBAY_IDEMPOTENCY_WAIT_MS: z.coerce.number().int().min(0).max(60_000).default(5000),
+  /** Compiled shop fault trees kept in memory: at most this many, and about this many megabytes. */
+  TRACEBAY_TREE_CACHE_TREES: z.coerce.number().int().min(1).max(10_000).default(64),
+  TRACEBAY_TREE_CACHE_MB: z.coerce.number().gt(0).max(4096).default(64),
   LOG_LEVEL: z.enum(['error', 'warn', 'log', 'debug', 'verbose']).default('log'),
 });
 
@@ -67,6 +70,8 @@ export interface AppConfig {
     readonly signInWindowSeconds: number;
   };
   readonly idempotency: { readonly keepHours: number; readonly waitMs: number };
+  /** Bounds of the compiled fault-tree cache. */
+  readonly treeCache: { readonly maxTrees: number; readonly maxBytes: number };
   readonly logLevel: 'error' | 'warn' | 'log' | 'debug' | 'verbose';
 }
 
@@ -107,6 +112,7 @@ export function loadConfig(env: Record<string, string | undefined>, projectRoot 
       signInWindowSeconds: e.TRACEBAY_SIGN_IN_WINDOW_SECONDS,
     }),
     idempotency: Object.freeze({ keepHours: e.TRACEBAY_IDEMPOTENCY_HOURS, waitMs: e.TRACEBAY_IDEMPOTENCY_WAIT_MS }),
+    treeCache: Object.freeze({ maxTrees: e.TRACEBAY_TREE_CACHE_TREES, maxBytes: Math.round(e.TRACEBAY_TREE_CACHE_MB * 1024 * 1024) }),
     logLevel: e.LOG_LEVEL,
   });
 }

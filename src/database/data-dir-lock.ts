@@ -20,6 +20,9 @@ export interface DataDirLock {
   release(): void;
 }
 
+/** Tokens of the locks this process holds now: a lock naming our own pid with another token is a previous run's. */
+const heldTokens = new Set<string>();
+
 export function lockDataDir(dataDir: string): DataDirLock {
   const path = join(dataDir, DATA_DIR_LOCK_FILE);
   const mine: LockContent = { pid: process.pid, hostname: hostname(), token: randomUUID(), since: new Date().toISOString() };
@@ -77,6 +80,9 @@ function readLock(path: string): LockContent | 'missing' | 'unreadable' {
 function isAlive(holder: LockContent): boolean {
   // A pid on another machine (shared folder) cannot be checked: assume it is alive.
   if (holder.hostname !== hostname()) return true;
+  // Our own pid: held by us now, or left by an earlier run that had the same pid (a container restarted with node
+  // as process 1 always has pid 1).
+  if (holder.pid === process.pid) return heldTokens.has(holder.token);
   try {
     process.kill(holder.pid, 0);
     return true;
@@ -113,9 +119,11 @@ function takeOverStale(path: string, dataDir: string): void {
 
 function holdLock(path: string, mine: LockContent): DataDirLock {
   let released = false;
+  heldTokens.add(mine.token);
   const release = (): void => {
     if (released) return;
     released = true;
+    heldTokens.delete(mine.token);
     process.removeListener('exit', release);
     const current = readLock(path);
     if (current !== 'missing' && current !== 'unreadable' && current.token === mine.token) {

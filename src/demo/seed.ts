@@ -51,9 +51,17 @@ export async function seedDemo(prisma: PrismaClient, now = new Date()): Promise<
       }
       const shop = { shopId: plan.shop.id, foreman: plan.foreman };
       for (const { order, readings } of plan.jobs) await seedOrder(tx, shop, order, readings, vehicleIds.get(order.vehicle)!, now);
+      await tx.orderNumbering.create({ data: { shopId: plan.shop.id, ...demoNumbering(plan.orders) } });
     }
   });
   return 'seeded';
+}
+
+/** New orders continue the demo's own numbers: its prefix and width, after its highest number. */
+export function demoNumbering(orders: ReadonlyArray<{ number: string }>): { prefix: string; width: number; next: bigint } {
+  const parts = orders.map((o) => /^(.*?)(\d+)$/.exec(o.number)!);
+  const highest = parts.reduce((a, b) => (Number(b[2]) > Number(a[2]) ? b : a));
+  return { prefix: highest[1]!, width: highest[2]!.length, next: BigInt(Number(highest[2]) + 1) };
 }
 
 async function seedOrder(tx: Prisma.TransactionClient, shop: { shopId: string; foreman: string }, order: DemoOrder, readings: SimulatedReading[], vehicleId: string, now: Date): Promise<void> {

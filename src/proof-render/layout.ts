@@ -3,6 +3,7 @@
  * page margins are zero and every text call is a single line with `lineBreak: false`, so pdfkit never breaks a page
  * on its own and nothing can run into the footer: the only way onto a new page is `Flow.newPage`.
  */
+import { showInvisible } from '../engine/text';
 import type PDFDocument from 'pdfkit';
 import { COLOR, MARGIN, SIZE, fonts, type FontKey } from './theme';
 
@@ -86,6 +87,8 @@ export class Flow {
    * than the line is cut between characters. Explicit newlines are kept.
    */
   wrap(text: string, font: FontKey, size: number, width: number): string[] {
+    // Direction controls and zero-width characters are printed as marks: they must not reorder or hide what is read.
+    text = showInvisible(text);
     const limit = width - 0.5;
     const space = this.measureWord(' ', font, size);
     const lines: string[] = [];
@@ -176,7 +179,8 @@ export class Flow {
   }
 
   /** Text on one line in the footer area (below `bottom`), which flow content never reaches. */
-  footerText(text: string, x: number, y: number, align: 'left' | 'right', font: FontKey = 'sans'): void {
+  footerText(shown: string, x: number, y: number, align: 'left' | 'right', font: FontKey = 'sans'): void {
+    const text = showInvisible(shown);
     this.doc.font(fonts()[font]).fontSize(SIZE.footer).fillColor(COLOR.muted);
     const w = this.doc.widthOfString(text);
     this.doc.text(text, align === 'left' ? x : x - w, y, { lineBreak: false });

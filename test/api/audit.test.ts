@@ -26,10 +26,22 @@ describe.each(BACKENDS)('audit trail on the %s database', (backend) => {
   let correctionId: string;
   let trail: AuditItem[];
   const started = Date.now();
+  /** The client's X-Request-Id of each request → the server's own id answered for it (the one the trail keeps). */
+  const serverIds = new Map<string, string>();
 
   beforeAll(async () => {
     api = await startApi(backend);
     const as = (user: string, requestId: string) => ({ user, headers: { ...TABLET, 'x-request-id': requestId } });
+    const call = api.call.bind(api);
+    api = {
+      ...api,
+      async call(method, path, options) {
+        const res = await call(method, path, options);
+        const theirs = options?.headers?.['x-request-id'];
+        if (theirs) serverIds.set(theirs, res.headers.get('x-request-id')!);
+        return res;
+      },
+    } as TestApi;
     const ro = await api.call('POST', '/api/repair-orders', {
       ...as(FOREMAN_A, 'req-open-ro'),
       body: { vehicle: newVehicle(), complaint: 'P0122 set', codes: ['P0122'], technicianId: TECH_A },
@@ -63,7 +75,8 @@ describe.each(BACKENDS)('audit trail on the %s database', (backend) => {
   });
   afterAll(async () => api?.close());
 
-  const one = (requestId: string, action: string) => {
+  const one = (clientRequestId: string, action: string) => {
+    const requestId = serverIds.get(clientRequestId);
     const found = trail.filter((e) => e.client.requestId === requestId && e.action === action);
     expect(found, `${action} of ${requestId} in ${JSON.stringify(trail.map((e) => [e.client.requestId, e.action]))}`).toHaveLength(1);
     return found[0]!;
@@ -79,10 +92,10 @@ describe.each(BACKENDS)('audit trail on the %s database', (backend) => {
     ['a change of the repair order', 'req-patch', 'repair_order.updated', FOREMAN_A],
     ['a repair', 'req-repair', 'repair.created', TECH_A],
     ['a review', 'req-review', 'review.created', FOREMAN_A],
-  ])('records %s (%s → %s) with who did it and from which client', (_what, requestId, action, user) => {
-    const event = one(requestId, action);
+  ])('records %s (%s → %s) with who did it and from which client', (_what, clientRequestId, action, user) => {
+    const event = one(clientRequestId, action);
     expect(event.by).toMatchObject({ id: user });
-    expect(event.client).toMatchObject({ userAgent: TABLET['user-agent'], clientId: TABLET['x-tracebay-client'], requestId });
+    expect(event.client).toMatchObject({ userAgent: TABLET['user-agent'], clientId: TABLET['x-tracebay-client'], requestId: serverIds.get(clientRequestId) });
     // Loopback, as IPv4 or IPv4-mapped IPv6 (RFC 4291 §2.5.5.2).
     expect(event.client.ip).toMatch(/^(::ffff:)?127\.0\.0\.1$/);
     expect(Date.parse(event.at)).toBeGreaterThanOrEqual(started - 5_000);
@@ -106,7 +119,7 @@ describe.each(BACKENDS)('audit trail on the %s database', (backend) => {
   });
 
   it('does not record a read, nor the bookkeeping touch a new reading makes on its repair order', () => {
-    expect(trail.filter((e) => e.client.requestId === 'req-reading').map((e) => e.action)).toEqual(['measurement.created']);
+    expect(trail.filter((e) => e.client.requestId === serverIds.get('req-reading')).map((e) => e.action)).toEqual(['measurement.created']);
     expect(trail.every((e) => e.action !== 'repair_order.updated' || e.changes !== null)).toBe(true);
   });
 
@@ -160,6 +173,21 @@ describe.each(BACKENDS)('audit trail on the %s database', (backend) => {
     expect(events[0]).toMatchObject({ entityType: 'sign_in', userId: TECH_A, repairOrderId: null });
     expect(events[0]!.shopId).toBe((await api.db.prisma.user.findUniqueOrThrow({ where: { id: TECH_A } })).shopId);
     expect(Object.keys(events[0]!.row as object)).not.toContain('secretHash');
+  });
+
+  it('keeps the server’s own request id, never one a client chose (a client cannot write another’s id into the trail)', async () => {
+    const ids = trail.map((e) => e.client.requestId);
+    expect(ids.every((id) => typeof id === 'string' && /^[0-9a-f]{8}-[0-9a-f]{4}-4[0-9a-f]{3}-[89ab][0-9a-f]{3}-[0-9a-f]{12}$/.test(id))).toBe(true);
+    expect(ids.filter((id) => id!.startsWith('req-'))).toEqual([]);
+    // Someone sending the id of an earlier request gets a trail entry under a new id of the server's.
+    const victim = serverIds.get('req-patch')!;
+    const version = (await api.call('GET', `/api/repair-orders/${roId}`, { user: FOREMAN_A })).body.version;
+    const res = await api.call('PATCH', `/api/repair-orders/${roId}`, { user: FOREMAN_A, headers: { 'x-request-id': victim }, body: { version, complaint: 'P0122 set, stalls hot' } });
+    expect(res.status).toBe(200);
+    expect(res.headers.get('x-request-id')).not.toBe(victim);
+    expect(res.headers.get('x-client-request-id')).toBe(victim);
+    expect(await api.db.prisma.auditEvent.count({ where: { requestId: victim, repairOrderId: roId } })).toBe(1);
+    expect(await api.db.prisma.auditEvent.count({ where: { requestId: res.headers.get('x-request-id')!, action: 'repair_order.updated' } })).toBe(1);
   });
 
   if (backend === 'postgresql') {

@@ -57,7 +57,8 @@ describe.each(BACKENDS)('shop isolation on every route on the %s database', (bac
 
   beforeAll(async () => {
     api = await startApi(backend);
-    const ro = await api.call('POST', '/api/repair-orders', { user: FOREMAN_A, body: { vehicle: newVehicle(), complaint: MARKER, technicianId: TECH_A } });
+    // A number of its own: each shop's automatic numbers start alike, so shop B's next number may read like A's first.
+    const ro = await api.call('POST', '/api/repair-orders', { user: FOREMAN_A, body: { number: 'A-77031', vehicle: newVehicle(), complaint: MARKER, technicianId: TECH_A } });
     expect(ro.status).toBe(201);
     const circuit = await api.call('POST', `/api/repair-orders/${ro.body.id}/circuits`, {
       user: TECH_A,

@@ -73,9 +73,12 @@ describe.each(BACKENDS)('random and malformed input on the %s database', (backen
     expect(await api.db.prisma.repairOrder.count()).toBe(before);
   });
 
-  it('gives every response a request id and echoes a sane one sent by the client', async () => {
+  it('gives every response the server’s own request id and keeps a sane one sent by the client beside it', async () => {
     const res = await api.call('GET', '/api/health', { headers: { 'x-request-id': 'tablet-7-000123' } });
-    expect(res.headers.get('x-request-id')).toBe('tablet-7-000123');
+    expect(res.headers.get('x-request-id')).toMatch(/^[0-9a-f-]{36}$/);
+    expect(res.headers.get('x-client-request-id')).toBe('tablet-7-000123');
+    const insane = await api.call('GET', '/api/health', { headers: { 'x-request-id': 'a b<c>' } });
+    expect(insane.headers.get('x-client-request-id')).toBeNull();
     const bad = await api.call('GET', '/api/nope', { user: TECH_A });
     expect(bad.status).toBe(404);
     expect(bad.body.error.requestId).toMatch(/[0-9a-f-]{36}/);

@@ -18,8 +18,8 @@ afterEach(() => {
   dirs.splice(0).forEach((d) => rmSync(d, { recursive: true, force: true }));
 });
 
-const writeLock = (dir: string, pid: number, host = hostname()) =>
-  writeFileSync(join(dir, DATA_DIR_LOCK_FILE), JSON.stringify({ pid, hostname: host, token: 'other', since: '2026-01-01T00:00:00.000Z' }));
+const writeLock = (dir: string, pid: number, host = hostname(), token = 'other') =>
+  writeFileSync(join(dir, DATA_DIR_LOCK_FILE), JSON.stringify({ pid, hostname: host, token, since: '2026-01-01T00:00:00.000Z' }));
 
 /** A process that is alive while the test runs. */
 function liveProcess(): number {
@@ -69,6 +69,8 @@ describe('the data folder lock file', () => {
   it.each([
     ['a pid that has exited', async (dir: string) => writeLock(dir, await deadPid())],
     ['an empty file', async (dir: string) => writeFileSync(join(dir, DATA_DIR_LOCK_FILE), '')],
+    // A container restarted with node as process 1: the stale lock names the pid this process has now.
+    ['an earlier run with this process’s own pid', async (dir: string) => writeLock(dir, process.pid, hostname(), 'earlier-run')],
   ])('takes over a stale lock left by %s', async (_label, leave) => {
     const dir = dataDir();
     await leave(dir);

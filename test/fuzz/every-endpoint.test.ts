@@ -12,6 +12,7 @@ import { startApi, type TestApi } from '../support/http';
 import { diagnoseToEnd, simulatedReading } from '../support/simulate';
 import { readPdf } from '../proof-render/pdf-tools';
 import type { MeasurementRequest } from '../../src/engine/vocabulary';
+import { textProblem } from '../../src/engine/text';
 import { broken, hostileString, HOSTILE_TEXT, malformedJson, validish, type JsonSchema, type Known } from './schema-arbitrary';
 
 const TOTAL_REQUESTS = 10_500;
@@ -196,10 +197,10 @@ describe('every documented endpoint under generated input (PostgreSQL)', () => {
     if (!(res.headers.get('content-type') ?? '').includes('application/json')) return undefined;
     const body = safeParse(text);
     if (body === undefined) return `${label} answered ${res.status} with broken JSON`;
-    // Accepted free text comes back exactly as stored (trimmed), never altered or interpreted.
+    // Accepted free text comes back exactly as stored (in Unicode NFC, trimmed), never altered or interpreted.
     if (req.sentBody && typeof req.sentBody === 'object' && res.status === 201) {
       for (const [key, value] of Object.entries(req.sentBody as Record<string, unknown>)) {
-        if (FREE_TEXT.has(key) && typeof value === 'string' && typeof body[key] === 'string' && body[key] !== value.trim()) {
+        if (FREE_TEXT.has(key) && typeof value === 'string' && typeof body[key] === 'string' && body[key] !== value.normalize('NFC').trim()) {
           return `${label}: ${key} sent ${JSON.stringify(value)} came back ${JSON.stringify(body[key])}`;
         }
       }
@@ -220,9 +221,12 @@ describe('every documented endpoint under generated input (PostgreSQL)', () => {
   });
 
   it('gives hostile text back exactly as sent in JSON (repair order, circuit, reading note)', async () => {
-    const printable = hostileString.filter((s) => s.trim().length > 0 && !/[\u0000-\u0008\u000B\u000C\u000E-\u001F\u007F]/.test(s));
+    // What each field accepts (engine/text.ts): free text keeps line breaks and direction controls, a label is one line.
+    const accepted = (kind: 'line' | 'multiline') => hostileString.filter((s) => s.normalize('NFC').trim().length > 0 && textProblem(s.normalize('NFC').trim(), kind) === undefined);
+    const printable = accepted('multiline');
+    const stored = (s: string) => s.normalize('NFC').trim();
     await fc.assert(
-      fc.asyncProperty(printable, printable, printable, async (complaint, label, note) => {
+      fc.asyncProperty(printable, accepted('line'), printable, async (complaint, label, note) => {
         const ro = await api.call('POST', '/api/repair-orders', { user: FOREMAN_A, body: { vehicle: newVehicle(), complaint, technicianId: TECH_A } });
         expect(ro.status, JSON.stringify(ro.body)).toBe(201);
         const circuit = await api.call('POST', `/api/repair-orders/${ro.body.id}/circuits`, { user: TECH_A, body: { kind: 'three_wire_5v', sensor: 'MAP', label } });
@@ -232,9 +236,9 @@ describe('every documented endpoint under generated input (PostgreSQL)', () => {
           body: { circuitId: circuit.body.id, quantity: 'dc_volts', at: 'reference', against: 'ground', location: 'sensor_connector', connector: 'backprobed', key: 'on', engine: 'off', value: 5, unit: 'V', note },
         });
         expect(reading.status, JSON.stringify(reading.body)).toBe(201);
-        expect((await api.call('GET', `/api/repair-orders/${ro.body.id}`, { user: TECH_A })).body.complaint).toBe(complaint.trim());
-        expect((await api.call('GET', `/api/repair-orders/${ro.body.id}/circuits`, { user: TECH_A })).body.items[0].label).toBe(label.trim());
-        expect((await api.call('GET', `/api/repair-orders/${ro.body.id}/measurements`, { user: TECH_A })).body.items[0].note).toBe(note.trim());
+        expect((await api.call('GET', `/api/repair-orders/${ro.body.id}`, { user: TECH_A })).body.complaint).toBe(stored(complaint));
+        expect((await api.call('GET', `/api/repair-orders/${ro.body.id}/circuits`, { user: TECH_A })).body.items[0].label).toBe(stored(label));
+        expect((await api.call('GET', `/api/repair-orders/${ro.body.id}/measurements`, { user: TECH_A })).body.items[0].note).toBe(stored(note));
       }),
       { numRuns: 40, seed: SEED },
     );

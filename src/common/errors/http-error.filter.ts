@@ -61,8 +61,8 @@ export class HttpErrorFilter implements ExceptionFilter {
       return [503, { error: { code: 'database.unavailable', message: 'The database is not reachable; try again shortly.' } }];
     }
     if (isDataRejected(error)) {
-      // Validation should have refused it: logged as an error so that the gap gets closed.
-      this.logger.error(`Input refused by the database, not by validation: ${error instanceof Error ? error.message.trim().split('\n').pop() : String(error)}`);
+      // Bad input, not a fault of ours: a warning (validation should still refuse it first).
+      this.logger.warn(`Input refused by the database, not by validation: ${error instanceof Error ? error.message.trim().split('\n').pop() : String(error)}`);
       return [400, { error: { code: 'input.not_storable', message: 'A value in the request cannot be stored (for example a NUL character in text, or a number out of range).' } }];
     }
     return [500, { error: { code: 'internal', message: 'Something went wrong on our side; the request id identifies it in the log.' } }];

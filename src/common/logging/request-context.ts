@@ -11,7 +11,10 @@ export interface RequestClient {
 }
 
 interface RequestContext {
+  /** Always the server's own: the audit trail stores it, so a client cannot write someone else's id there. */
   requestId: string;
+  /** The client's `X-Request-Id` when sane, logged beside ours to join the two logs; never stored as the id. */
+  clientRequestId?: string;
   client?: RequestClient;
   /** Set once the caller is known (after authentication). */
   actor?: { userId: string; shopId: string };
@@ -44,15 +47,22 @@ export function setContextIdempotency(id: string | undefined): void {
 const INCOMING_ID = /^[A-Za-z0-9._-]{1,64}$/;
 export const CLIENT_ID_HEADER = 'x-tracebay-client';
 
+export function currentClientRequestId(): string | undefined {
+  return storage.getStore()?.clientRequestId;
+}
+
 /**
- * Express middleware: gives every request an id (the client's `X-Request-Id` when it is sane), echoes it
- * back, and logs one line per request when the response ends.
+ * Express middleware: gives every request the server's own id (answered in `X-Request-Id`), keeps the client's
+ * `X-Request-Id` beside it when sane (answered in `X-Client-Request-Id`), and logs one line per request when the
+ * response ends.
  */
 export function requestContext(log: (line: string) => void) {
   return (req: Request, res: Response, next: NextFunction): void => {
     const incoming = req.header('x-request-id');
-    const requestId = incoming && INCOMING_ID.test(incoming) ? incoming : randomUUID();
+    const clientRequestId = incoming && INCOMING_ID.test(incoming) ? incoming : undefined;
+    const requestId = randomUUID();
     res.setHeader('X-Request-Id', requestId);
+    if (clientRequestId) res.setHeader('X-Client-Request-Id', clientRequestId);
     const clientId = req.header(CLIENT_ID_HEADER);
     const client: RequestClient = {
       ip: req.ip ?? req.socket.remoteAddress ?? null,
@@ -62,8 +72,9 @@ export function requestContext(log: (line: string) => void) {
     const started = process.hrtime.bigint();
     res.on('finish', () => {
       const ms = Number(process.hrtime.bigint() - started) / 1e6;
-      storage.run({ requestId }, () => log(`${req.method} ${req.originalUrl} ${res.statusCode} ${ms.toFixed(1)} ms`));
+      const theirs = clientRequestId ? ` client-request-id=${clientRequestId}` : '';
+      storage.run({ requestId }, () => log(`${req.method} ${req.originalUrl} ${res.statusCode} ${ms.toFixed(1)} ms${theirs}`));
     });
-    storage.run({ requestId, client }, next);
+    storage.run({ requestId, clientRequestId, client }, next);
   };
 }

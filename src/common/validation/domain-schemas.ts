@@ -5,6 +5,7 @@
 import { z } from 'zod';
 import { JumperSchema, MeasurementRequestSchema, measurementRequestFields, refineMeasurementRequest } from '../../engine/request-schema';
 import { parseDtc } from '../../engine/codes';
+import { textProblem, type TextKind } from '../../engine/text';
 import {
   CAVITY_ROLES,
   CIRCUIT_KINDS,
@@ -27,23 +28,32 @@ export const TroubleCode = z.string().transform((text, ctx) => {
 
 export const TroubleCodes = z.array(TroubleCode).max(50, 'at most 50 trouble codes');
 
-/** Human text: trimmed, not empty, bounded, and free of control characters other than line breaks and tabs. */
-export function text(max: number) {
-  return z
-    .string()
-    .trim()
-    .min(1, 'must not be empty')
-    .max(max, `at most ${max} characters`)
-    .refine((s) => !/[\u0000-\u0008\u000B\u000C\u000E-\u001F\u007F]/.test(s), 'must not contain control characters');
+/**
+ * Human text: NFC, trimmed, bounded, and checked by the engine's text rules (engine/text.ts). `multiline` (the
+ * default: complaints, notes, comments) keeps line breaks and tabs; `line` and `name` refuse them, text-direction
+ * controls and values of only invisible characters.
+ */
+function checkedText(max: number, kind: TextKind, required: boolean) {
+  const base = z.string().normalize('NFC').trim();
+  return (required ? base.min(1, 'must not be empty') : base).max(max, `at most ${max} characters`).superRefine((value, ctx) => {
+    const problem = textProblem(value, kind);
+    if (problem) ctx.addIssue({ code: 'custom', message: problem });
+  });
 }
 
-export function optionalText(max: number) {
-  return z
-    .string()
-    .trim()
-    .max(max, `at most ${max} characters`)
-    .refine((s) => !/[\u0000-\u0008\u000B\u000C\u000E-\u001F\u007F]/.test(s), 'must not contain control characters');
+export function text(max: number, kind: TextKind = 'multiline') {
+  return checkedText(max, kind, true);
 }
+
+export function optionalText(max: number, kind: TextKind = 'multiline') {
+  return checkedText(max, kind, false);
+}
+
+/** One line of text (a label, a make, a part name). */
+export const lineText = (max: number) => text(max, 'line');
+export const optionalLineText = (max: number) => optionalText(max, 'line');
+/** A person's or a shop's name. */
+export const nameText = (max: number) => text(max, 'name');
 
 export const IsoTime = z.iso.datetime({ offset: true, message: 'an ISO 8601 date-time with zone, e.g. 2026-03-04T09:15:00Z' });
 

@@ -4,6 +4,7 @@
  */
 import { finding, type Finding } from './findings';
 import { decidingReadings, posterior, type Evidence } from './posterior';
+import { planningBudget, DEFAULT_PLANNING_BUDGET_MS } from './planning-budget';
 import { argmax, type PolicyModel, type PolicyState } from './policy';
 import { checkReadingShapes, checkRepairs, verdictOf, type CheckedReading, type ReadingContext } from './reading-checks';
 import { decide, type ResolvedOptions, type TestProgress } from './status-rules';
@@ -19,6 +20,7 @@ export const DEFAULT_OPTIONS: Omit<ResolvedOptions, 'concludeAt'> = {
   frozenScanTolerance: 0,
   maxAttempts: 2,
   leadingCauses: 3,
+  planningBudgetMs: DEFAULT_PLANNING_BUDGET_MS,
 };
 
 export function resolve(tree: Tree, options: DiagnosisOptions): { resolved: ResolvedOptions; findings: Finding[] } {
@@ -52,6 +54,7 @@ export function policyModel(tree: Tree, options: ResolvedOptions): PolicyModel {
     setupCosts: tree.setups.map((s) => s.minutes),
     stopCost: (max) => (max >= tau ? 0 : L * (1 - max)),
     isTerminal: (max) => max >= tau,
+    budget: planningBudget(options.planningBudgetMs),
   };
 }
 

@@ -31,6 +31,7 @@ export type { DiagnosisStatus, NextTestReason } from './status-rules';
 export type { Verdict } from './reading-checks';
 export type { LoadResult } from './load-tree';
 export { TREE_FORMAT } from './tree-schema';
+export { TREE_LIMITS, checkTreeLimits, jsonDepth, treeLimitsTable, type TreeLimitName } from './tree-limits';
 export { requestKey } from './request-key';
 export { healthyOutcome, type HealthyOutcome } from './healthy-outcome';
 export { CAUTION_KINDS } from './cautions';
@@ -91,6 +92,11 @@ export interface DiagnosisOptions {
   maxAttempts?: number;
   /** How many leading causes get a predicted reading range (default 3). */
   leadingCauses?: number;
+  /**
+   * Milliseconds allowed for choosing the next test (default 50); past it the choice falls back to one-step
+   * lookahead and a `diagnosis.planning_budget_spent` finding says so. 0 always takes the cheap choice.
+   */
+  planningBudgetMs?: number;
 }
 
 export interface PathEntry {

@@ -8,6 +8,7 @@ import { cautionKind, requiredCautions } from './cautions';
 import { compileOutcomes, conditionInterval } from './outcome-rules';
 import { canonicalJson, requestKey, withConditions } from './request-key';
 import { TREE_CHECKS } from './tree-checks';
+import { checkTreeLimits } from './tree-limits';
 import { parseTreeDocument, type TestDocument, type TreeDocument } from './tree-schema';
 import type { Caution, Hypothesis, Setup, Test, Tree } from './tree-model';
 
@@ -75,6 +76,8 @@ function compileTest(t: TestDocument, index: number, doc: TreeDocument, setups: 
  * (each with a JSON path and a reason). Warnings (e.g. an added caution) come back with a loaded tree too.
  */
 export function loadTree(json: unknown): LoadResult {
+  const limits = checkTreeLimits(json);
+  if (limits.length > 0) return { ok: false, findings: limits };
   const parsed = parseTreeDocument(json);
   if (!parsed.document) return { ok: false, findings: parsed.findings };
   const findings = TREE_CHECKS.flatMap((check) => check.run(parsed.document!));

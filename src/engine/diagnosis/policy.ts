@@ -9,6 +9,8 @@
  * connector unplugged once serves every later test that needs it unplugged.
  */
 
+import type { PlanningBudget } from './planning-budget';
+
 export interface PolicyTest {
   cost: number;
   /** Bit i set when the test needs set-up i. */
@@ -26,6 +28,8 @@ export interface PolicyModel {
   stopCost(maxP: number): number;
   /** True when no more testing is considered (the leading cause reached the threshold). */
   isTerminal(maxP: number): boolean;
+  /** Time allowed for planning; once spent, searches give their cheap answer (see planning-budget.ts). */
+  budget?: PlanningBudget;
 }
 
 export interface PolicyState {
@@ -171,6 +175,8 @@ export function stateSpaceSize(model: PolicyModel, state: PolicyState): number {
 export function canChangeConclusion(model: PolicyModel, state: PolicyState, depth = 2): boolean {
   const leader = argmax(state.p);
   for (const t of openTests(state)) {
+    // Out of time: assume it can, so testing goes on rather than concluding on an unfinished search.
+    if (model.budget?.exceeded()) return true;
     const { po, posts } = branch(model, state.p, t);
     for (let o = 0; o < po.length; o++) {
       if (po[o]! <= 1e-12) continue;

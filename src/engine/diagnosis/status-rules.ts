@@ -18,6 +18,7 @@ import {
   type PolicyModel,
   type PolicyState,
 } from './policy';
+import { budgetSpent, scoreWithin } from './planning-budget';
 import type { CheckedReading } from './reading-checks';
 import type { TreeRequest } from './request-key';
 import type { Test, Tree } from './tree-model';
@@ -43,6 +44,7 @@ export interface ResolvedOptions {
   frozenScanTolerance: number;
   maxAttempts: number;
   leadingCauses: number;
+  planningBudgetMs: number;
 }
 
 export interface RuleContext {
@@ -67,6 +69,8 @@ export interface Choice {
   expectedMinutes?: number;
   ranking?: Array<{ testId: string; expectedMinutes: number; informationBits: number; minutes: number }>;
   strategy?: 'exact' | 'lookahead';
+  /** Set when the planning budget ran out and the ranking fell back to one-step lookahead. */
+  fellBack?: boolean;
 }
 
 export interface Decision {
@@ -88,14 +92,9 @@ function rankTests(ctx: RuleContext): Choice | undefined {
   const useExact = options.strategy === 'exact' || (options.strategy === 'auto' && stateSpaceSize(model, state) <= options.exactStateBudget);
   const memo = newExactMemo();
   const h0 = entropyBits(state.p);
-  const ranking = open
-    .map((t) => ({
-      t,
-      q: useExact ? exactQ(model, state, t, memo) : lookaheadQ(model, state, t, options.lookaheadDepth),
-      cost: testCost(model, state, t),
-      bits: h0 - expectedEntropyAfter(model, state.p, t),
-    }))
-    .sort((a, b) => a.q - b.q || a.cost - b.cost || a.t - b.t);
+  const scored = (q: (t: number) => number) => (t: number) => ({ t, q: q(t), cost: testCost(model, state, t), bits: h0 - expectedEntropyAfter(model, state.p, t) });
+  const full = scoreWithin(open, model.budget, scored((t) => (useExact ? exactQ(model, state, t, memo) : lookaheadQ(model, state, t, options.lookaheadDepth))));
+  const ranking = (full ?? open.map(scored((t) => lookaheadQ(model, state, t, 1)))).sort((a, b) => a.q - b.q || a.cost - b.cost || a.t - b.t);
   const best = ranking[0]!;
   const test = tree.tests[best.t]!;
   return {
@@ -103,7 +102,8 @@ function rankTests(ctx: RuleContext): Choice | undefined {
     reason: 'lowest_expected_cost',
     request: test.request,
     expectedMinutes: best.q,
-    strategy: useExact ? 'exact' : 'lookahead',
+    strategy: useExact && full ? 'exact' : 'lookahead',
+    fellBack: !full,
     ranking: ranking.map((r) => ({ testId: tree.tests[r.t]!.id, expectedMinutes: r.q, informationBits: r.bits, minutes: r.cost })),
   };
 }
@@ -169,7 +169,10 @@ export const STATUS_RULES: readonly StatusRule[] = [
   },
   {
     name: 'testing',
-    decide: (ctx) => ({ status: 'testing', choice: rankTests(ctx), findings: [] }),
+    decide: (ctx) => {
+      const choice = rankTests(ctx);
+      return { status: 'testing', choice, findings: choice?.fellBack && ctx.model.budget ? [budgetSpent(ctx.model.budget)] : [] };
+    },
   },
 ];
 

@@ -6,6 +6,7 @@ import { z } from 'zod';
 import { issueCode, MeasurementRequestSchema } from '../request-schema';
 import type { TreeRequest } from './request-key';
 import { finding, type Finding } from './findings';
+import { TREE_LIMITS } from './tree-limits';
 
 export const TREE_FORMAT = 'tracebay.fault-tree/1';
 
@@ -82,7 +83,7 @@ export const treeDocumentSchema = z.strictObject({
     })
     .default({}),
   hypotheses: z.array(hypothesisSchema).min(2),
-  setups: z.array(setupSchema).max(30).default([]),
+  setups: z.array(setupSchema).max(TREE_LIMITS.setups.max).default([]),
   tests: z.array(testSchema).min(1),
   derivation: z
     .strictObject({

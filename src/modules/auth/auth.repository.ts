@@ -12,14 +12,17 @@ export class AuthRepository extends PrismaRepository {
     });
   }
 
-  /** Counts a failure; at `limit` consecutive failures the account locks until `lockUntil` and the count restarts. */
-  async recordFailure(userId: string, limit: number, lockUntil: Date): Promise<{ locked: boolean }> {
-    return this.transaction(async (tx) => {
-      const { failedSignIns } = await tx.user.update({ where: { id: userId }, data: { failedSignIns: { increment: 1 } }, select: { failedSignIns: true } });
-      if (failedSignIns < limit) return { locked: false };
-      await tx.user.update({ where: { id: userId }, data: { failedSignIns: 0, lockedUntil: lockUntil } });
-      return { locked: true };
-    });
+  /**
+   * Counts a failed sign-in against the email: at `limit` consecutive failures the account locks until `lockUntil`
+   * and the count restarts. One statement whatever the email names (an unknown one, an inactive or locked person
+   * match no row), so a failure costs the same work whether or not the email exists.
+   */
+  async recordFailure(email: string, limit: number, lockUntil: Date, now: Date): Promise<void> {
+    await this.prisma.$executeRaw`
+      UPDATE "User" SET
+        "failedSignIns" = CASE WHEN "failedSignIns" + 1 >= ${limit} THEN 0 ELSE "failedSignIns" + 1 END,
+        "lockedUntil" = CASE WHEN "failedSignIns" + 1 >= ${limit} THEN ${lockUntil}::timestamptz ELSE "lockedUntil" END
+      WHERE "email" = ${email} AND "active" AND ("lockedUntil" IS NULL OR "lockedUntil" <= ${now}::timestamptz)`;
   }
 
   recordSuccess(userId: string) {

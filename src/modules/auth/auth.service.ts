@@ -30,12 +30,13 @@ export class AuthService {
   ) {}
 
   async signIn(email: string, password: string, kind: 'page' | 'api', client: string, now = new Date()): Promise<SignedIn> {
-    const user = await this.repo.userByEmail(email.trim().toLowerCase());
+    const address = email.trim().toLowerCase();
+    // Every refusal does the same work, whether or not the email exists: one lookup, one argon2id verification (a
+    // dummy hash stands in for a missing one), one failure statement.
+    const user = await this.repo.userByEmail(address);
     const matches = await verifyPassword(user?.passwordHash ?? null, password);
-    if (!user || !user.active) throw refused();
-    if (user.lockedUntil && user.lockedUntil > now) throw refused();
-    if (!matches) {
-      await this.repo.recordFailure(user.id, LOCK_AFTER_FAILURES, new Date(now.getTime() + LOCK_MINUTES * 60_000));
+    if (!user || !user.active || (user.lockedUntil && user.lockedUntil > now) || !matches) {
+      await this.repo.recordFailure(address, LOCK_AFTER_FAILURES, new Date(now.getTime() + LOCK_MINUTES * 60_000), now);
       throw refused();
     }
     await this.repo.recordSuccess(user.id);

@@ -18,13 +18,19 @@ export function hashPassword(password: string): Promise<string> {
   return hash(normalisePassword(password), ARGON2ID);
 }
 
-/** A hash of a password nobody has, verified when the email is unknown so that answer takes as long as a real one. */
-let decoy: Promise<string> | undefined;
+/**
+ * An argon2id hash (same parameters as ARGON2ID) of a random password that was thrown away: verified when the email
+ * is unknown or has no password, so that answer costs the same hashing as a real one. Fixed here rather than made
+ * at start-up, so that no first unknown email pays for making it.
+ */
+export const DUMMY_HASH = '$argon2id$v=19$m=19456,t=2,p=1$5i6MM15Aq6nG2sFZCygyHw$ZEIVwootvbzRI5JdOq3u+50GxyKd6by4+URnf6hwbGA';
+
+/** The PHC parameter string of our hashes (`m=…,t=…,p=…`), for checking the dummy against ARGON2ID. */
+export const ARGON2ID_PARAMS = `m=${ARGON2ID.memoryCost},t=${ARGON2ID.timeCost},p=${ARGON2ID.parallelism}`;
 
 export async function verifyPassword(stored: string | null, password: string): Promise<boolean> {
-  const target = stored ?? (await (decoy ??= hashPassword(randomBytes(16).toString('hex'))));
   try {
-    const ok = await verify(target, normalisePassword(password));
+    const ok = await verify(stored ?? DUMMY_HASH, normalisePassword(password));
     return ok && stored !== null;
   } catch {
     return false;

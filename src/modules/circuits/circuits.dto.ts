@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { CavityRoleEnum, CircuitUnderTestKindEnum, text } from '../../common/validation/domain-schemas';
+import { CavityRoleEnum, CircuitUnderTestKindEnum, lineText } from '../../common/validation/domain-schemas';
 
 const CavityName = z
   .string()
@@ -11,8 +11,8 @@ const CavityName = z
 export const CreateCircuit = z
   .strictObject({
     kind: CircuitUnderTestKindEnum,
-    sensor: text(64).describe('SAE J1930 sensor term such as TP, APP, MAP, ECT, IAT, FTP, or free text'),
-    label: text(80).describe('what the technician calls it, e.g. "TP sensor 2"'),
+    sensor: lineText(64).describe('SAE J1930 sensor term such as TP, APP, MAP, ECT, IAT, FTP, or free text'),
+    label: lineText(80).describe('what the technician calls it, e.g. "TP sensor 2"'),
     treeId: z
       .string()
       .min(1)

@@ -1,10 +1,16 @@
-import { Injectable } from '@nestjs/common';
+import { Inject, Injectable, type OnModuleDestroy } from '@nestjs/common';
+import { APP_CONFIG, type AppConfig } from '../../config/config';
 import { ConflictException, DomainException, InvalidInputException, NotFoundException, type Finding } from '../../common/errors/domain.exception';
 import type { Db } from '../../common/database/database.tokens';
 import { builtInTreeFor, builtInTrees, loadTree, type Tree } from '../../engine/diagnosis';
 import type { CircuitKind } from '../../generated/prisma/client';
 import type { Actor } from '../identity/actor';
 import { FaultTreesRepository } from './fault-trees.repository';
+import { TreeCache } from './tree-cache';
+
+/** Row ids remembered with their shop and version (a few dozen bytes each), most recent last. */
+const MAX_ROWS_REMEMBERED = 10_000;
+const SWEEP_EVERY_MS = 60_000;
 
 function treeFindings(findings: ReadonlyArray<{ code: string; path: string; message: string; severity?: string }>, root: string): Finding[] {
   return findings
@@ -15,17 +21,28 @@ function treeFindings(findings: ReadonlyArray<{ code: string; path: string; mess
 
 /**
  * Every fault tree a circuit can be diagnosed with: the built-in ones and each shop's uploads, by stored version.
- * Loaded trees are kept in memory by content version (a version never changes).
+ * Built-in trees stay loaded; shop trees are compiled on demand into a bounded cache (see tree-cache.ts).
  */
 @Injectable()
-export class FaultTreeCatalog {
-  private readonly loaded = new Map<string, Tree>();
-  private readonly byRow = new Map<string, { shopId: string | null; tree: Tree }>();
+export class FaultTreeCatalog implements OnModuleDestroy {
+  private readonly builtInByVersion = new Map<string, Tree>();
+  readonly cache: TreeCache;
+  private readonly byRow = new Map<string, { shopId: string | null; version: string }>();
   /** Row id of each built-in tree version once stored (rows of fault trees are never changed or deleted). */
   private readonly builtInRows = new Map<string, string>();
+  private readonly sweeper: NodeJS.Timeout;
 
-  constructor(private readonly trees: FaultTreesRepository) {
-    for (const tree of Object.values(builtInTrees())) this.loaded.set(tree.version, tree);
+  constructor(
+    private readonly trees: FaultTreesRepository,
+    @Inject(APP_CONFIG) config: AppConfig,
+  ) {
+    for (const tree of Object.values(builtInTrees())) this.builtInByVersion.set(tree.version, tree);
+    this.cache = new TreeCache(config.treeCache.maxTrees, config.treeCache.maxBytes);
+    this.sweeper = setInterval(() => this.cache.sweep(), SWEEP_EVERY_MS).unref();
+  }
+
+  onModuleDestroy(): void {
+    clearInterval(this.sweeper);
   }
 
   /**
@@ -67,12 +84,17 @@ export class FaultTreeCatalog {
   /** The loaded tree of a stored version. */
   async byStoredId(actor: Actor, id: string, db?: Db): Promise<Tree> {
     // Stored versions never change, so a row read once serves every later diagnosis (its shop still checked).
-    const cached = this.byRow.get(id);
-    if (cached && (cached.shopId === null || cached.shopId === actor.shopId)) return cached.tree;
+    const known = this.byRow.get(id);
+    if (known && (known.shopId === null || known.shopId === actor.shopId)) {
+      const tree = this.builtInByVersion.get(known.version) ?? this.cache.get(known.version);
+      if (tree) return tree;
+    }
     const stored = await this.trees.findVisible(actor.shopId, id, db);
     if (!stored) throw new NotFoundException('fault_tree', id);
     const tree = this.load(stored.document, stored.version);
-    this.byRow.set(id, { shopId: stored.shopId, tree });
+    this.byRow.delete(id);
+    this.byRow.set(id, { shopId: stored.shopId, version: stored.version });
+    if (this.byRow.size > MAX_ROWS_REMEMBERED) this.byRow.delete(this.byRow.keys().next().value!);
     return tree;
   }
 
@@ -98,7 +120,7 @@ export class FaultTreeCatalog {
       document: tree.document as object,
       createdById: actor.userId,
     });
-    this.loaded.set(tree.version, tree);
+    this.cache.set(tree.version, tree);
     return { tree: row, created, warnings: result.findings.filter((f) => f.severity !== 'error') };
   }
 
@@ -107,12 +129,21 @@ export class FaultTreeCatalog {
   }
 
   private load(document: unknown, version: string): Tree {
-    const cached = this.loaded.get(version);
+    const cached = this.builtInByVersion.get(version) ?? this.cache.get(version);
     if (cached) return cached;
     const result = loadTree(document);
+    if (!result.ok && result.findings.some((f) => f.code.startsWith('tree.limit.'))) {
+      // Stored before the limits existed: refused rather than let one diagnosis hold up the whole service.
+      throw new DomainException(
+        'unprocessable',
+        'fault_tree.over_limits',
+        'This circuit’s fault tree is larger than the service diagnoses with; upload a smaller version of it for new circuits. Its readings are kept.',
+        treeFindings(result.findings, 'faultTree'),
+      );
+    }
     // A stored document was valid when stored; failing now means the tree format itself changed.
     if (!result.ok) throw new Error(`stored fault tree ${version} no longer loads: ${result.findings[0]?.message}`);
-    this.loaded.set(version, result.tree);
+    this.cache.set(version, result.tree);
     return result.tree;
   }
 

@@ -4,6 +4,8 @@
  * Arrays are joined; null, undefined and false render nothing.
  */
 
+import { showInvisible } from '../../engine/text';
+
 export class SafeHtml {
   constructor(readonly value: string) {}
   toString(): string {
@@ -24,7 +26,8 @@ function render(value: Renderable): string {
   if (value === null || value === undefined || value === false || value === true) return '';
   if (value instanceof SafeHtml) return value.value;
   if (Array.isArray(value)) return value.map(render).join('');
-  return escapeHtml(String(value));
+  // Direction controls and zero-width characters in stored text are shown as marks, never obeyed.
+  return escapeHtml(showInvisible(String(value)));
 }
 
 export function html(strings: TemplateStringsArray, ...values: Renderable[]): SafeHtml {

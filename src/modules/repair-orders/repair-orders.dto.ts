@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { checkVin } from '../../engine/vin';
-import { IsoTime, optionalText, Paging, text, TroubleCodes } from '../../common/validation/domain-schemas';
+import { TypedOrderNumber } from '../order-numbering/order-numbering.dto';
+import { IsoTime, lineText, optionalLineText, optionalText, Paging, text, TroubleCodes } from '../../common/validation/domain-schemas';
 
 const STATUSES = ['open', 'diagnosing', 'repaired', 'verified', 'closed'] as const;
 export const StatusEnum = z.enum(STATUSES);
@@ -12,9 +13,9 @@ export const NewVehicle = z
     vin: z.string().max(40, 'a VIN is 17 characters'),
     builtOutsideNorthAmerica: z.boolean().default(false),
     year: z.number().int().min(1981, 'a 17-character VIN means model year 1981 or later').max(thisYear + 2),
-    make: text(60),
-    model: text(60),
-    engine: optionalText(80).default(''),
+    make: lineText(60),
+    model: lineText(60),
+    engine: optionalLineText(80).default(''),
     odometer: z.number().int().min(0).max(3_000_000),
     odometerUnit: z.enum(['mi', 'km']).default('mi'),
   })
@@ -27,11 +28,7 @@ export const NewVehicle = z
 
 export const CreateRepairOrder = z
   .strictObject({
-    number: text(32)
-      .regex(/^[A-Za-z0-9][A-Za-z0-9-/]*$/, 'letters, digits, "-" and "/" only')
-      .transform((n) => n.toUpperCase())
-      .optional()
-      .describe('the shop’s number, stored upper-case; by default the next RO-nnnnn'),
+    number: TypedOrderNumber.optional().describe('the shop’s number, stored upper-case; by default the next automatic one (see /api/shop/order-numbering)'),
     vehicleId: z.uuid().optional(),
     vehicle: NewVehicle.optional(),
     complaint: text(4000),
@@ -73,7 +70,7 @@ export const ListRepairOrders = z.strictObject({
     .optional(),
   technicianId: z.uuid().optional(),
   changedSince: IsoTime.optional(),
-  q: optionalText(60).optional(),
+  q: optionalLineText(60).optional(),
   ...Paging,
 });
 export type ListRepairOrders = z.output<typeof ListRepairOrders>;

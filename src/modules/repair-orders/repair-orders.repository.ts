@@ -115,17 +115,6 @@ export class RepairOrdersRepository extends PrismaRepository {
     return db.vehicle.create({ data, select: { id: true } });
   }
 
-  /**
-   * The highest number of the form "RO-<digits>" in the shop, 0 when there is none. Up to 15 digits, so that the
-   * value stays exact in a JavaScript number; a longer one (only ever typed by hand) is not followed.
-   */
-  async highestRoNumber(shopId: string, db: Db): Promise<number> {
-    const [row] = await db.$queryRaw<Array<{ n: string }>>`
-      SELECT COALESCE(MAX(substring("number" FROM 4)::bigint), 0)::text AS n FROM "RepairOrder"
-      WHERE "shopId" = ${shopId}::uuid AND "number" ~ '^RO-[0-9]{1,15}$'`;
-    return Number(row?.n ?? 0);
-  }
-
   create(db: Db, data: Prisma.RepairOrderUncheckedCreateInput) {
     return db.repairOrder.create({ data, select: { id: true } });
   }

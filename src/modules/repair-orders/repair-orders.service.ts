@@ -5,6 +5,7 @@ import { checkMove } from '../../engine/status';
 import type { Prisma } from '../../generated/prisma/client';
 import { orderScope, type Actor } from '../identity/actor';
 import { UsersRepository } from '../identity/users.repository';
+import { OrderNumberingService } from '../order-numbering/order-numbering.service';
 import type { ChangeStatus, CreateRepairOrder, ListRepairOrders, UpdateRepairOrder } from './repair-orders.dto';
 import { RepairOrdersRepository } from './repair-orders.repository';
 import { toDetailView } from './repair-orders.view';
@@ -25,6 +26,7 @@ export class RepairOrdersService {
   constructor(
     private readonly orders: RepairOrdersRepository,
     private readonly users: UsersRepository,
+    private readonly numbering: OrderNumberingService,
   ) {}
 
   async list(actor: Actor, query: ListRepairOrders) {
@@ -39,15 +41,15 @@ export class RepairOrdersService {
   }
 
   /**
-   * Opens an order. Orders opened at the same moment on two instances may draw the same next number or both find
-   * a new VIN unknown: the database's unique indexes refuse the second, and that one simply tries again, seeing
-   * the first. No database lock is held while waiting, so a burst of openings never ties up the connections
-   * readings need.
+   * Opens an order. The automatic number comes from the shop's own counter row (numbers typed by hand never move
+   * it). Orders opened at the same moment on two instances may both find a new VIN unknown, or an automatic number
+   * may meet one being typed at that moment: the database's unique indexes refuse the second, and that one simply
+   * tries again, seeing the first.
    */
   async create(actor: Actor, input: CreateRepairOrder) {
     for (let attempt = 1; ; attempt++) {
       try {
-        return await this.get(actor, await this.oneAtATime(actor.shopId, () => this.open(actor, input, attempt)));
+        return await this.get(actor, await this.oneAtATime(actor.shopId, () => this.open(actor, input)));
       } catch (error) {
         const clash = (input.number === undefined && isUniqueViolation(error, 'number')) || isUniqueViolation(error, 'vin');
         if (clash && attempt < OPENING_ATTEMPTS) continue;
@@ -84,11 +86,12 @@ export class RepairOrdersService {
     return run;
   }
 
-  private open(actor: Actor, input: CreateRepairOrder, attempt: number): Promise<string> {
+  private open(actor: Actor, input: CreateRepairOrder): Promise<string> {
     return this.orders.transaction(async (tx) => {
       await this.requireTechnician(actor, input.technicianId, 'body.technicianId', tx);
       const vehicleId = await this.resolveVehicle(actor, input, tx);
-      const number = input.number ?? (await this.nextNumber(actor.shopId, tx, attempt));
+      // Taken last, so the shop's counter row is locked only for the insert that follows.
+      const number = input.number ?? (await this.numbering.take(actor.shopId, tx));
       const created = await this.orders.create(tx, {
         shopId: actor.shopId,
         number,
@@ -201,15 +204,5 @@ export class RepairOrdersService {
       createdById: actor.userId,
     });
     return created.id;
-  }
-
-  /**
-   * The number after the shop's highest "RO-nnnnn", hand-typed ones included. After a clash with an order opened
-   * at the same moment (the unique index refuses it, and `create` tries again), each retry starts a little further
-   * on (at random), so that several openings retrying together part ways; a number may then be left out.
-   */
-  private async nextNumber(shopId: string, tx: Prisma.TransactionClient, attempt = 1): Promise<string> {
-    const n = (await this.orders.highestRoNumber(shopId, tx)) + 1 + Math.floor(Math.random() * attempt);
-    return `RO-${String(n).padStart(5, '0')}`;
   }
 }

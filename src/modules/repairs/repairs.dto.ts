@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { optionalText, text } from '../../common/validation/domain-schemas';
+import { optionalLineText, optionalText, lineText, text } from '../../common/validation/domain-schemas';
 
 export const CIRCUIT_PARTS = ['reference', 'signal', 'ground', 'sensor', 'module', 'connector', 'other'] as const;
 
@@ -7,12 +7,12 @@ export const RecordRepair = z.strictObject({
   circuitId: z.uuid().optional().describe('the circuit repaired, when the repair was on one'),
   part: z.enum(CIRCUIT_PARTS).describe('which part of the circuit: readings taken before the repair on this part stop counting'),
   action: text(500).describe('what was done, e.g. "Spliced the signal wire with a sealed crimp sleeve"'),
-  location: optionalText(300).default('').describe('where on the circuit, e.g. "signal wire 15 cm from the sensor connector"'),
+  location: optionalLineText(300).default('').describe('where on the circuit, e.g. "signal wire 15 cm from the sensor connector"'),
   parts: z
     .array(
       z.strictObject({
-        name: text(120),
-        number: optionalText(60).optional(),
+        name: lineText(120),
+        number: optionalLineText(60).optional(),
         quantity: z.number().int().min(1).max(999).default(1),
       }),
     )
