@@ -3,7 +3,7 @@ import { NestFactory } from '@nestjs/core';
 import type { NestExpressApplication } from '@nestjs/platform-express';
 import { DocumentBuilder, SwaggerModule } from '@nestjs/swagger';
 import helmet from 'helmet';
-import { json, raw, type NextFunction, type Request, type Response } from 'express';
+import { type NextFunction, type Request, type Response } from 'express';
 import type { AppConfig } from '../config/config';
 import type { OpenDatabase } from '../common/database/database.tokens';
 import { AppLogger } from '../common/logging/app-logger';
@@ -59,9 +59,7 @@ export async function createApp(config: AppConfig, database: OpenDatabase, logge
   app.use(requestContext((line) => logger.log(line, 'http')));
   if (config.trustProxy) app.set('trust proxy', 1);
   app.use(securityHeaders(config));
-  app.use(json({ limit: config.bodyLimit, strict: false }));
-  // A proof PDF posted for checking comes as it is.
-  app.use('/api/proofs/verify', raw({ type: 'application/pdf', limit: '20mb' }));
+  // Bodies are read by the actor guard once the caller is known (src/common/http/read-body.ts), never before.
   app.use(bodyErrors);
   app.disable('x-powered-by');
 

@@ -33,6 +33,7 @@ export type { LoadResult } from './load-tree';
 export { TREE_FORMAT } from './tree-schema';
 export { requestKey } from './request-key';
 export { healthyOutcome, type HealthyOutcome } from './healthy-outcome';
+export { retestsStillNeeded, type Retest } from './retests';
 export { CAUTION_KINDS } from './cautions';
 export {
   expectedCostOfRepair,
