@@ -32,9 +32,6 @@ export const LIMITS = {
   count: {
     codes: 50,
     partsPerRepair: 30,
-    /** Readings that correct one another in a chain (the first reading and its corrections). */
-    correctionsPerReading: 20,
-    circuitsPerOrder: 20,
   },
   /** Numbers. */
   number: {

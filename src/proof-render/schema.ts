@@ -64,7 +64,7 @@ const step = z.strictObject({
   outcome: z.strictObject({ code: id, label: derived }),
   takenAt: time,
   takenBy: name,
-  superseded: z.array(superseded).max(LIMITS.count.correctionsPerReading),
+  superseded: z.array(superseded),
   note: note.optional(),
 });
 
@@ -82,7 +82,7 @@ const check = z.strictObject({
   provesFix: z.boolean(),
   takenAt: time,
   takenBy: name,
-  superseded: z.array(superseded).max(LIMITS.count.correctionsPerReading),
+  superseded: z.array(superseded),
   note: note.optional(),
 });
 

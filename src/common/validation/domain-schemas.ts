@@ -3,6 +3,7 @@
  * rule lives in one place and the HTTP layer only reports it (with the engine's message) at the right path.
  */
 import { z } from 'zod';
+import { LIMITS } from '../limits';
 import { JumperSchema, MeasurementRequestSchema, measurementRequestFields, refineMeasurementRequest } from '../../engine/request-schema';
 import { parseDtc } from '../../engine/codes';
 import {
@@ -25,7 +26,7 @@ export const TroubleCode = z.string().transform((text, ctx) => {
   return z.NEVER;
 });
 
-export const TroubleCodes = z.array(TroubleCode).max(50, 'at most 50 trouble codes');
+export const TroubleCodes = z.array(TroubleCode).max(LIMITS.count.codes, `at most ${LIMITS.count.codes} trouble codes`);
 
 /** Human text: trimmed, not empty, bounded, and free of control characters other than line breaks and tabs. */
 export function text(max: number) {

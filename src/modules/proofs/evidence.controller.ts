@@ -1,6 +1,7 @@
-import { Controller, Get } from '@nestjs/common';
+import { Controller, Get, HttpCode, Post } from '@nestjs/common';
 import { ApiOperation, ApiSecurity, ApiTags } from '@nestjs/swagger';
-import { UuidParam } from '../../common/validation/zod-input';
+import { UuidParam, ZBody } from '../../common/validation/zod-input';
+import { RecordCodesAfter } from './evidence.dto';
 import { CurrentActor, type Actor } from '../identity/actor';
 import { EvidenceService } from './evidence.service';
 
@@ -14,6 +15,13 @@ export class EvidenceController {
   @ApiOperation({ summary: 'Where the foreman’s approval stands: none, approved (of the evidence now), stale (the evidence changed since), returned or withdrawn' })
   approval(@CurrentActor() actor: Actor, @UuidParam('id') id: string) {
     return this.evidence.approval(actor, id);
+  }
+
+  @Post('codes-after')
+  @HttpCode(200)
+  @ApiOperation({ summary: 'Record the codes read after the repair and how they were read (cleared and key cycles, road test, re-scan): the proof states them only once recorded' })
+  codesAfter(@CurrentActor() actor: Actor, @UuidParam('id') id: string, @ZBody(RecordCodesAfter) body: RecordCodesAfter) {
+    return this.evidence.recordCodesAfter(actor, id, body);
   }
 
   @Get('verification')

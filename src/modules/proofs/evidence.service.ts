@@ -13,6 +13,8 @@ import { RepairsRepository } from '../repairs/repairs.repository';
 import { ReviewsRepository } from '../reviews/reviews.repository';
 import { ShopSettingsService } from '../shop-settings/shop-settings.service';
 import { buildProofView } from './proof-view.builder';
+import type { RecordCodesAfter } from './evidence.dto';
+import { toDetailView } from '../repair-orders/repair-orders.view';
 
 /** A proof exists once the repair is done: before that there is nothing to prove. */
 const PROVABLE = new Set(['repaired', 'verified', 'closed']);
@@ -86,6 +88,29 @@ export class EvidenceService {
       evidenceDigest: latest?.evidenceDigest || null,
       currentEvidenceDigest: current,
     };
+  }
+
+  /** The codes after the repair and how they were read; only once the repair is recorded, never on a closed order. */
+  async recordCodesAfter(actor: Actor, repairOrderId: string, input: RecordCodesAfter) {
+    await this.orders.transaction(async (tx) => {
+      const order = await this.orders.findHeader(orderScope(actor), repairOrderId, tx);
+      if (!order) throw new NotFoundException('repair_order', repairOrderId);
+      if (order.status !== 'repaired' && order.status !== 'verified') {
+        throw new ConflictException('codes_after.wrong_status', `Repair order ${order.number} is ${order.status}: codes after the repair are recorded once it is repaired, before it closes.`, { status: order.status });
+      }
+      const changed = await this.orders.updateAtVersion(tx, repairOrderId, input.version, {
+        codesAfter: input.codes,
+        codesAfterMethod: input.method,
+        codesAfterKeyCycles: input.keyCycles ?? null,
+        codesAfterNote: input.note,
+        codesAfterCheckedAt: input.checkedAt ? new Date(input.checkedAt) : new Date(),
+      });
+      if (changed !== 1) {
+        throw new ConflictException('repair_order.stale_version', `This repair order changed since you read it (you sent version ${input.version}, it is now at ${order.version}); reload and record again.`, { currentVersion: order.version });
+      }
+    });
+    const order = await this.orders.find(orderScope(actor), repairOrderId);
+    return toDetailView(order!);
   }
 
   /** Per repaired circuit, the deciding readings still to take again (or still reading the fault) since its repair. */

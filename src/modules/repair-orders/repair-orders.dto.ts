@@ -1,4 +1,7 @@
 import { z } from 'zod';
+import { LIMITS } from '../../common/limits';
+
+const T = LIMITS.text;
 import { checkVin } from '../../engine/vin';
 import { IsoTime, optionalText, Paging, text, TroubleCodes } from '../../common/validation/domain-schemas';
 
@@ -12,10 +15,10 @@ export const NewVehicle = z
     vin: z.string().max(40, 'a VIN is 17 characters'),
     builtOutsideNorthAmerica: z.boolean().default(false),
     year: z.number().int().min(1981, 'a 17-character VIN means model year 1981 or later').max(thisYear + 2),
-    make: text(60),
-    model: text(60),
-    engine: optionalText(80).default(''),
-    odometer: z.number().int().min(0).max(3_000_000),
+    make: text(T.vehicleMake),
+    model: text(T.vehicleModel),
+    engine: optionalText(T.vehicleEngine).default(''),
+    odometer: z.number().int().min(0).max(LIMITS.number.odometer),
     odometerUnit: z.enum(['mi', 'km']).default('mi'),
   })
   .transform((v, ctx) => {
@@ -27,14 +30,14 @@ export const NewVehicle = z
 
 export const CreateRepairOrder = z
   .strictObject({
-    number: text(32)
+    number: text(T.orderNumber)
       .regex(/^[A-Za-z0-9][A-Za-z0-9-/]*$/, 'letters, digits, "-" and "/" only')
       .transform((n) => n.toUpperCase())
       .optional()
       .describe('the shop’s number, stored upper-case; by default the next RO-nnnnn'),
     vehicleId: z.uuid().optional(),
     vehicle: NewVehicle.optional(),
-    complaint: text(4000),
+    complaint: text(T.complaint),
     codes: TroubleCodes.default([]),
     technicianId: z.uuid().optional(),
   })
@@ -48,9 +51,10 @@ export type CreateRepairOrder = z.output<typeof CreateRepairOrder>;
 export const UpdateRepairOrder = z
   .strictObject({
     version: z.number().int().min(1, 'the version you last read'),
-    complaint: text(4000).optional(),
-    cause: optionalText(4000).optional(),
-    correction: optionalText(4000).optional(),
+    complaint: text(T.complaint).optional(),
+    cause: optionalText(T.cause).optional(),
+    correction: optionalText(T.correction).optional(),
+    odometerOut: z.number().int().min(0).max(LIMITS.number.odometer).nullable().optional().describe('odometer when the vehicle leaves, for the proof'),
     codes: TroubleCodes.optional(),
     codesAfter: TroubleCodes.optional(),
     technicianId: z.uuid().nullable().optional(),
@@ -60,7 +64,7 @@ export type UpdateRepairOrder = z.output<typeof UpdateRepairOrder>;
 
 export const ChangeStatus = z.strictObject({
   to: StatusEnum,
-  reason: optionalText(2000).optional(),
+  reason: optionalText(T.statusReason).optional(),
   version: z.number().int().min(1).optional(),
 });
 export type ChangeStatus = z.output<typeof ChangeStatus>;

@@ -15,6 +15,7 @@ export function repairView(r: RepairRow) {
     location: r.location,
     parts: r.parts as Array<{ name: string; number?: string; quantity: number }>,
     note: r.note,
+    labour: { clockOnAt: r.clockOnAt?.toISOString() ?? null, clockOffAt: r.clockOffAt?.toISOString() ?? null, minutes: r.labourMinutes },
     by: r.by,
     at: r.at.toISOString(),
   };
@@ -67,6 +68,9 @@ export class RepairsService {
         location: input.location,
         parts: input.parts,
         note: input.note,
+        clockOnAt: input.clockOnAt ? new Date(input.clockOnAt) : null,
+        clockOffAt: input.clockOffAt ? new Date(input.clockOffAt) : null,
+        labourMinutes: input.labourMinutes ?? null,
         byId: actor.userId,
       });
       // Each repair moves the order to its next version: another repair (or move) that landed since the order was
