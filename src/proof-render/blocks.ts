@@ -25,7 +25,8 @@ export function heading(ctx: RenderContext, title: string, keepWith = 40): void 
   const size = SIZE.heading;
   const h = flow.lineHeight(size) + 7;
   if (flow.y > flow.top) flow.y += 14;
-  flow.ensure(h + keepWith);
+  // What must follow may be longer than a page: then only as much as a page holds is kept with the heading.
+  flow.ensure(Math.min(h + keepWith, flow.bottom - flow.top));
   flow.drawBlock(flow.lay({ text: `${ctx.sectionNumber}  ${title}`, font: 'bold', size }, flow.width), flow.left, flow.y, flow.width);
   flow.y += flow.lineHeight(size) + 1;
   flow.rule(flow.y, 1.6, COLOR.ink);

@@ -30,7 +30,7 @@ export function drawVerification(ctx: RenderContext): void {
   const spec: TableSpec = {
     caption: 'Verification after the repair',
     columns: [
-      { title: 'Check', width: 40 },
+      { title: 'Check', width: 52 },
       { title: 'Test repeated and conditions', width: 'flex' },
       { title: 'Expected', width: 72 },
       { title: 'Before', width: 62 },

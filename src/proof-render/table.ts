@@ -82,8 +82,8 @@ export function drawTable(flow: Flow, spec: TableSpec): void {
   const rows = spec.rows.map((r) => layRow(flow, r, widths));
   const headH = headerHeight(flow, spec, widths);
   const capH = flow.lineHeight(SIZE.small) + 2;
-  // Keep the header with the first row.
-  flow.ensure(headH + (rows[0]?.height ?? 0));
+  // Keep the header with the first row (with its first lines, when the row is taller than a page).
+  flow.ensure(Math.min(headH + (rows[0]?.height ?? 0), headH + 6 * flow.lineHeight(SIZE.table)));
   drawHeader(flow, spec, widths, false);
   rows.forEach((row, index) => {
     if (flow.y + row.height > flow.bottom + 0.01) {

@@ -38,6 +38,7 @@ const BODIES: Record<string, (a: ShopA) => unknown> = {
   'post /api/repair-orders/{id}/measurements': (a) => ({ circuitId: a.circuitId, quantity: 'dc_volts', at: 'signal', against: 'battery_negative', ...koeoBackprobe, value: 4.87, unit: 'V' }),
   'post /api/repair-orders/{id}/repairs': (a) => ({ circuitId: a.circuitId, part: 'signal', action: 'Spliced the signal wire' }),
   'post /api/repair-orders/{id}/reviews': () => ({ decision: 'approved' }),
+  'post /api/repair-orders/{id}/codes-after': () => ({ version: 1, codes: [], method: 'road_test' }),
   'post /api/users/{id}/deactivate': () => undefined,
 };
 
