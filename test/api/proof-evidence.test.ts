@@ -63,6 +63,15 @@ describe.each(BACKENDS)('evidence behind a proof of repair on the %s database', 
     expect(res.body.error.message).toContain(listed[0]!.test);
   });
 
+  it('names on the proof only the people who acted: no foreman before any foreman decision', async () => {
+    const { id } = await diagnosedOrder();
+    const pdf = Buffer.from(await (await fetch(`${api.url}${orders(id, '/proof.pdf')}`, { headers: await api.authHeaders(TECH_A) })).arrayBuffer());
+    const text = (await readPdf(pdf)).pages.map((p) => p.text).join(' ').replace(/\s+/g, ' ');
+    expect(text).not.toContain('Fore Person');
+    expect(text).toContain('no foreman decision yet');
+    expect(text).toContain('Tech One');
+  });
+
   it('keeps refusing while one deciding reading is missing or still reads the fault, and verifies once all read healthy', async () => {
     const { id, circuitId } = await diagnosedOrder();
     const all = (await verify(id)).body.error.toMeasure as ToMeasure[];

@@ -18,7 +18,7 @@ export function publicProofPage(a: Answer): string {
   const title = a.known ? (a.current ? 'Proof of repair: known and current' : 'Proof of repair: known, superseded') : 'Proof of repair: not known here';
   return `<!doctype html>
 <html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1">
-<title>${escape(title)}</title></head>
+<title>${escape(title)}</title><link rel="stylesheet" href="/assets/css/tracebay.css"></head>
 <body><main>
 <h1>${escape(title)}</h1>
 <dl>${rows.map(([k, v]) => `<dt>${escape(k!)}</dt><dd>${escape(v!)}</dd>`).join('')}</dl>
