@@ -23,3 +23,20 @@ if (form) {
     });
   });
 }
+
+// Closing, once verified and approved on the evidence as it is now (the service refuses it otherwise).
+const close = document.getElementById('close-form');
+if (close) {
+  close.addEventListener('submit', async (event) => {
+    event.preventDefault();
+    await busy(close, async () => {
+      try {
+        showError(close, null);
+        await api('POST', `/api/repair-orders/${close.dataset.order}/status`, { to: 'closed', version: Number(close.dataset.version) });
+        location.reload();
+      } catch (error) {
+        showError(close, error);
+      }
+    });
+  });
+}

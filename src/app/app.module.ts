@@ -18,6 +18,7 @@ import { PagesModule } from '../modules/pages/pages.module';
 import { RepairOrdersModule } from '../modules/repair-orders/repair-orders.module';
 import { RepairsModule } from '../modules/repairs/repairs.module';
 import { ReviewsModule } from '../modules/reviews/reviews.module';
+import { ShopSettingsModule } from '../modules/shop-settings/shop-settings.module';
 
 /** Configuration and the opened database, available to every module. */
 @Global()
@@ -54,6 +55,7 @@ export class AppModule {
         FaultTreesModule,
         DiagnosisModule,
         ReviewsModule,
+        ShopSettingsModule,
         ProofsModule,
         CircuitModelModule,
         CalculatorsModule,

@@ -3,7 +3,7 @@ import { NestFactory } from '@nestjs/core';
 import type { NestExpressApplication } from '@nestjs/platform-express';
 import { DocumentBuilder, SwaggerModule } from '@nestjs/swagger';
 import helmet from 'helmet';
-import { json, raw, type NextFunction, type Request, type Response } from 'express';
+import { type NextFunction, type Request, type Response } from 'express';
 import type { AppConfig } from '../config/config';
 import type { OpenDatabase } from '../common/database/database.tokens';
 import { AppLogger } from '../common/logging/app-logger';
@@ -11,7 +11,7 @@ import { requestContext } from '../common/logging/request-context';
 import { currentRequestId } from '../common/logging/request-context';
 import { AppModule } from './app.module';
 import { noStoreOnApi } from './cache-control';
-import { MAX_JSON_BODY_DEPTH, refuseDeepJson } from '../common/validation/json-depth';
+import { MAX_JSON_BODY_DEPTH } from '../common/validation/json-depth';
 
 /** Body-parser failures (bad JSON, too large) answered in the same shape as every other error. */
 function bodyErrors(error: { type?: string; status?: number }, _req: Request, res: Response, next: NextFunction): void {
@@ -67,9 +67,7 @@ export async function createApp(config: AppConfig, database: OpenDatabase, logge
   if (config.trustProxy) app.set('trust proxy', 1);
   app.use(securityHeaders(config));
   app.use(noStoreOnApi);
-  app.use(json({ limit: config.bodyLimit, strict: false, verify: refuseDeepJson }));
-  // A proof PDF posted for checking comes as it is.
-  app.use('/api/proofs/verify', raw({ type: 'application/pdf', limit: '20mb' }));
+  // Bodies are read by the actor guard once the caller is known (src/common/http/read-body.ts), never before.
   app.use(bodyErrors);
   app.disable('x-powered-by');
 

@@ -10,6 +10,7 @@ import { withCheckDigit } from '../engine/vin';
 import { hashPassword } from '../modules/auth/secrets';
 import { DEMO_ORDERS, DEMO_ORDERS_TWO, DEMO_SHOP, DEMO_SHOP_TWO, DEMO_USERS, DEMO_USERS_TWO, DEMO_VEHICLES, DEMO_VEHICLES_TWO, FOREMAN, FOREMAN_TWO, type DemoOrder } from './scenario';
 import { diagnosisReadings, meterShows, type SimulatedReading } from './simulate-readings';
+import { demoEvidenceDigest } from './evidence-digest';
 
 const DAY = 86_400_000;
 const MINUTE = 60_000;
@@ -49,7 +50,7 @@ export async function seedDemo(prisma: PrismaClient, now = new Date()): Promise<
         const { key, ...rest } = v;
         vehicleIds.set(key, (await tx.vehicle.create({ data: { ...rest, vin: vin.vin, shopId: plan.shop.id, createdById: plan.foreman } })).id);
       }
-      const shop = { shopId: plan.shop.id, foreman: plan.foreman };
+      const shop = { shopId: plan.shop.id, foreman: plan.foreman, shop: plan.shop };
       for (const { order, readings } of plan.jobs) await seedOrder(tx, shop, order, readings, vehicleIds.get(order.vehicle)!, now);
       await tx.orderNumbering.create({ data: { shopId: plan.shop.id, ...demoNumbering(plan.orders) } });
     }
@@ -64,7 +65,7 @@ export function demoNumbering(orders: ReadonlyArray<{ number: string }>): { pref
   return { prefix: highest[1]!, width: highest[2]!.length, next: BigInt(Number(highest[2]) + 1) };
 }
 
-async function seedOrder(tx: Prisma.TransactionClient, shop: { shopId: string; foreman: string }, order: DemoOrder, readings: SimulatedReading[], vehicleId: string, now: Date): Promise<void> {
+async function seedOrder(tx: Prisma.TransactionClient, shop: { shopId: string; foreman: string; shop: { id: string; name: string; address: string } }, order: DemoOrder, readings: SimulatedReading[], vehicleId: string, now: Date): Promise<void> {
   let clock = now.getTime() - order.openedDaysAgo * DAY - 5 * 60 * MINUTE;
   const tick = (minutes: number) => new Date((clock += minutes * MINUTE));
   const opened = tick(0);
@@ -141,8 +142,10 @@ async function seedOrder(tx: Prisma.TransactionClient, shop: { shopId: string; f
   // After the repair, the first tests again: the circuit now reads as a healthy one.
   for (const r of readings.slice(0, 4)) await insert(meterShows(c.kind, 'good', r.request), 'verification');
   await status('repaired', 'verified', tick(4), order.technician);
-  for (const review of order.reviews ?? []) {
-    await tx.review.create({ data: { repairOrderId: ro.id, decision: review.decision, comment: review.comment, byId: shop.foreman, at: tick(50) } });
+  for (const [position, review] of (order.reviews ?? []).entries()) {
+    // Decided on the evidence as it stands, as the service records a decision.
+    const evidenceDigest = await demoEvidenceDigest(tx, shop.shop, ro.id);
+    await tx.review.create({ data: { repairOrderId: ro.id, decision: review.decision, comment: review.comment, byId: shop.foreman, at: tick(50), position: position + 1, evidenceDigest } });
   }
   if (order.path.includes('closed')) await status('verified', 'closed', tick(24 * 60), shop.foreman);
   await tx.repairOrder.update({ where: { id: ro.id }, data: { updatedAt: new Date(clock) } });

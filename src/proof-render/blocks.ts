@@ -14,6 +14,8 @@ export interface RenderContext {
   /** Where the QR code went (for tests that read it back from the rendered page). */
   qr?: { page: number; x: number; y: number; module: number; size: number };
   sectionNumber: number;
+  /** Where the document can be checked without an account (render option; not part of the evidence). */
+  publicBase?: string;
 }
 
 /** A numbered section heading, kept on the page with at least `keepWith` points of what follows. */
@@ -23,7 +25,8 @@ export function heading(ctx: RenderContext, title: string, keepWith = 40): void 
   const size = SIZE.heading;
   const h = flow.lineHeight(size) + 7;
   if (flow.y > flow.top) flow.y += 14;
-  flow.ensure(h + keepWith);
+  // What must follow may be longer than a page: then only as much as a page holds is kept with the heading.
+  flow.ensure(Math.min(h + keepWith, flow.bottom - flow.top));
   flow.drawBlock(flow.lay({ text: `${ctx.sectionNumber}  ${title}`, font: 'bold', size }, flow.width), flow.left, flow.y, flow.width);
   flow.y += flow.lineHeight(size) + 1;
   flow.rule(flow.y, 1.6, COLOR.ink);
@@ -61,8 +64,19 @@ export function notice(flow: Flow, blocks: Block[], options: { strong?: boolean;
   const pad = 8;
   const laid = blocks.map((b) => flow.lay(b, flow.width - 2 * pad - (options.strong ? 6 : 0)));
   const h = noticeHeight(flow, blocks, options);
-  flow.ensure(h);
   const color = options.color ?? COLOR.ink;
+  if (h > flow.bottom - flow.top) {
+    // Longer than a page: no box, the text flows on with a heavy rule above and below.
+    flow.ensure(24);
+    flow.rule(flow.y, options.strong ? 2.2 : 1, color);
+    flow.y += 6;
+    for (const b of blocks) flow.paragraph(b);
+    flow.y += 4;
+    flow.rule(flow.y, options.strong ? 2.2 : 1, color);
+    flow.y += 2;
+    return;
+  }
+  flow.ensure(h);
   const doc = flow.doc;
   doc.save().lineWidth(options.strong ? 2.2 : 1).strokeColor(color).rect(flow.left, flow.y, flow.width, h).stroke().restore();
   if (options.strong) doc.save().rect(flow.left, flow.y, 6, h).fill(color).restore();

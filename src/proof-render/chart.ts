@@ -6,7 +6,12 @@ import { drawStack, stackHeight, type Flow, type LaidBlock } from './layout';
 import { COLOR, SIZE } from './theme';
 import { formatRange } from './format';
 import { convertTo } from './units';
-import type { Circuit, VerificationCheck } from './view';
+import type { Circuit, ExpectedRange, Reading, VerificationCheck } from './view';
+
+/** A check that repeats a diagnostic step against a band: what a before/after strip can show. */
+export type ChartedCheck = VerificationCheck & { before: Reading; expected: ExpectedRange; pass: boolean };
+
+export const isCharted = (c: VerificationCheck): c is ChartedCheck => c.before !== null && c.expected !== null && c.pass !== null;
 
 const STRIP = 46;
 const LABEL_W = 176;
@@ -41,7 +46,7 @@ export function position(scale: Scale, value: number, x0: number, x1: number): n
   return x0 + Math.min(1, Math.max(0, t)) * (x1 - x0);
 }
 
-function bounds(check: VerificationCheck): { lo: number | null; hi: number | null } {
+function bounds(check: ChartedCheck): { lo: number | null; hi: number | null } {
   const unit = check.after.siUnit;
   return {
     lo: check.expected.min === null ? null : convertTo(check.expected.min, check.expected.unit, unit),
@@ -78,7 +83,7 @@ function centredLabel(flow: Flow, text: string, cx: number, y: number, x0: numbe
   flow.drawBlock(flow.lay({ text, size }, w + 2), x, y, w + 2);
 }
 
-function stripLabel(flow: Flow, check: VerificationCheck): LaidBlock[] {
+function stripLabel(flow: Flow, check: ChartedCheck): LaidBlock[] {
   return [
     flow.lay({ text: `${check.seq}. ${check.title}`, font: 'bold', size: SIZE.small }, LABEL_W - 8),
     flow.lay({ text: `expected ${formatRange(check.expected)}`, size: SIZE.small - 0.5, color: COLOR.muted }, LABEL_W - 8),
@@ -86,11 +91,11 @@ function stripLabel(flow: Flow, check: VerificationCheck): LaidBlock[] {
 }
 
 /** A strip is as tall as its label needs, and never lower than the plot needs. */
-function stripHeight(flow: Flow, check: VerificationCheck): number {
+function stripHeight(flow: Flow, check: ChartedCheck): number {
   return Math.max(STRIP, stackHeight(stripLabel(flow, check)) + 10);
 }
 
-function drawStrip(flow: Flow, check: VerificationCheck, y: number): void {
+function drawStrip(flow: Flow, check: ChartedCheck, y: number): void {
   const doc = flow.doc;
   const label = stripLabel(flow, check);
   const height = stripHeight(flow, check);
@@ -125,12 +130,12 @@ function drawStrip(flow: Flow, check: VerificationCheck, y: number): void {
 const titleHeight = (flow: Flow) => flow.lineHeight(SIZE.body) + 6;
 
 /** A panel title with its first strips (up to three): what must fit before a panel starts on a page. */
-export function chartStartHeight(flow: Flow, checks: VerificationCheck[]): number {
+export function chartStartHeight(flow: Flow, checks: ChartedCheck[]): number {
   return titleHeight(flow) + checks.slice(0, 3).reduce((h, c) => h + stripHeight(flow, c), 0);
 }
 
 /** One panel per circuit; a panel breaks between strips, never inside one, and repeats its title when it does. */
-export function drawCircuitChart(flow: Flow, circuit: Circuit, checks: VerificationCheck[]): void {
+export function drawCircuitChart(flow: Flow, circuit: Circuit, checks: ChartedCheck[]): void {
   const titleH = titleHeight(flow);
   const title = (continued: boolean) => {
     flow.drawBlock(flow.lay({ text: `${circuit.name}${continued ? ' (continued)' : ''}`, font: 'bold', size: SIZE.body }, flow.width * 0.5), flow.left, flow.y, flow.width * 0.5);

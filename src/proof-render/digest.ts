@@ -59,9 +59,34 @@ export function proofDigest(view: ProofView): string {
   return sha256Hex(canonicalJson(view));
 }
 
+/**
+ * SHA-256 of the evidence alone: everything the document states but the sign-off (and who signed), so that an
+ * approval can name the evidence it was given on, and a later reading, repair or status change makes it stale.
+ */
+export function evidenceDigest(view: ProofView): string {
+  const { signOff: _signOff, foreman: _foreman, ...evidence } = view;
+  return sha256Hex(canonicalJson(evidence));
+}
+
+/** A digest as people give it: 64 hex characters in either case, after "sha256:" or the QR prefix or not. */
+export function parseDigest(text: string): string | null {
+  const trimmed = text.trim();
+  const upper = trimmed.toUpperCase();
+  const hex = upper.startsWith(QR_PREFIX) ? trimmed.slice(QR_PREFIX.length) : upper.startsWith('SHA256:') || upper.startsWith('SHA-256:') ? trimmed.slice(trimmed.indexOf(':') + 1) : trimmed;
+  const clean = hex.trim().toLowerCase();
+  return /^[0-9a-f]{64}$/.test(clean) ? clean : null;
+}
+
 /** The string encoded in the QR code for a digest. */
-export function qrPayload(digestHex: string): string {
+export function qrPayload(digestHex: string, publicBase?: string): string {
+  // Upper case keeps the symbol in the compact alphanumeric mode; host names and our routes ignore case.
+  if (publicBase) return `${publicBase.replace(/\/+$/, '')}/PROOFS/${digestHex}`.toUpperCase();
   return `${QR_PREFIX}${digestHex.toUpperCase()}`;
+}
+
+/** The public address of a proof, as printed. */
+export function publicProofUrl(digestHex: string, publicBase: string): string {
+  return `${publicBase.replace(/\/+$/, '')}/proofs/${digestHex}`;
 }
 
 export type DigestCheck =

@@ -92,8 +92,8 @@ export class Flow {
     const limit = width - 0.5;
     const space = this.measureWord(' ', font, size);
     const lines: string[] = [];
-    for (const paragraph of text.split(/\r?\n/)) {
-      const words = paragraph.split(/ +/).filter((w) => w.length > 0);
+    for (const paragraph of text.split(/\r\n|[\n\r\u2028\u2029]/)) {
+      const words = paragraph.split(/[ \t]+/).filter((w) => w.length > 0);
       if (words.length === 0) {
         lines.push('');
         continue;
@@ -111,11 +111,18 @@ export class Flow {
         let rest = word;
         let restWidth = w;
         while (restWidth > limit) {
-          let cut = rest.length - 1;
-          while (cut > 1 && this.measureWord(rest.slice(0, cut), font, size) > limit) cut -= 1;
+          // The longest head that fits, found by halving (a word can be thousands of characters long).
+          let lo = 1;
+          let hi = rest.length - 1;
+          while (lo < hi) {
+            const mid = Math.ceil((lo + hi) / 2);
+            if (this.doc.font(fonts()[font]).fontSize(size).widthOfString(rest.slice(0, mid)) <= limit) lo = mid;
+            else hi = mid - 1;
+          }
+          const cut = Math.max(1, lo);
           lines.push(rest.slice(0, cut));
           rest = rest.slice(cut);
-          restWidth = this.measureWord(rest, font, size);
+          restWidth = this.doc.font(fonts()[font]).fontSize(size).widthOfString(rest);
         }
         line = rest;
         lineWidth = restWidth;

@@ -11,7 +11,7 @@ import { latestTime } from './format';
 import { Flow } from './layout';
 import { drawCautions, drawDigest, drawSignOff, drawVerification } from './sections-close';
 import { drawConcern, drawHead, drawVehicle } from './sections-head';
-import { drawDiagnosis, drawRepairs, drawRootCause } from './sections-work';
+import { drawCauses, drawDiagnosis, drawRepairs } from './sections-work';
 import { MARGIN, PAPER, fonts } from './theme';
 import { validateProofView } from './validate';
 import type { PaperSize, ProofView, RenderOptions } from './view';
@@ -23,7 +23,7 @@ const SECTIONS: Array<(ctx: RenderContext) => void> = [
   drawVehicle,
   drawConcern,
   drawDiagnosis,
-  drawRootCause,
+  drawCauses,
   drawRepairs,
   drawVerification,
   drawSignOff,
@@ -43,6 +43,9 @@ export interface RenderedProof {
 function optionFindings(options: RenderOptions): Finding[] {
   if (options.paper !== undefined && !PAPER_SIZES.includes(options.paper)) {
     return [{ code: 'options.paper', path: '/options/paper', message: `paper must be one of ${PAPER_SIZES.join(', ')}` }];
+  }
+  if (options.publicBase !== undefined && !/^https?:\/\/[A-Za-z0-9.:[\]-]+$/.test(options.publicBase)) {
+    return [{ code: 'options.public_base', path: '/options/publicBase', message: 'an origin such as https://bay.example.org (scheme and host, no path)' }];
   }
   return [];
 }
@@ -88,6 +91,7 @@ async function renderValid(view: ProofView, options: RenderOptions): Promise<Ren
     circuits: new Map(view.circuits.map((c) => [c.id, c])),
     steps: new Map(view.diagnosis.map((s) => [s.id, s])),
     sectionNumber: 0,
+    ...(options.publicBase ? { publicBase: options.publicBase } : {}),
   };
   // The head is not numbered; every later section is.
   SECTIONS.forEach((draw, i) => {

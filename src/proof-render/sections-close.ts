@@ -1,12 +1,12 @@
 /** Verification, sign-off, safety cautions and the evidence digest. */
 import QRCode from 'qrcode';
 import { circuitName, heading, notice, type RenderContext } from './blocks';
-import { chartStartHeight, drawCircuitChart } from './chart';
-import { qrPayload } from './digest';
+import { chartStartHeight, drawCircuitChart, isCharted } from './chart';
+import { evidenceDigest, publicProofUrl, qrPayload } from './digest';
 import { conditionLines, formatRange, formatTime, formatTimeOr, personLine, sameConditions } from './format';
 import type { Block } from './layout';
 import { correctionSpan, supersededCell, testCell } from './sections-work';
-import { approvalStatus } from './sections-head';
+import { approvalStatus, latestChecks } from './sections-head';
 import { drawTable, tableStartHeight, type TableSpec } from './table';
 import { COLOR, SIZE } from './theme';
 
@@ -26,10 +26,11 @@ export function drawVerification(ctx: RenderContext): void {
     ], { strong: true, color: COLOR.fail });
     return;
   }
+  const latestIds = new Set(latestChecks(view).map((c) => c.id));
   const spec: TableSpec = {
     caption: 'Verification after the repair',
     columns: [
-      { title: 'Check', width: 40 },
+      { title: 'Check', width: 52 },
       { title: 'Test repeated and conditions', width: 'flex' },
       { title: 'Expected', width: 72 },
       { title: 'Before', width: 62 },
@@ -37,29 +38,37 @@ export function drawVerification(ctx: RenderContext): void {
       { title: 'Result', width: 48 },
     ],
     rows: view.verification.map((c) => {
-      const repeated = ctx.steps.get(c.repeatsStepId)!;
-      const conditions = sameConditions(c.request, repeated.request)
-        ? [`Same conditions as diagnostic step ${repeated.seq}`]
-        : [`Repeats diagnostic step ${repeated.seq}, now:`, ...conditionLines(c.request)];
+      const repeated = c.repeatsStepId === null ? undefined : ctx.steps.get(c.repeatsStepId);
+      const conditions = !repeated
+        ? ['Not a repeat of a diagnostic step:', ...conditionLines(c.request)]
+        : sameConditions(c.request, repeated.request)
+          ? [`Same conditions as diagnostic step ${repeated.seq}`]
+          : [`Repeats diagnostic step ${repeated.seq}, now:`, ...conditionLines(c.request)];
+      const taken = [...latestIds].includes(c.id) ? [] : [{ text: 'taken again later', size: SIZE.small, color: COLOR.muted, gap: 2 }];
       return {
         cells: [
-          [{ text: String(c.seq), font: 'bold', size: T }],
+          [{ text: String(c.seq), font: 'bold', size: T }, ...(c.provesFix ? [{ text: 'PROVES FIX', font: 'bold' as const, size: SIZE.small - 1.5, gap: 2 }] : [])],
           testCell(c.title, circuitName(ctx, c.circuitId), conditions, c.takenAt, c.takenBy),
-          [{ text: formatRange(c.expected), size: T }],
-          [{ text: c.before.entered, size: T + 1 }],
+          [{ text: c.expected ? formatRange(c.expected) : 'no band set', size: T }],
+          [{ text: c.before ? c.before.entered : '—', size: T + 1 }],
           [{ text: c.after.entered, font: 'bold', size: T + 1 }, ...supersededCell(c.superseded)],
-          [{ text: c.pass ? 'PASS' : 'FAIL', font: 'bold', size: T, badge: c.pass ? COLOR.pass : COLOR.fail }],
+          c.pass === null
+            ? [{ text: 'no band', size: T, color: COLOR.muted }]
+            : [{ text: c.pass ? 'PASS' : 'FAIL', font: 'bold', size: T, badge: c.pass ? COLOR.pass : COLOR.fail }, ...taken],
         ],
         span: [...correctionSpan(c.superseded), ...(c.note ? [{ text: `Note: ${c.note}`, size: SIZE.small, gap: 1 }] : [])],
       };
     }),
   };
   heading(ctx, 'Verification after the repair', tableStartHeight(flow, spec));
+  flow.paragraph({ text: 'PROVES FIX marks a repeat of a reading that decided the root cause: the same test, after the repair, where the healthy circuit reads.', size: SIZE.small, color: COLOR.muted });
+  flow.y += 3;
   drawTable(flow, spec);
 
   const panels = view.circuits
-    .map((circuit) => ({ circuit, checks: view.verification.filter((c: VerificationCheck) => c.circuitId === circuit.id) }))
+    .map((circuit) => ({ circuit, checks: view.verification.filter((c: VerificationCheck) => c.circuitId === circuit.id && latestIds.has(c.id)).filter(isCharted) }))
     .filter((p) => p.checks.length > 0);
+  if (panels.length === 0) return;
   flow.y += 12;
   flow.ensure(flow.lineHeight(SIZE.body + 1) + 4 + chartStartHeight(flow, panels[0]!.checks));
   flow.paragraph({ text: 'Before and after, by circuit', font: 'bold', size: SIZE.body + 1 });
@@ -82,7 +91,10 @@ export function drawSignOff(ctx: RenderContext): void {
       ? { text: 'Not signed', font: 'bold', size: SIZE.body, color: COLOR.fail, gap: 2 }
       : { text: `Signed ${formatTime(at)}`, size: SIZE.body, gap: 2 },
   ];
-  const cols = [cell('Technician', personLine(view.technician), s.technicianSignedAt), cell('Foreman', personLine(view.foreman), s.foremanSignedAt)];
+  const cols = [
+    cell('Technician', view.technician ? personLine(view.technician) : 'nobody recorded', s.technicianSignedAt),
+    cell('Foreman', view.foreman ? personLine(view.foreman) : 'no foreman decision yet', s.foremanSignedAt),
+  ];
   const laid = cols.map((blocks) => blocks.map((b) => flow.lay(b, colW)));
   const h = Math.max(...laid.map((l) => l.reduce((a, b) => a + b.height, 0))) + 6;
   flow.ensure(h);
@@ -95,6 +107,8 @@ export function drawSignOff(ctx: RenderContext): void {
   const status = approvalStatus(view);
   const latest = s.decisions[s.decisions.length - 1];
   const blocks: Block[] = [{ text: status.text, font: 'bold', size: SIZE.body + 2, color: status.good ? COLOR.pass : COLOR.fail }];
+  if (latest?.evidenceDigest) blocks.push({ text: `Decided on evidence sha256:${latest.evidenceDigest}`, font: 'mono', size: SIZE.small, gap: 3 });
+  blocks.push({ text: `This document's evidence: sha256:${evidenceDigest(view)}`, font: 'mono', size: SIZE.small, gap: 2 });
   if (latest?.comment) blocks.push({ text: `Foreman's comment: ${latest.comment}`, size: SIZE.body, gap: 3 });
   notice(flow, blocks, { strong: true, color: status.good ? COLOR.pass : COLOR.fail });
   if (s.decisions.length > 1) {
@@ -102,7 +116,7 @@ export function drawSignOff(ctx: RenderContext): void {
     flow.paragraph({ text: 'Earlier decisions', font: 'bold', size: SIZE.small });
     s.decisions.slice(0, -1).forEach((d) => {
       flow.paragraph({
-        text: `${formatTimeOr(d.at, '')}: ${DECISION_WORDS[d.decision]} by ${d.by}${d.comment ? `: ${d.comment}` : ''}`,
+        text: `${formatTimeOr(d.at, '')}: ${DECISION_WORDS[d.decision]} by ${d.by}${d.evidenceDigest ? ` (evidence sha256:${d.evidenceDigest})` : ''}${d.comment ? `: ${d.comment}` : ''}`,
         size: SIZE.small,
       });
     });
@@ -158,7 +172,7 @@ export function drawCautions(ctx: RenderContext): void {
 
 export function drawDigest(ctx: RenderContext): void {
   const { flow, digest } = ctx;
-  const qr = QRCode.create(qrPayload(digest), { errorCorrectionLevel: 'M' });
+  const qr = QRCode.create(qrPayload(digest, ctx.publicBase), { errorCorrectionLevel: 'M' });
   const n = qr.modules.size;
   const quiet = 4; // ISO/IEC 18004 quiet zone, in modules
   const module = 2.3;
@@ -169,10 +183,13 @@ export function drawDigest(ctx: RenderContext): void {
   const blocks: Block[] = [
     { text: 'SHA-256 of the RFC 8785 canonical JSON of everything this document states:', size: SIZE.body },
     { text: digest, font: 'mono', size: SIZE.body - 0.5, gap: 4 },
-    {
-      text: 'To check this proof, hash the same proof data again (for example through the verification service) and compare all 64 characters. The QR code carries the same digest.',
-      size: SIZE.small, color: COLOR.muted, gap: 6,
-    },
+    ...(ctx.publicBase
+      ? [
+          { text: 'Check this document, without an account, at:', size: SIZE.small, gap: 6 },
+          { text: publicProofUrl(digest, ctx.publicBase), font: 'mono' as const, size: SIZE.small, gap: 1 },
+          { text: 'The page says whether the issuing shop knows this digest, for which repair order and vehicle, and whether the document is still current. The QR code carries the same address.', size: SIZE.small, color: COLOR.muted, gap: 3 },
+        ]
+      : [{ text: 'To check this proof, hash the same proof data again (for example through the verification service) and compare all 64 characters. The QR code carries the same digest.', size: SIZE.small, color: COLOR.muted, gap: 6 }]),
   ];
   let y = top;
   for (const b of blocks) y += flow.drawBlock(flow.lay(b, textW), flow.left, y, textW);

@@ -4,24 +4,39 @@ import { formatTimeOr, personLine } from './format';
 import { drawStack, stackHeight, type Block } from './layout';
 import { drawTable } from './table';
 import { COLOR, SIZE } from './theme';
-import type { ProofView, TroubleCode, VinCheck } from './view';
+import { evidenceDigest } from './digest';
+import type { CodeCheckMethod, ProofView, TroubleCode, VinCheck } from './view';
 
 export interface Status {
   text: string;
   good: boolean;
 }
 
+/** The latest check of each test repeated after the repair: an earlier one taken again counts no more. */
+export function latestChecks(view: ProofView): ProofView['verification'] {
+  const latest = new Map<string, ProofView['verification'][number]>();
+  for (const c of view.verification) latest.set(`${c.circuitId}|${c.repeatsStepId ?? c.id}`, c);
+  return [...latest.values()];
+}
+
 export function verificationStatus(view: ProofView): Status {
-  const checks = view.verification;
+  const checks = latestChecks(view).filter((c) => c.pass !== null);
   if (checks.length === 0) return { text: 'NOT VERIFIED: no readings were taken after the repair', good: false };
   const failed = checks.filter((c) => !c.pass).length;
-  if (failed > 0) return { text: `VERIFICATION FAILED: ${failed} of ${checks.length} checks outside the expected range`, good: false };
-  return { text: `Verified: all ${checks.length} checks within the expected range`, good: true };
+  if (failed > 0) return { text: `VERIFICATION FAILED: ${failed} of ${checks.length} checks outside the healthy range`, good: false };
+  if (view.repairOrder.verifiedAt === null) return { text: `NOT YET VERIFIED: ${checks.length} checks within the healthy range so far; the technician has not marked the repair verified`, good: false };
+  return { text: `Verified: the latest reading of all ${checks.length} tests repeated after the repair is within the healthy range`, good: true };
 }
+
+const short = (digest: string) => `sha256:${digest.slice(0, 16)}…`;
 
 export function approvalStatus(view: ProofView): Status {
   const latest = view.signOff.decisions[view.signOff.decisions.length - 1];
-  if (latest?.decision === 'approved') return { text: `Approved by ${latest.by}, ${formatTimeOr(latest.at, '')}`, good: true };
+  if (latest?.decision === 'approved' && latest.evidenceDigest !== evidenceDigest(view)) {
+    const on = latest.evidenceDigest ? ` on evidence ${short(latest.evidenceDigest)}` : '';
+    return { text: `APPROVAL STALE: ${latest.by} approved${on} at ${formatTimeOr(latest.at, '')}; readings, repairs or the status changed since, so it needs a new approval`, good: false };
+  }
+  if (latest?.decision === 'approved') return { text: `Approved by ${latest.by}, ${formatTimeOr(latest.at, '')}, on evidence ${short(latest.evidenceDigest!)} (this document's)`, good: true };
   if (latest?.decision === 'returned') return { text: `NOT YET APPROVED: returned for rework by ${latest.by}, ${formatTimeOr(latest.at, '')}`, good: false };
   if (latest?.decision === 'withdrawn') return { text: `NOT APPROVED: approval withdrawn by ${latest.by}, ${formatTimeOr(latest.at, '')}`, good: false };
   return { text: 'NOT YET APPROVED: no foreman decision recorded', good: false };
@@ -62,8 +77,9 @@ export function drawHead(ctx: RenderContext): void {
     { label: 'Opened', value: [{ text: formatTimeOr(ro.openedAt, '') }] },
     { label: 'Repaired', value: [{ text: formatTimeOr(ro.repairedAt, 'not repaired yet') }] },
     { label: 'Verified', value: [{ text: formatTimeOr(ro.verifiedAt, 'not verified') }] },
-    { label: 'Technician', value: [{ text: personLine(view.technician) }] },
-    { label: 'Foreman', value: [{ text: personLine(view.foreman) }] },
+    { label: 'Technician', value: [view.technician ? { text: personLine(view.technician) } : { text: 'nobody recorded', color: COLOR.muted }] },
+    { label: 'Foreman', value: [view.foreman ? { text: personLine(view.foreman) } : { text: 'no foreman decision yet', color: COLOR.muted }] },
+    { label: 'Times shown in', value: [{ text: view.shop.timeZone }] },
   ], [1, 1, 1]);
 
   // Status box: verification and approval, in words, visible without reading further.
@@ -102,8 +118,14 @@ export function drawVehicle(ctx: RenderContext): void {
     },
     { label: 'Year, make, model', value: [{ text: `${v.year} ${v.make} ${v.model}` }] },
     { label: 'Engine', value: [{ text: v.engine }] },
-    { label: 'Odometer', value: [{ text: `${groupThousands(v.odometer.value)} ${v.odometer.unit}` }] },
-  ], [1.55, 1.1, 1.1, 0.6]);
+    {
+      label: 'Odometer in / out',
+      value: [
+        { text: `In: ${groupThousands(v.odometer.in)} ${v.odometer.unit}` },
+        v.odometer.out === null ? { text: 'Out: not recorded', color: COLOR.fail } : { text: `Out: ${groupThousands(v.odometer.out)} ${v.odometer.unit}` },
+      ],
+    },
+  ], [1.45, 1.1, 1.05, 0.75]);
 }
 
 export function drawConcern(ctx: RenderContext): void {
@@ -132,6 +154,12 @@ export function drawConcern(ctx: RenderContext): void {
           ],
         }))
       : [{ cells: [[{ text: stage, font: 'bold' as const, size: SIZE.table }], [{ text: '—', size: SIZE.table }], [{ text: 'No codes stored', size: SIZE.table }], [{ text: '', size: SIZE.table }]] }];
+  const after = view.troubleCodes.afterRepair;
+  const afterRows = after.check === null
+    ? [{ cells: [[{ text: 'After repair', font: 'bold' as const, size: SIZE.table }], [{ text: '—', size: SIZE.table }], [{ text: 'NOT RECORDED: nobody recorded reading the codes after the repair', font: 'bold' as const, size: SIZE.table, color: COLOR.fail }], [{ text: '', size: SIZE.table }]] }]
+    : after.codes.length
+      ? rows('After repair', after.codes)
+      : [{ cells: [[{ text: 'After repair', font: 'bold' as const, size: SIZE.table }], [{ text: '—', size: SIZE.table }], [{ text: 'No codes returned', size: SIZE.table }], [{ text: '', size: SIZE.table }]] }];
   drawTable(flow, {
     caption: 'Trouble codes',
     columns: [
@@ -140,9 +168,23 @@ export function drawConcern(ctx: RenderContext): void {
       { title: 'Description', width: 'flex' },
       { title: 'Status', width: 66 },
     ],
-    rows: [...rows('Before repair', view.troubleCodes.found), ...rows('After repair', view.troubleCodes.afterRepair)],
+    rows: [...rows('Before repair', view.troubleCodes.found), ...afterRows],
   });
+  if (after.check) {
+    const c = after.check;
+    flow.y += 3;
+    flow.paragraph({
+      text: `Codes after the repair read ${formatTimeOr(c.checkedAt, '')}: ${METHOD_WORDS[c.method](c.keyCycles)}.${c.note ? ` ${c.note}` : ''}`,
+      size: SIZE.small,
+    });
+  }
 }
+
+const METHOD_WORDS: Record<CodeCheckMethod, (keyCycles: number | null) => string> = {
+  cleared_then_key_cycles: (n) => `codes cleared, then read again after ${n ?? 'several'} key cycle${n === 1 ? '' : 's'}`,
+  road_test: () => 'codes cleared, then read again after a road test',
+  rescanned: () => 'codes read again with the scan tool after the repair (not cleared first)',
+};
 
 /** "84215" → "84,215" without locale data (the integer part only). */
 export function groupThousands(value: number): string {

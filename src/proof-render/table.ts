@@ -82,15 +82,17 @@ export function drawTable(flow: Flow, spec: TableSpec): void {
   const rows = spec.rows.map((r) => layRow(flow, r, widths));
   const headH = headerHeight(flow, spec, widths);
   const capH = flow.lineHeight(SIZE.small) + 2;
-  // Keep the header with the first row.
-  flow.ensure(headH + (rows[0]?.height ?? 0));
+  // Keep the header with the first row (with its first lines, when the row is taller than a page).
+  flow.ensure(Math.min(headH + (rows[0]?.height ?? 0), headH + 6 * flow.lineHeight(SIZE.table)));
   drawHeader(flow, spec, widths, false);
   rows.forEach((row, index) => {
     if (flow.y + row.height > flow.bottom + 0.01) {
-      flow.newPage();
-      if (capH + headH + row.height > flow.bottom - flow.y) {
-        throw new Error(`table "${spec.caption}": row ${index + 1} is taller than a page`);
+      if (capH + headH + row.height > flow.bottom - flow.top) {
+        // Taller than a page: the row continues, line by line, on the pages after.
+        drawRowAcrossPages(flow, spec, widths, row, headH + capH);
+        return;
       }
+      flow.newPage();
       drawHeader(flow, spec, widths, true);
     }
     if (index % 2 === 1) flow.doc.save().rect(flow.left, flow.y, flow.width, row.height).fill(COLOR.bandFill).restore();
@@ -106,6 +108,66 @@ export function drawTable(flow: Flow, spec: TableSpec): void {
     flow.y += row.height;
     flow.rule(flow.y, 0.5, COLOR.rule);
   });
+}
+
+interface LineItem {
+  block: LaidBlock;
+  height: number;
+}
+
+/** A stack of blocks as single lines (a badge stays whole), so a row can break between any two lines. */
+function lineItems(flow: Flow, blocks: LaidBlock[]): LineItem[] {
+  return blocks.flatMap((b) => {
+    if (b.badge) return [{ block: b, height: b.height }];
+    const lh = flow.lineHeight(b.size);
+    return b.lines.map((line, i) => {
+      const gap = i === 0 ? (b.gap ?? 0) : 0;
+      return { block: { ...b, lines: [line], gap, height: gap + lh }, height: gap + lh };
+    });
+  });
+}
+
+function drawRowAcrossPages(flow: Flow, spec: TableSpec, widths: number[], row: LaidRow, headerSpace: number): void {
+  const columns = row.cells.map((blocks) => lineItems(flow, blocks));
+  const span = lineItems(flow, row.span);
+  const spanWidth = widths.slice(1).reduce((s, w) => s + w, 0) - 2 * PAD_X;
+  // Start on this page when a few lines still fit, else on the next.
+  if (flow.bottom - flow.y < 6 * flow.lineHeight(SIZE.table)) {
+    flow.newPage();
+    drawHeader(flow, spec, widths, true);
+  }
+  for (let first = true; columns.some((q) => q.length) || span.length; first = false) {
+    if (!first) {
+      flow.newPage();
+      drawHeader(flow, spec, widths, true);
+    }
+    const top = flow.y + PAD_Y;
+    const limit = flow.bottom - PAD_Y;
+    let bottom = top;
+    let x = flow.left;
+    columns.forEach((queue, i) => {
+      let y = top;
+      while (queue.length && (y + queue[0]!.height <= limit || y === top)) {
+        const item = queue.shift()!;
+        flow.drawBlock(item.block, x + PAD_X, y, widths[i]! - 2 * PAD_X);
+        y += item.height;
+      }
+      bottom = Math.max(bottom, y);
+      x += widths[i]!;
+    });
+    if (columns.every((q) => q.length === 0)) {
+      let y = bottom + (span.length ? PAD_Y : 0);
+      while (span.length && (y + span[0]!.height <= limit || y === top)) {
+        const item = span.shift()!;
+        flow.drawBlock(item.block, flow.left + widths[0]! + PAD_X, y, spanWidth);
+        y += item.height;
+      }
+      bottom = Math.max(bottom, y);
+    }
+    flow.y = bottom + PAD_Y;
+    flow.rule(flow.y, 0.5, COLOR.rule);
+  }
+  void headerSpace;
 }
 
 /** Height of the whole table on one page (for short tables kept together with what precedes them). */

@@ -6,6 +6,7 @@
 import type { MeasurementRequest } from '../engine/vocabulary';
 import { issueCode } from '../engine/request-schema';
 import type { Finding } from './findings';
+import { evidenceDigest } from './digest';
 import { proofViewSchema } from './schema';
 import { convertTo, nearlyEqual } from './units';
 import { computeCheckDigit } from '../engine/vin';
@@ -146,14 +147,19 @@ const RULES: Rule[] = [
     });
     v.verification.forEach((c, i) => {
       if (!circuits.has(c.circuitId)) out.push(f('ref.unknown_circuit', `/verification/${i}/circuitId`, `no circuit "${c.circuitId}"`));
-      if (!steps.has(c.repeatsStepId)) out.push(f('ref.unknown_step', `/verification/${i}/repeatsStepId`, `no diagnostic step "${c.repeatsStepId}"`));
+      if (c.repeatsStepId !== null && !steps.has(c.repeatsStepId)) out.push(f('ref.unknown_step', `/verification/${i}/repeatsStepId`, `no diagnostic step "${c.repeatsStepId}"`));
     });
-    if (v.rootCause) {
-      if (!circuits.has(v.rootCause.circuitId)) out.push(f('ref.unknown_circuit', '/rootCause/circuitId', `no circuit "${v.rootCause.circuitId}"`));
-      v.rootCause.decidingStepIds.forEach((sid, i) => {
-        if (!steps.has(sid)) out.push(f('ref.unknown_step', `/rootCause/decidingStepIds/${i}`, `no diagnostic step "${sid}"`));
+    v.causes.forEach((c, i) => {
+      if (!circuits.has(c.circuitId)) out.push(f('ref.unknown_circuit', `/causes/${i}/circuitId`, `no circuit "${c.circuitId}"`));
+      if (c.proven && c.cause === null) out.push(f('cause.proven_without_cause', `/causes/${i}/cause`, 'a proven cause names the cause'));
+      if (!c.proven && c.cause !== null) out.push(f('cause.unproven_named', `/causes/${i}/cause`, 'a cause that is not proven is not printed as the root cause; list it among the leading candidates'));
+      c.decidingStepIds.forEach((sid, j) => {
+        if (!steps.has(sid)) out.push(f('ref.unknown_step', `/causes/${i}/decidingStepIds/${j}`, `no diagnostic step "${sid}"`));
       });
-    }
+    });
+    v.repairs.forEach((r, i) => {
+      if (r.circuitId !== null && !circuits.has(r.circuitId)) out.push(f('ref.unknown_circuit', `/repairs/${i}/circuitId`, `no circuit "${r.circuitId}"`));
+    });
     return out;
   },
   (v) =>
@@ -167,14 +173,15 @@ const RULES: Rule[] = [
     v.verification.flatMap((c, i) => {
       const base = `/verification/${i}`;
       const out = [
-        ...readingFindings(c.before, `${base}/before`),
+        ...(c.before ? readingFindings(c.before, `${base}/before`) : []),
         ...readingFindings(c.after, `${base}/after`),
-        ...rangeFindings(c.expected, c.after.siUnit, `${base}/expected`),
+        ...(c.expected ? rangeFindings(c.expected, c.after.siUnit, `${base}/expected`) : []),
         ...requestFindings(c.request, c.after.siUnit, `${base}/request`),
         ...supersededFindings(c.superseded, `${base}/superseded`),
       ];
-      if (c.before.siUnit !== c.after.siUnit) out.push(f('verification.unit_changed', `${base}/after/siUnit`, `before is in ${c.before.siUnit}, after in ${c.after.siUnit}`));
-      if (out.length === 0 && inRange(c.after.si, c.after.siUnit, c.expected) !== c.pass) {
+      if (c.before && c.before.siUnit !== c.after.siUnit) out.push(f('verification.unit_changed', `${base}/after/siUnit`, `before is in ${c.before.siUnit}, after in ${c.after.siUnit}`));
+      if ((c.expected === null) !== (c.pass === null)) out.push(f('verification.pass_without_band', `${base}/pass`, 'a check passes or fails against a band: both set, or both null'));
+      else if (out.length === 0 && c.expected && inRange(c.after.si, c.after.siUnit, c.expected) !== c.pass) {
         out.push(f('verification.pass_disagrees', `${base}/pass`, `pass is ${c.pass} but ${c.after.entered} is ${c.pass ? 'outside' : 'inside'} the expected range`));
       }
       return out;
@@ -189,6 +196,8 @@ const RULES: Rule[] = [
     const latest = d[d.length - 1];
     if (v.signOff.foremanSignedAt !== null && latest?.decision !== 'approved') {
       out.push(f('sign_off.foreman_signed_without_approval', '/signOff/foremanSignedAt', 'the foreman signs only with an approval as the latest decision'));
+    } else if (v.signOff.foremanSignedAt !== null && latest?.evidenceDigest !== evidenceDigest(v)) {
+      out.push(f('sign_off.foreman_signed_stale_approval', '/signOff/foremanSignedAt', 'the approval was given on other evidence than this document states: it is stale, not a signature'));
     }
     return out;
   },

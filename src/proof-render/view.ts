@@ -9,27 +9,27 @@
 import type { CircuitUnderTestKind, MeasurementRequest } from '../engine/vocabulary';
 
 /** Version tag of this view shape; part of the digested data, so a later shape can never collide with this one. */
-export const PROOF_FORMAT = 'tracebay.proof/1' as const;
+export const PROOF_FORMAT = 'tracebay.proof/2' as const;
 
 export interface ProofView {
   /** Always `PROOF_FORMAT`. */
   format: typeof PROOF_FORMAT;
   shop: Shop;
   repairOrder: RepairOrderHead;
-  /** Technician who diagnosed and repaired. */
-  technician: Person;
-  /** Foreman who reviews the diagnosis and approves the proof. */
-  foreman: Person;
+  /** Technician who diagnosed and repaired; null when nobody has acted as one on the order. */
+  technician: Person | null;
+  /** Foreman whose decision is the latest; null while no foreman has decided anything (nobody is named then). */
+  foreman: Person | null;
   vehicle: Vehicle;
   /** The three Cs, as written on the repair order (free text, may be long; wraps). */
   concern: { complaint: string; cause: string; correction: string };
-  troubleCodes: { found: TroubleCode[]; afterRepair: TroubleCode[] };
+  troubleCodes: { found: TroubleCode[]; afterRepair: CodesAfterRepair };
   /** The sensor circuits the work touched; diagnostic steps and verification checks refer to them by `id`. */
   circuits: Circuit[];
   /** The diagnostic path in the order the tests were taken (`seq` strictly increasing). */
   diagnosis: DiagnosticStep[];
-  /** The engine's conclusion, or null while none is established (printed as such). */
-  rootCause: RootCause | null;
+  /** Per circuit diagnosed: the cause the engine proved, or "not proven" with the leading candidates. */
+  causes: CircuitCause[];
   /** What was done, in order; empty prints "no repair recorded". */
   repairs: RepairAction[];
   /** Tests repeated after the repair; empty prints "not verified". */
@@ -41,8 +41,10 @@ export interface ProofView {
 
 export interface Shop {
   name: string;
-  /** Postal address, one line per entry (1–4 lines). */
+  /** Postal address, one line per entry (0–4 lines). */
   addressLines: string[];
+  /** IANA name of the zone every time on the document is printed in, e.g. "Europe/Berlin". */
+  timeZone: string;
   /** Optional phone number, printed as given. */
   phone?: string;
 }
@@ -77,7 +79,18 @@ export interface Vehicle {
   model: string;
   /** Engine description, e.g. "2.0 L I4 gasoline". */
   engine: string;
-  odometer: { value: number; unit: 'km' | 'mi' };
+  /** Odometer when the vehicle came in, and when it left (null while not recorded). */
+  odometer: { in: number; out: number | null; unit: 'km' | 'mi' };
+}
+
+/** How the codes after the repair were read: cleared and read again after key cycles, a road test, or a re-scan. */
+export const CODE_CHECK_METHODS = ['cleared_then_key_cycles', 'road_test', 'rescanned'] as const;
+export type CodeCheckMethod = (typeof CODE_CHECK_METHODS)[number];
+
+export interface CodesAfterRepair {
+  /** Null while nobody recorded a read of the codes after the repair: then nothing is claimed about them. */
+  check: { method: CodeCheckMethod; keyCycles: number | null; checkedAt: string; note?: string } | null;
+  codes: TroubleCode[];
 }
 
 export const DTC_STATUSES = ['current', 'pending', 'history'] as const;
@@ -162,17 +175,28 @@ export interface DiagnosticStep {
   note?: string;
 }
 
-export interface RootCause {
+export interface Candidate {
   /** The engine's hypothesis code, e.g. "signal_open". */
   code: string;
   /** Printed statement, e.g. "Open in the signal wire between sensor and module". */
   label: string;
   /** Posterior probability from the engine, 0–1. */
   probability: number;
+}
+
+/**
+ * What the diagnosis of one circuit established. `proven`: the engine reached its threshold and `cause` is the root
+ * cause; otherwise `cause` is null and the document prints "not proven" with the `leading` candidates.
+ */
+export interface CircuitCause {
   circuitId: string;
-  /** Ids of the diagnostic steps whose readings decided it (at least one). */
+  proven: boolean;
+  cause: Candidate | null;
+  leading: Candidate[];
+  /** Ids of the diagnostic steps whose readings decided it (empty when not proven). */
   decidingStepIds: string[];
-  explanation?: string;
+  /** What to do instead of a repair (nothing proven, or no fault found now). */
+  advice?: string;
 }
 
 export interface Part {
@@ -183,6 +207,10 @@ export interface Part {
 }
 
 export interface RepairAction {
+  /** The circuit repaired, or null for a repair not on one circuit. */
+  circuitId: string | null;
+  /** Labour: clock-on and clock-off, and the minutes (as entered, or between the two). */
+  labour: { clockOnAt: string | null; clockOffAt: string | null; minutes: number | null };
   /** What was done, e.g. "Spliced signal wire with solder and heat-shrink sleeve". */
   action: string;
   /** Where on the circuit, e.g. "Signal wire, 12 cm from the sensor connector". */
@@ -198,17 +226,20 @@ export interface VerificationCheck {
   /** Position in the verification, 1-based, strictly increasing through the array. */
   seq: number;
   circuitId: string;
-  /** The diagnostic step this check repeats. */
-  repeatsStepId: string;
+  /** The diagnostic step this check repeats; null for an after-repair reading that repeats none. */
+  repeatsStepId: string | null;
   title: string;
   request: MeasurementRequest;
-  /** The reading before the repair (normally the repeated step's reading). */
-  before: Reading;
+  /** The reading before the repair (the repeated step's reading); null when it repeats none. */
+  before: Reading | null;
   /** The reading after the repair. */
   after: Reading;
-  expected: ExpectedRange;
-  /** Whether `after` lies in `expected` (validated against the numbers). */
-  pass: boolean;
+  /** Where the healthy circuit reads; null when the test has no band. */
+  expected: ExpectedRange | null;
+  /** Whether `after` lies in `expected` (validated against the numbers); null without a band. */
+  pass: boolean | null;
+  /** It repeats a reading that decided the cause: this check is what proves the fix. */
+  provesFix: boolean;
   takenAt: string;
   takenBy: string;
   /** Earlier after-repair entries that `after` replaced, oldest first. */
@@ -226,6 +257,8 @@ export interface ForemanDecision {
   at: string;
   /** Required when returned or withdrawn; optional when approved. */
   comment?: string;
+  /** SHA-256 of the evidence (this document's statements without the sign-off) the decision was taken on. */
+  evidenceDigest?: string;
 }
 
 export interface SignOff {
@@ -250,6 +283,9 @@ export type CautionCode = (typeof CAUTION_CODES)[number];
 export interface RenderOptions {
   /** Paper size; default A4. */
   paper?: PaperSize;
+  /** Address of the issuing service (e.g. "https://bay.example.org"): the QR code and the printed line point at
+   * `<publicBase>/proofs/<digest>`, where anyone can check the document without signing in. */
+  publicBase?: string;
 }
 export const PAPER_SIZES = ['A4', 'LETTER'] as const;
 export type PaperSize = (typeof PAPER_SIZES)[number];

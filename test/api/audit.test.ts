@@ -66,6 +66,9 @@ describe.each(BACKENDS)('audit trail on the %s database', (backend) => {
       body: { circuitId, part: 'signal', action: 'Spliced the signal wire with a sealed crimp sleeve' },
     });
     expect(repair.status, JSON.stringify(repair.body)).toBe(201);
+    // "Verified" needs the deciding reading taken again after the repair, healthy.
+    const retest = await api.call('POST', `/api/repair-orders/${roId}/measurements`, { ...as(TECH_A, 'req-retest'), body: { ...reading, value: 5.0, phase: 'verification' } });
+    expect(retest.status, JSON.stringify(retest.body)).toBe(201);
     expect((await api.call('POST', `/api/repair-orders/${roId}/status`, { ...as(TECH_A, 'req-verified'), body: { to: 'verified' } })).status).toBe(200);
     const review = await api.call('POST', `/api/repair-orders/${roId}/reviews`, { ...as(FOREMAN_A, 'req-review'), body: { decision: 'approved', comment: 'Splice checked' } });
     expect(review.status, JSON.stringify(review.body)).toBe(201);

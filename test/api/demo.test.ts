@@ -37,6 +37,14 @@ describe.each(BACKENDS)('the demo shop on the %s database', (backend) => {
     expect(res.headers.get('content-type')).toBe('application/pdf');
   });
 
+  it('has its closed job approved on the evidence as it stands, not stale', async () => {
+    const list = (await api.call('GET', '/api/repair-orders?status=closed', { user: FOREMAN })).body.items as Array<{ id: string; number: string }>;
+    const job = list.find((o) => o.number === 'KR-24029')!;
+    const approval = (await api.call('GET', `/api/repair-orders/${job.id}/approval`, { user: FOREMAN })).body;
+    expect(approval).toMatchObject({ state: 'approved' });
+    expect(approval.evidenceDigest).toBe(approval.currentEvidenceDigest);
+  });
+
   it('signs every demo person in with the printed password, each passing the NIST SP 800-63B §5.1.1.2 rules', async () => {
     for (const u of DEMO_SIGN_INS) {
       expect(checkPassword(u.password, { email: u.email, name: u.name, shopName: u.shop }), u.email).toEqual([]);

@@ -26,6 +26,8 @@ interface ShopA {
   treeRowId: string;
   userId: string;
   vin: string;
+  /** The public proof check answers everyone by design; a digest no proof of shop A has must tell nothing. */
+  digest: string;
 }
 
 /** A request body valid in itself, so the answer is about the id and not about the body (400 would hide a leak). */
@@ -36,6 +38,7 @@ const BODIES: Record<string, (a: ShopA) => unknown> = {
   'post /api/repair-orders/{id}/measurements': (a) => ({ circuitId: a.circuitId, quantity: 'dc_volts', at: 'signal', against: 'battery_negative', ...koeoBackprobe, value: 4.87, unit: 'V' }),
   'post /api/repair-orders/{id}/repairs': (a) => ({ circuitId: a.circuitId, part: 'signal', action: 'Spliced the signal wire' }),
   'post /api/repair-orders/{id}/reviews': () => ({ decision: 'approved' }),
+  'post /api/repair-orders/{id}/codes-after': () => ({ version: 1, codes: [], method: 'road_test' }),
   'post /api/users/{id}/deactivate': () => undefined,
 };
 
@@ -70,7 +73,7 @@ describe.each(BACKENDS)('shop isolation on every route on the %s database', (bac
     const own = { ...(builtInDocuments()[0] as unknown as Record<string, unknown>), id: 'shop-a-private', title: `Tree ${MARKER}` };
     const tree = await api.call('POST', '/api/fault-trees', { user: FOREMAN_A, body: own });
     expect(tree.status).toBe(201);
-    a = { id: ro.body.id, circuitId: circuit.body.id, treeRowId: tree.body.tree.rowId ?? tree.body.tree.id, userId: TECH_A2, vin: ro.body.vehicle.vin };
+    a = { id: ro.body.id, circuitId: circuit.body.id, treeRowId: tree.body.tree.rowId ?? tree.body.tree.id, userId: TECH_A2, vin: ro.body.vehicle.vin, digest: 'ab'.repeat(32) };
     // What shop B must never read: what shop A typed, its order number, a reading's id, its people and shop name.
     // (The ids B itself sent may come back in a not-found message: B knew them already.)
     markers = [MARKER, ro.body.number, reading.body.id ?? reading.body.items?.[0]?.id, 'Tech One', 'Fore Person', 'Test Bay One'].filter(Boolean);

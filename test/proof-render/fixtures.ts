@@ -4,7 +4,16 @@
  * "X"), and its tenth character K stands for model year 2019.
  */
 import type { MeasurementRequest } from '../../src/engine/vocabulary';
-import type { DiagnosticStep, ProofView, Reading, VerificationCheck } from '../../src/proof-render';
+import { evidenceDigest, type DiagnosticStep, type ProofView, type Reading, type VerificationCheck } from '../../src/proof-render';
+
+/** The view with its latest approval given on exactly its evidence (so the foreman's signature holds). */
+export function approvedOnItsEvidence(view: ProofView): ProofView {
+  const d = view.signOff.decisions;
+  const last = d[d.length - 1];
+  if (last?.decision !== 'approved') return view;
+  const digest = evidenceDigest(view);
+  return { ...view, signOff: { ...view.signOff, foremanSignedAt: last.at, decisions: [...d.slice(0, -1), { ...last, evidenceDigest: digest }] } };
+}
 
 /** A reading as entered, with its SI value written out by hand (no conversion code involved). */
 export function rd(entered: string, value: number | null, unit: string, si: number | null, siUnit: string): Reading {
@@ -84,7 +93,7 @@ function buildSample(): ProofView {
 
   const check = (id: string, seq: number, step: DiagnosticStep, after: Reading, takenAt: string, extra: Partial<VerificationCheck> = {}): VerificationCheck => ({
     id, seq, circuitId: step.circuitId, repeatsStepId: step.id, title: step.title, request: step.request,
-    before: step.reading, after, expected: step.expected!, pass: true, takenAt, takenBy: TECH, superseded: [], ...extra,
+    before: step.reading, after, expected: step.expected!, pass: true, provesFix: ['d4', 'd5', 'd6'].includes(step.id), takenAt, takenBy: TECH, superseded: [], ...extra,
   });
   const verification: VerificationCheck[] = [
     check('v1', 1, diagnosis[5]!, rd('0.3 Ω', 0.3, 'Ω', 0.3, 'Ω'), '2025-03-11T13:02:00-05:00'),
@@ -99,13 +108,13 @@ function buildSample(): ProofView {
     check('v5', 5, diagnosis[6]!, volts(0.81), '2025-03-11T13:24:00-05:00'),
   ];
 
-  return {
-    format: 'tracebay.proof/1',
-    shop: { name: 'Kestrelmoor Auto Service', addressLines: ['27 Tannery Lane', 'Ashcombe Vale, 4410'], phone: '+1 555 0142 7788' },
+  return approvedOnItsEvidence({
+    format: 'tracebay.proof/2',
+    shop: { name: 'Kestrelmoor Auto Service', addressLines: ['27 Tannery Lane', 'Ashcombe Vale, 4410'], phone: '+1 555 0142 7788', timeZone: 'America/Chicago' },
     repairOrder: { number: 'RO-25-0311-07', openedAt: '2025-03-11T08:05:00-05:00', repairedAt: '2025-03-11T11:40:00-05:00', verifiedAt: '2025-03-11T13:24:00-05:00' },
     technician: { name: TECH, id: 'T-114' },
     foreman: { name: FOREMAN, id: 'F-03' },
-    vehicle: { vin: '1M8GDM9AXKP042788', vinCheck: 'valid', year: 2019, make: 'Aldercrest', model: 'Pathline LX', engine: '2.0 L I4 gasoline, electronic throttle', odometer: { value: 84215, unit: 'mi' } },
+    vehicle: { vin: '1M8GDM9AXKP042788', vinCheck: 'valid', year: 2019, make: 'Aldercrest', model: 'Pathline LX', engine: '2.0 L I4 gasoline, electronic throttle', odometer: { in: 84215, out: 84222, unit: 'mi' } },
     concern: {
       complaint: 'Check-engine light on, engine stays at a raised idle and the vehicle will not rev above about 2000 rpm (reduced-power mode). Started after the customer drove over a rough level crossing.',
       cause: 'Signal wire of throttle position sensor 1 chafed through against the intake support bracket and broke inside the insulation, so the module saw its own pull-up (signal high).',
@@ -116,25 +125,29 @@ function buildSample(): ProofView {
         { code: 'P0123', description: 'Throttle/pedal position sensor/switch "A" circuit high', status: 'current' },
         { code: 'P2135', description: 'Throttle/pedal position sensor/switch "A"/"B" voltage correlation', status: 'current' },
       ],
-      afterRepair: [],
+      afterRepair: { check: { method: 'cleared_then_key_cycles', keyCycles: 3, checkedAt: '2025-03-11T13:30:00-05:00' }, codes: [] },
     },
     circuits: [
       { id: 'tp1', name: 'Throttle position sensor 1', kind: 'three_wire_5v' },
       { id: 'tp2', name: 'Throttle position sensor 2', kind: 'three_wire_5v' },
     ],
     diagnosis,
-    rootCause: {
-      code: 'signal_open', label: 'Open in the signal wire between throttle position sensor 1 and the module', probability: 0.962, circuitId: 'tp1',
-      decidingStepIds: ['d4', 'd5', 'd6'],
-      explanation: 'Bias present at the module but absent at the sensor, and no continuity through the jumpered signal wire: only an open signal wire explains all three.',
-    },
+    causes: [
+      {
+        circuitId: 'tp1', proven: true, leading: [],
+        cause: { code: 'signal_open', label: 'Open in the signal wire between throttle position sensor 1 and the module', probability: 0.962 },
+        decidingStepIds: ['d4', 'd5', 'd6'],
+      },
+    ],
     repairs: [
       {
+        circuitId: 'tp1', labour: { clockOnAt: '2025-03-11T10:45:00-05:00', clockOffAt: '2025-03-11T11:20:00-05:00', minutes: 35 },
         action: 'Spliced the signal wire with sealed solder sleeves', location: 'Signal wire, 18 cm from the sensor connector, where the harness crosses the intake support bracket',
         parts: [{ number: 'KAS-SS-0510', description: 'Sealed solder sleeve, 0.5–1.0 mm²', quantity: 2 }, { description: 'Automotive wire 0.75 mm², 10 cm', quantity: 1 }],
         by: TECH, at: '2025-03-11T11:20:00-05:00',
       },
       {
+        circuitId: 'tp1', labour: { clockOnAt: null, clockOffAt: null, minutes: 15 },
         action: 'Sleeved the harness and re-secured it on its clip', location: 'Sensor harness, intake support bracket',
         parts: [{ description: 'Split convoluted sleeve, 10 mm, 30 cm', quantity: 1 }], by: TECH, at: '2025-03-11T11:40:00-05:00',
         note: 'Bracket edge deburred; at least 15 mm clearance to the harness at full engine rock.',
@@ -150,7 +163,7 @@ function buildSample(): ProofView {
       ],
     },
     cautions: ['engine_in_bay', 'fused_jumpers_only', 'backprobe_gently'],
-  };
+  });
 }
 
 /** The same job before any after-repair readings: no verification, nothing signed, no foreman decision. */
@@ -160,7 +173,8 @@ export function notVerifiedView(): ProofView {
     ...v,
     repairOrder: { ...v.repairOrder, verifiedAt: null },
     verification: [],
-    troubleCodes: { ...v.troubleCodes, afterRepair: [] },
+    troubleCodes: { ...v.troubleCodes, afterRepair: { check: null, codes: [] } },
+    foreman: null,
     signOff: { technicianSignedAt: null, foremanSignedAt: null, decisions: [] },
   };
 }
@@ -204,30 +218,30 @@ export function manyReadingsView(n = 200): ProofView {
   for (const s of diagnosis) if (s.note === undefined) delete s.note;
   const verification: VerificationCheck[] = diagnosis.slice(0, 12).map((s, i) => ({
     id: `c${i + 1}`, seq: i + 1, circuitId: s.circuitId, repeatsStepId: s.id, title: s.title, request: s.request,
-    before: s.reading, after: s.reading, expected: s.expected!, pass: true, takenAt: '2025-03-12T15:00:00-05:00', takenBy: TECH, superseded: [],
+    before: s.reading, after: s.reading, expected: s.expected!, pass: true, provesFix: false, takenAt: '2025-03-12T15:00:00-05:00', takenBy: TECH, superseded: [],
   }));
-  return {
+  return approvedOnItsEvidence({
     ...base,
     diagnosis,
-    rootCause: { ...base.rootCause!, decidingStepIds: ['s2', 's3'] },
+    causes: [{ ...base.causes[0]!, decidingStepIds: ['s2', 's3'] }],
     verification,
     cautions: ['engine_in_bay', 'fused_jumpers_only', 'backprobe_gently'],
-  };
+  });
 }
 
 /** A typical short job: one circuit, four tests, two checks, approved first time (three pages on A4). */
 export function typicalView(): ProofView {
   const v = sampleView();
   const keep = new Set(['d1', 'd2', 'd4', 'd6']);
-  return {
+  return approvedOnItsEvidence({
     ...v,
-    rootCause: { ...v.rootCause!, decidingStepIds: ['d4', 'd6'], explanation: 'No bias at the sensor end and no continuity through the jumpered signal wire.' },
+    causes: [{ ...v.causes[0]!, decidingStepIds: ['d4', 'd6'] }],
     circuits: v.circuits.filter((c) => c.id === 'tp1'),
     diagnosis: v.diagnosis.filter((s) => keep.has(s.id)),
     verification: v.verification.filter((c) => ['v1', 'v2'].includes(c.id)).map((c) => ({ ...c, superseded: [] })),
     repairs: v.repairs.slice(0, 1),
     repairOrder: { ...v.repairOrder, verifiedAt: '2025-03-11T13:09:00-05:00' },
-    signOff: { ...v.signOff, foremanSignedAt: '2025-03-11T14:05:00-05:00', decisions: [{ decision: 'approved', by: v.foreman.name, at: '2025-03-11T14:05:00-05:00' }] },
+    signOff: { ...v.signOff, foremanSignedAt: '2025-03-11T14:05:00-05:00', decisions: [{ decision: 'approved', by: v.foreman!.name, at: '2025-03-11T14:05:00-05:00' }] },
     cautions: ['fused_jumpers_only', 'backprobe_gently'],
-  };
+  });
 }

@@ -3,10 +3,10 @@ import { createHash } from 'node:crypto';
 import { join } from 'node:path';
 import QRCode from 'qrcode';
 import { afterEach, beforeAll, describe, expect, it, vi } from 'vitest';
-import { CAUTION_TEXT, proofDigest, qrPayload, renderProof, renderProofDetailed, type ProofView, type RenderedProof } from '../../src/proof-render';
+import { CAUTION_TEXT, evidenceDigest, proofDigest, qrPayload, renderProof, renderProofDetailed, type ProofView, type RenderedProof } from '../../src/proof-render';
 import { MARGIN } from '../../src/proof-render/theme';
 import { cleanUp, rasterise, readPdf, readPgm, type PdfRead } from './pdf-tools';
-import { manyReadingsView, notVerifiedView, rd, sampleView } from './fixtures';
+import { approvedOnItsEvidence, manyReadingsView, notVerifiedView, rd, sampleView } from './fixtures';
 
 const sha = (b: Buffer) => createHash('sha256').update(b).digest('hex');
 // pdfjs hands text back NFKC-normalised (the micro sign U+00B5 comes back as Greek mu U+03BC), so compare that way.
@@ -17,7 +17,7 @@ const allText = (read: PdfRead) => nfkc(read.pages.map((p) => p.text).join('\n')
 function readingsOf(view: ProofView): string[] {
   return [
     ...view.diagnosis.flatMap((s) => [s.reading.entered, ...s.superseded.map((x) => x.reading.entered)]),
-    ...view.verification.flatMap((c) => [c.before.entered, c.after.entered, ...c.superseded.map((x) => x.reading.entered)]),
+    ...view.verification.flatMap((c) => [...(c.before ? [c.before.entered] : []), c.after.entered, ...c.superseded.map((x) => x.reading.entered)]),
   ];
 }
 
@@ -39,7 +39,7 @@ describe('what the proof states, read back with pdfjs-dist', () => {
     const view = sampleView();
     expect(text).toContain(view.vehicle.vin);
     expect(text).toContain(view.repairOrder.number);
-    expect(text).toContain('Open in the signal wire between throttle position sensor 1 and the');
+    expect(text.replace(/\s+/g, ' ')).toContain('Open in the signal wire between throttle position sensor 1 and the module');
     expect(text).toContain('96.2 %');
   });
 
@@ -49,8 +49,10 @@ describe('what the proof states, read back with pdfjs-dist', () => {
   });
 
   it('prints the digest recomputed from the view, in full', () => {
+    // The document's digest once; the evidence digest (what the approval was given on) beside the sign-off.
     const printed = allText(sampleRead).match(/\b[0-9a-f]{64}\b/g);
-    expect(printed).toEqual([proofDigest(sampleView())]);
+    expect(printed).toContain(proofDigest(sampleView()));
+    expect(new Set(printed)).toEqual(new Set([proofDigest(sampleView()), evidenceDigest(sampleView())]));
     expect(sample.digest).toBe(proofDigest(sampleView()));
   });
 
@@ -100,8 +102,11 @@ describe('what the proof states, read back with pdfjs-dist', () => {
     const view = sampleView();
     view.verification[0]!.after = rd('7.5 Ω', 7.5, 'Ω', 7.5, 'Ω');
     view.verification[0]!.pass = false;
-    const text = allText(await readPdf(await renderProof(view)));
-    expect(text).toContain('VERIFICATION FAILED: 1 of 5 checks outside the expected range');
+    view.signOff.foremanSignedAt = null;
+    const text = allText(await readPdf(await renderProof(view))).replace(/\s+/g, ' ');
+    expect(text).toContain('VERIFICATION FAILED: 1 of 5 checks outside the healthy range');
+    // The approval was given on the evidence before this change: it is stale, not a signature.
+    expect(text).toContain('APPROVAL STALE');
     expect(text).toContain('FAIL');
   });
 });
@@ -150,14 +155,16 @@ describe('layout', () => {
     }
   });
 
-  it('renders a step with the longest allowed note and six corrections without splitting it', async () => {
+  it('renders a step with the longest note the API accepts and its twenty corrections, continuing it onto the next pages', async () => {
     const view = sampleView();
     const step = view.diagnosis[2]!;
-    step.note = 'word '.repeat(299) + 'end.';
+    step.note = 'word '.repeat(399) + 'end.';
     const correction = step.superseded[0]!;
-    step.superseded = Array.from({ length: 6 }, () => ({ ...correction, reason: 'r '.repeat(98) + 'end' }));
-    const read = await readPdf(await renderProof(view));
-    expect(allText(read)).toContain('Correction 6:');
+    step.superseded = Array.from({ length: 20 }, () => ({ ...correction, reason: 'r '.repeat(998) + 'end' }));
+    const rendered = await renderProofDetailed(approvedOnItsEvidence(view));
+    const read = await readPdf(rendered.pdf);
+    expect(allText(read)).toContain('Correction 20:');
+    expect(rendered.pageCount).toBeGreaterThan(sample.pageCount + 2);
   });
 
   it('draws charts and the QR code as vector paths: the file holds no image', () => {
@@ -186,8 +193,9 @@ describe('deterministic output', () => {
     expect(sampleRead.info.CreationDate).toBe('D:20250311195000Z'); // 14:50 −05:00, the foreman's approval
     expect(sampleRead.info.ModDate).toBe('D:20250311195000Z');
     const id = (pdf: Buffer) => /\/ID \[<([0-9a-f]+)> <([0-9a-f]+)>\]/.exec(pdf.toString('latin1'))?.[1];
-    const other = sampleView();
-    other.diagnosis[1]!.reading = rd('5.02 V', 5.02, 'V', 5.02, 'V');
+    const changed = sampleView();
+    changed.diagnosis[1]!.reading = rd('5.02 V', 5.02, 'V', 5.02, 'V');
+    const other = approvedOnItsEvidence(changed);
     expect(id(sample.pdf)).toMatch(/^[0-9a-f]{32}$/);
     expect(id(await renderProof(sampleView()))).toBe(id(sample.pdf));
     expect(id(await renderProof(other))).not.toBe(id(sample.pdf));

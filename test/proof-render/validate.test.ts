@@ -36,7 +36,9 @@ describe('malformed views give coded, path-addressed findings', () => {
     ['steps out of order', (v) => { v.diagnosis[2]!.seq = 1; }, 'order.seq_not_increasing', '/diagnosis/2/seq'],
     ['a duplicated step id', (v) => { v.diagnosis[2]!.id = 'd1'; }, 'id.duplicate', '/diagnosis/2/id'],
     ['a step on an unknown circuit', (v) => { v.diagnosis[0]!.circuitId = 'map1'; }, 'ref.unknown_circuit', '/diagnosis/0/circuitId'],
-    ['a root cause decided by an unknown step', (v) => { v.rootCause!.decidingStepIds.push('d99'); }, 'ref.unknown_step', '/rootCause/decidingStepIds/3'],
+    ['a root cause decided by an unknown step', (v) => { v.causes[0]!.decidingStepIds.push('d99'); }, 'ref.unknown_step', '/causes/0/decidingStepIds/3'],
+    ['a cause not proven printed as the root cause', (v) => { v.causes[0]!.proven = false; }, 'cause.unproven_named', '/causes/0/cause'],
+    ['a foreman signature on an approval of other evidence', (v) => { v.signOff.decisions[1]!.evidenceDigest = 'ab'.repeat(32); }, 'sign_off.foreman_signed_stale_approval', '/signOff/foremanSignedAt'],
     ['a check that repeats an unknown step', (v) => { v.verification[0]!.repeatsStepId = 'd99'; }, 'ref.unknown_step', '/verification/0/repeatsStepId'],
     ['a pass for a reading outside the band', (v) => { v.verification[0]!.after = rd('7.5 Ω', 7.5, 'Ω', 7.5, 'Ω'); }, 'verification.pass_disagrees', '/verification/0/pass'],
     ['a fail for a reading inside the band', (v) => { v.verification[3]!.pass = false; }, 'verification.pass_disagrees', '/verification/3/pass'],
@@ -50,7 +52,7 @@ describe('malformed views give coded, path-addressed findings', () => {
     ['a jumper without the fused-jumper caution', (v) => { v.cautions = ['engine_in_bay', 'backprobe_gently']; }, 'cautions.missing', '/cautions'],
     ['a caution listed twice', (v) => { v.cautions.push('engine_in_bay'); }, 'cautions.duplicate', '/cautions/3'],
     ['a trouble code not in SAE J2012 form', (v) => { v.troubleCodes.found[0]!.code = 'P01234'; }, 'schema.invalid_format', '/troubleCodes/found/0/code'],
-    ['a note longer than a page can hold', (v) => { v.diagnosis[3]!.note = 'x '.repeat(1000); }, 'schema.too_big', '/diagnosis/3/note'],
+    ['a note longer than the API accepts', (v) => { v.diagnosis[3]!.note = 'x '.repeat(1001); }, 'schema.too_big', '/diagnosis/3/note'],
   ])('reports %s', (_what, edit, code, path) => {
     const view = sampleView();
     edit(view);
@@ -65,7 +67,7 @@ describe('malformed views give coded, path-addressed findings', () => {
     view.cautions = [];
     const error = await renderProof(view).catch((e: unknown) => e);
     expect(error).toBeInstanceOf(ProofViewError);
-    expect((error as ProofViewError).findings.map((f) => f.code)).toEqual(['vin.check_digit_claimed_valid', 'cautions.missing', 'cautions.missing']);
+    expect((error as ProofViewError).findings.map((f) => f.code)).toEqual(['vin.check_digit_claimed_valid', 'sign_off.foreman_signed_stale_approval', 'cautions.missing', 'cautions.missing']);
   });
 
   it.each([

@@ -3,6 +3,7 @@
  * rule lives in one place and the HTTP layer only reports it (with the engine's message) at the right path.
  */
 import { z } from 'zod';
+import { LIMITS } from '../limits';
 import { JumperSchema, MeasurementRequestSchema, measurementRequestFields, refineMeasurementRequest } from '../../engine/request-schema';
 import { parseDtc } from '../../engine/codes';
 import { textProblem, type TextKind } from '../../engine/text';
@@ -26,7 +27,7 @@ export const TroubleCode = z.string().transform((text, ctx) => {
   return z.NEVER;
 });
 
-export const TroubleCodes = z.array(TroubleCode).max(50, 'at most 50 trouble codes');
+export const TroubleCodes = z.array(TroubleCode).max(LIMITS.count.codes, `at most ${LIMITS.count.codes} trouble codes`);
 
 /**
  * Human text: NFC, trimmed, bounded, and checked by the engine's text rules (engine/text.ts). `multiline` (the

@@ -34,6 +34,7 @@ export { TREE_FORMAT } from './tree-schema';
 export { TREE_LIMITS, checkTreeLimits, jsonDepth, treeLimitsTable, type TreeLimitName } from './tree-limits';
 export { requestKey } from './request-key';
 export { healthyOutcome, type HealthyOutcome } from './healthy-outcome';
+export { retestsStillNeeded, type Retest } from './retests';
 export { CAUTION_KINDS } from './cautions';
 export {
   expectedCostOfRepair,

@@ -1,4 +1,7 @@
-import { CanActivate, ExecutionContext, Injectable, SetMetadata } from '@nestjs/common';
+import { CanActivate, ExecutionContext, Inject, Injectable, SetMetadata } from '@nestjs/common';
+import type { Response } from 'express';
+import { APP_CONFIG, type AppConfig } from '../../config/config';
+import { readBody } from '../../common/http/read-body';
 import { Reflector } from '@nestjs/core';
 import { DomainException } from '../../common/errors/domain.exception';
 import { AuthService } from '../auth/auth.service';
@@ -26,11 +29,16 @@ export class ActorGuard implements CanActivate {
   constructor(
     private readonly reflector: Reflector,
     private readonly auth: AuthService,
+    @Inject(APP_CONFIG) private readonly config: AppConfig,
   ) {}
 
   async canActivate(context: ExecutionContext): Promise<boolean> {
-    if (this.reflector.getAllAndOverride<boolean>(PUBLIC, [context.getHandler(), context.getClass()])) return true;
     const request = context.switchToHttp().getRequest<RequestWithCredential>();
+    const response = context.switchToHttp().getResponse<Response>();
+    if (this.reflector.getAllAndOverride<boolean>(PUBLIC, [context.getHandler(), context.getClass()])) {
+      await readBody(request, response, this.config.bodyLimit);
+      return true;
+    }
     const bearer = bearerToken(request);
     const session = bearer ? undefined : readCookie(request, SESSION_COOKIE);
     const secret = bearer ?? session;
@@ -44,6 +52,8 @@ export class ActorGuard implements CanActivate {
     }
     const found = await this.auth.actorFor(secret);
     if (!found) throw unauthenticated('The token or session is unknown, expired or signed out: sign in again.');
+    // Only now, with the caller known, is the body read.
+    await readBody(request, response, this.config.bodyLimit);
     if (session && !SAFE_METHODS.has(request.method)) {
       const body = request.body as Record<string, unknown> | undefined;
       const sent = request.header(CSRF_HEADER) ?? (typeof body?.[CSRF_FIELD] === 'string' ? (body[CSRF_FIELD] as string) : undefined);

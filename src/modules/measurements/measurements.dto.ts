@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { LIMITS } from '../../common/limits';
 import { checkReading } from '../../engine/units';
 import { IsoTime, MeasurementRequestFields, optionalText, PhaseEnum, refineRequest } from '../../common/validation/domain-schemas';
 
@@ -23,7 +24,7 @@ export const MeasurementInput = z
     unit: z.string().max(16),
     meterOhms: z.number().positive('a meter input resistance above 0 Ω').max(1e12).default(10_000_000),
     phase: PhaseEnum.default('diagnosis'),
-    note: optionalText(2000).default(''),
+    note: optionalText(LIMITS.text.readingNote).default(''),
     supersedes: z.uuid().optional().describe('id of the reading this one corrects'),
     clientKey: z
       .string()

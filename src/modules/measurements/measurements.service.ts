@@ -161,10 +161,9 @@ export class MeasurementsService {
         { id: actor.userId, name: actor.name },
         fresh.map((m) => rowFor(m, repairOrderId, actor.userId, now)),
       );
-      if (order.status === 'open') {
-        // The first reading starts the diagnosis.
-        await this.orders.updateAtVersion(tx, repairOrderId, order.version, { status: 'diagnosing' });
-        await this.orders.logStatus(tx, repairOrderId, 'open', 'diagnosing', actor.userId, 'first reading recorded');
+      // The first reading starts the diagnosis; of first readings arriving together, the one that moves the order logs it.
+      if (order.status === 'open' && (await this.orders.updateAtVersion(tx, repairOrderId, order.version, { status: 'diagnosing' })) === 1) {
+        await this.orders.logStatus(tx, repairOrderId, 'open', 'diagnosing', actor.userId, 'first reading recorded', order.version);
       } else {
         await this.orders.touch(tx, repairOrderId);
       }

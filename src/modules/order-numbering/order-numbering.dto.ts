@@ -1,7 +1,8 @@
 import { z } from 'zod';
+import { LIMITS } from '../../common/limits';
 
 /** Longest repair-order number, typed or automatic (prefix + digits). */
-export const ORDER_NUMBER_MAX = 20;
+export const ORDER_NUMBER_MAX = LIMITS.text.orderNumber;
 /** Characters a repair-order number may use (stored upper-case). */
 export const ORDER_NUMBER_CHARACTERS = /^[A-Z0-9][A-Z0-9/-]*$/;
 export const ORDER_NUMBER_RULE = `at most ${ORDER_NUMBER_MAX} characters: letters, digits, "-" and "/", starting with a letter or digit`;

@@ -5,6 +5,7 @@ import { html, type SafeHtml } from './html';
 import { ICON, page } from './layout.view';
 import { diagnosisStatus, orderHeader, proofLink, repairsList, reviewsList } from './parts.view';
 import { percent } from './words';
+import { approvalBanner, type Approval } from './approval.view';
 
 const KIND_WORDS: Record<string, string> = {
   three_wire_5v: 'Three-wire 5 V sensor (reference, signal, ground)',
@@ -69,10 +70,11 @@ function addCircuitForm(order: OrderDetail, prefill: Prefill): SafeHtml {
 
 export function orderPage(
   actor: Actor,
-  data: { order: OrderDetail; circuits: CircuitDiagnosis[]; repairs: RepairItem[]; reviews: ReviewList },
+  data: { order: OrderDetail; circuits: CircuitDiagnosis[]; repairs: RepairItem[]; reviews: ReviewList; approval?: Approval; toMeasure?: Array<{ circuit: string; test: string; state: string }> },
   prefill: Prefill,
 ): SafeHtml {
   const { order, circuits, repairs, reviews } = data;
+  const toMeasure = data.toMeasure ?? [];
   const latest = reviews.latest;
   const finished = order.status === 'verified' || order.status === 'closed';
   const verifications = circuits.flatMap((c) => c.verification);
@@ -81,7 +83,7 @@ export function orderPage(
     { title: order.number, actor, page: 'bay-order', scripts: ['order.js'], back: { href: '/bay', label: 'My repair orders' } },
     html`${orderHeader(order)}
     ${latest?.decision === 'returned' ? html`<p class="notice returned" role="note">${ICON.flag} <strong>Returned by ${latest.by.name}:</strong> ${latest.comment}</p>` : ''}
-    ${latest?.decision === 'approved' ? html`<p class="notice approved" role="note">${ICON.check} <strong>Approved by ${latest.by.name}.</strong> ${latest.comment}</p>` : ''}
+    ${approvalBanner(data.approval, order.status)}
     <section aria-labelledby="circuits-h">
       <h2 id="circuits-h">Circuits under test</h2>
       ${circuits.length ? html`<ul class="circuit-list">${circuits.map((c) => circuitCard(order, c))}</ul>` : html`<p class="empty">No circuit yet: add the one the trouble code points at.</p>`}
@@ -92,9 +94,13 @@ export function orderPage(
       order.status === 'repaired'
         ? html`<section class="panel" aria-labelledby="verify-h"><h2 id="verify-h">Verification</h2>
           <p>${taken} of ${verifications.length} readings taken again after the repair.</p>
+          ${toMeasure.length
+            ? html`<p>Still to take again, and read healthy, before the repair counts as verified:</p>
+              <ul>${toMeasure.map((t) => html`<li>${t.circuit}: ${t.test}${t.state === 'outside_healthy' ? ' (its latest reading still shows the fault)' : ''}</li>`)}</ul>`
+            : ''}
           <form id="verified-form" data-order="${order.id}" data-version="${order.version}">
             <p class="form-error" role="alert" hidden></p>
-            <button class="button primary big" type="submit" ${taken === 0 ? 'disabled' : ''}>Mark the repair verified</button>
+            <button class="button primary big" type="submit" ${toMeasure.length ? 'disabled' : ''}>Mark the repair verified</button>
           </form></section>`
         : ''
     }

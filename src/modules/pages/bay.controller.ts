@@ -2,6 +2,7 @@ import { Controller, Get, Header, Query, UseFilters } from '@nestjs/common';
 import { ApiExcludeController } from '@nestjs/swagger';
 import { UuidParam } from '../../common/validation/zod-input';
 import { CurrentActor, type Actor } from '../identity/actor';
+import { EvidenceService } from '../proofs/evidence.service';
 import { BayService } from './bay.service';
 import { bayHomePage, newOrderPage } from './bay-home.view';
 import { orderPage, wiresPage, type Prefill } from './bay-order.view';
@@ -24,7 +25,10 @@ function prefillFrom(kind: unknown, cavities: unknown): Prefill {
 @UseFilters(PagesErrorFilter)
 @Controller('bay')
 export class BayController {
-  constructor(private readonly bay: BayService) {}
+  constructor(
+    private readonly bay: BayService,
+    private readonly evidence: EvidenceService,
+  ) {}
 
   @Get()
   @Header('Content-Type', 'text/html; charset=utf-8')
@@ -43,7 +47,9 @@ export class BayController {
   @Header('Content-Type', 'text/html; charset=utf-8')
   @Header('Cache-Control', 'no-store')
   async order(@CurrentActor() actor: Actor, @UuidParam('id') id: string, @Query('kind') kind: unknown, @Query('cavities') cavities: unknown) {
-    return orderPage(actor, await this.bay.order(actor, id), prefillFrom(kind, cavities)).value;
+    const data = await this.bay.order(actor, id);
+    const [approval, toMeasure] = await Promise.all([this.evidence.approval(actor, id), data.order.status === 'repaired' ? this.evidence.retests(actor, id) : []]);
+    return orderPage(actor, { ...data, approval, toMeasure }, prefillFrom(kind, cavities)).value;
   }
 
   @Get('orders/:id/wires')

@@ -3,6 +3,7 @@ import { ApiExcludeController } from '@nestjs/swagger';
 import { DomainException } from '../../common/errors/domain.exception';
 import { UuidParam } from '../../common/validation/zod-input';
 import { CurrentActor, type Actor } from '../identity/actor';
+import { EvidenceService } from '../proofs/evidence.service';
 import { BayService } from './bay.service';
 import { AGE_CHOICES, BoardService } from './board.service';
 import { boardPage, reviewPage } from './board.view';
@@ -22,6 +23,7 @@ export class BoardController {
   constructor(
     private readonly board: BoardService,
     private readonly bay: BayService,
+    private readonly evidence: EvidenceService,
   ) {}
 
   @Get()
@@ -45,6 +47,6 @@ export class BoardController {
     const data = await this.bay.order(actor, id);
     foremanOnly(actor);
     const [item] = await this.board.list(actor, { orderId: id });
-    return reviewPage(actor, data, item?.flags ?? []).value;
+    return reviewPage(actor, { ...data, approval: await this.evidence.approval(actor, id) }, item?.flags ?? []).value;
   }
 }

@@ -1,6 +1,7 @@
 import { Injectable } from '@nestjs/common';
 import type { Diagnosis } from '../../engine/diagnosis';
 import { DiagnosisService } from '../diagnosis/diagnosis.service';
+import { EvidenceService } from '../proofs/evidence.service';
 import type { Actor } from '../identity/actor';
 import { PagesRepository, type BoardOrderRow } from './pages.repository';
 
@@ -10,7 +11,7 @@ import { PagesRepository, type BoardOrderRow } from './pages.repository';
  */
 export const BOARD_POLICY = { silentHours: 4, unsureAfterTests: 4, unsureBelow: 0.6 } as const;
 
-export type FlagCode = 'approval' | 'contradiction' | 'silent' | 'unsure' | 'between' | 'returned';
+export type FlagCode = 'approval' | 'stale' | 'close' | 'contradiction' | 'silent' | 'unsure' | 'between' | 'returned';
 
 export interface Flag {
   code: FlagCode;
@@ -31,6 +32,8 @@ export interface BoardItem {
   order: BoardOrderRow;
   lastReadingAt: Date | null;
   review: { decision: string; comment: string; at: Date; by: string } | null;
+  /** For an approval: whether it still covers the evidence as it is now. */
+  approvalState?: 'approved' | 'stale';
   circuits: BoardCircuit[];
   flags: Flag[];
   weight: number;
@@ -54,7 +57,10 @@ export const AGE_CHOICES = [
 export function flagsFor(item: Omit<BoardItem, 'flags' | 'weight'>, diagnoses: Diagnosis[], now: number): Flag[] {
   const flags: Flag[] = [];
   const { order, review } = item;
-  if (order.status === 'verified' && review?.decision !== 'approved') flags.push({ code: 'approval', text: 'Waiting for your approval', weight: 30 });
+  const stale = review?.decision === 'approved' && item.approvalState === 'stale';
+  if (stale) flags.push({ code: 'stale', text: 'Approval stale: the evidence changed since; approve again', weight: 32 });
+  else if (order.status === 'verified' && review?.decision !== 'approved') flags.push({ code: 'approval', text: 'Waiting for your approval', weight: 30 });
+  if (order.status === 'verified' && review?.decision === 'approved' && !stale) flags.push({ code: 'close', text: 'Approved: ready to close', weight: 22 });
   if (diagnoses.some((d) => d.findings.some((f) => f.code.startsWith('diagnosis.contradiction')))) {
     flags.push({ code: 'contradiction', text: 'Readings contradict each other', weight: 25 });
   }
@@ -80,6 +86,7 @@ export class BoardService {
   constructor(
     private readonly pages: PagesRepository,
     private readonly diagnoses: DiagnosisService,
+    private readonly evidence: EvidenceService,
   ) {}
 
   technicians(actor: Actor) {
@@ -108,7 +115,9 @@ export class BoardService {
           counted: d.path.filter((p) => p.verdict === 'counted').length,
         };
       });
-      const base = { order, lastReadingAt: last.get(order.id) ?? null, review: reviews.get(order.id) ?? null, circuits };
+      const review = reviews.get(order.id) ?? null;
+      const approvalState = review?.decision === 'approved' ? ((await this.evidence.approval(actor, order.id)).state === 'approved' ? ('approved' as const) : ('stale' as const)) : undefined;
+      const base = { order, lastReadingAt: last.get(order.id) ?? null, review, ...(approvalState ? { approvalState } : {}), circuits };
       const flags = flagsFor(base, diagnoses, now);
       items.push({ ...base, flags, weight: flags.reduce((sum, f) => sum + f.weight, 0) });
     }

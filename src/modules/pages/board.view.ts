@@ -6,9 +6,12 @@ import { html, type SafeHtml } from './html';
 import { ICON, page } from './layout.view';
 import { conclusionCard, diagnosisStatus, orderHeader, pathList, proofLink, rankedCauses, repairsList, reviewsList, statusTag, vehicleLine } from './parts.view';
 import { ago, percent } from './words';
+import { approvalBanner, closeForm, type Approval } from './approval.view';
 
 const FLAG_ICON: Record<Flag['code'], SafeHtml> = {
   approval: ICON.check,
+  stale: ICON.flag,
+  close: ICON.check,
   contradiction: ICON.cross,
   silent: ICON.clock,
   unsure: ICON.flag,
@@ -26,7 +29,11 @@ function card(item: BoardItem): SafeHtml {
   return html`<li class="board-card ${item.flags.length ? 'needs' : ''}" data-order-number="${o.number}">
     <a class="board-link" href="/board/orders/${o.id}">
       <span class="order-card-top"><span class="ro-number">${o.number}</span> ${statusTag(o.status)}
-        ${item.review?.decision === 'approved' ? html`<span class="tag tag-approved">${ICON.check} Approved</span>` : ''}</span>
+        ${item.review?.decision === 'approved'
+          ? item.approvalState === 'stale'
+            ? html`<span class="tag tag-stale">${ICON.flag} Approval stale</span>`
+            : html`<span class="tag tag-approved">${ICON.check} Approved</span>`
+          : ''}</span>
       <span class="order-card-vehicle">${vehicleLine(o.vehicle)}</span>
       ${flagList(item.flags)}
       ${item.circuits.map(
@@ -72,15 +79,18 @@ function verificationTable(c: CircuitDiagnosis): SafeHtml {
 
 export function reviewPage(
   actor: Actor,
-  data: { order: OrderDetail; circuits: CircuitDiagnosis[]; repairs: RepairItem[]; reviews: ReviewList },
+  data: { order: OrderDetail; circuits: CircuitDiagnosis[]; repairs: RepairItem[]; reviews: ReviewList; approval?: Approval },
   flags: Flag[],
 ): SafeHtml {
   const { order, circuits, repairs, reviews } = data;
   const reviewable = order.status === 'repaired' || order.status === 'verified';
-  const approved = reviews.latest?.decision === 'approved';
+  // A stale approval is no approval: the foreman approves again (or returns) on the evidence as it is now.
+  const approved = reviews.latest?.decision === 'approved' && data.approval?.state !== 'stale';
   return page(
     { title: `Review ${order.number}`, actor, page: 'board-order', scripts: ['board.js'], back: { href: '/board', label: 'Shop board' } },
     html`${orderHeader(order)}
+    ${approvalBanner(data.approval, order.status)}
+    ${closeForm(order, data.approval)}
     ${flagList(flags)}
     ${circuits.map(
       (c) => html`<section class="panel" aria-labelledby="c-${c.circuit.id}">

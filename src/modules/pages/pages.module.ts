@@ -1,5 +1,6 @@
 import { Module, RequestMethod, type MiddlewareConsumer, type NestModule } from '@nestjs/common';
 import { urlencoded } from 'express';
+import { EvidenceModule } from '../proofs/evidence.module';
 import { DiagnosisModule } from '../diagnosis/diagnosis.module';
 import { IdentityModule } from '../identity/identity.module';
 import { RepairOrdersModule } from '../repair-orders/repair-orders.module';
@@ -20,7 +21,7 @@ import { SignInController } from './sign-in.controller';
  * write through the feature modules' own services.
  */
 @Module({
-  imports: [IdentityModule, RepairOrdersModule, CircuitsModule, RepairsModule, ReviewsModule, DiagnosisModule],
+  imports: [IdentityModule, RepairOrdersModule, CircuitsModule, RepairsModule, ReviewsModule, DiagnosisModule, EvidenceModule],
   controllers: [SignInController, BayController, BoardController, VinCheckController],
   providers: [PagesRepository, BayService, BoardService],
 })

@@ -39,6 +39,7 @@ const decisions: Diff = (then, now) => {
   const a = then.signOff.decisions.at(-1);
   const b = now.signOff.decisions.at(-1);
   if (a?.decision === b?.decision && a?.at === b?.at) return [];
+  if (b?.decision === 'approved' && a?.decision === 'approved') return [{ code: 'decision.approved', message: `Approved again since, on new evidence, by ${b.by} at ${b.at}.` }];
   if (a?.decision === 'approved' && b?.decision === 'withdrawn') return [{ code: 'approval.withdrawn', message: `Approval withdrawn by ${b.by} at ${b.at}${b.comment ? `: ${b.comment}` : ''}.` }];
   if (b) return [{ code: `decision.${b.decision}`, message: `Foreman decision since: ${b.decision} by ${b.by} at ${b.at}.` }];
   return [{ code: 'decision.changed', message: 'The foreman decisions differ.' }];
@@ -49,10 +50,24 @@ const repairs: Diff = (then, now) =>
     ? now.repairs.slice(then.repairs.length).map((r) => ({ code: 'repair.added', message: `Repair recorded since: ${r.action} (${r.by}, ${r.at}).` }))
     : [];
 
-const rootCause: Diff = (then, now) =>
-  then.rootCause?.code === now.rootCause?.code && then.rootCause?.probability === now.rootCause?.probability
-    ? []
-    : [{ code: 'root_cause.changed', message: `Root cause now: ${now.rootCause ? `${now.rootCause.label} (${formatProbability(now.rootCause.probability)})` : 'not established'}.` }];
+type Causes = Array<{ circuitId: string; proven: boolean; cause: { code: string; label: string; probability: number } | null }>;
+/** Documents of the first format carried one `rootCause`; read them as one cause. */
+function causesOf(v: ProofView): Causes {
+  const old = (v as unknown as { rootCause?: { circuitId: string; code: string; label: string; probability: number } | null }).rootCause;
+  if (v.causes) return v.causes;
+  return old ? [{ circuitId: old.circuitId, proven: true, cause: old }] : [];
+}
+
+const rootCause: Diff = (then, now) => {
+  const key = (c: Causes[number]) => `${c.circuitId}|${c.proven}|${c.cause?.code}|${c.cause?.probability}`;
+  const before = new Set(causesOf(then).map(key));
+  return causesOf(now)
+    .filter((c) => !before.has(key(c)))
+    .map((c) => ({
+      code: 'root_cause.changed',
+      message: `Root cause now: ${c.proven && c.cause ? `${c.cause.label} (${formatProbability(c.cause.probability)})` : 'not proven'}.`,
+    }));
+};
 
 const story: Diff = (then, now) =>
   (['complaint', 'cause', 'correction'] as const)

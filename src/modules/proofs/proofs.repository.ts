@@ -2,6 +2,15 @@ import { Injectable } from '@nestjs/common';
 import { PrismaRepository } from '../../common/database/prisma-repository';
 import type { Prisma } from '../../generated/prisma/client';
 
+const ISSUED = {
+  repairOrderId: true,
+  digest: true,
+  view: true,
+  issuedAt: true,
+  issuedBy: { select: { id: true, name: true } },
+  repairOrder: { select: { shopId: true, shop: { select: { name: true, timeZone: true, publicProofCheck: true } } } },
+} satisfies Prisma.ProofIssueSelect;
+
 @Injectable()
 export class ProofsRepository extends PrismaRepository {
   /** Remembers what an issued document stated and its file's hash; the same file twice is stored once. */
@@ -12,18 +21,12 @@ export class ProofsRepository extends PrismaRepository {
     );
   }
 
-  /** An issued document of the shop, by evidence digest or by the hash of its file. */
-  findIssued(shopId: string, by: { digest: string } | { fileSha256: string }) {
+  /** An issued document of the shop (or of any shop, for the public check), by evidence digest or by the hash of its file. */
+  findIssued(shopId: string | null, by: { digest: string } | { fileSha256: string }) {
     return this.prisma.proofIssue.findFirst({
-      where: { ...by, repairOrder: { shopId } },
-      select: { repairOrderId: true, digest: true, view: true, issuedAt: true, issuedBy: { select: { id: true, name: true } } },
+      where: { ...by, ...(shopId ? { repairOrder: { shopId } } : {}) },
+      select: ISSUED,
       orderBy: { issuedAt: 'asc' },
     });
-  }
-
-  /** The name of a foreman of the shop, for a proof nobody has reviewed yet. */
-  async foremanName(shopId: string): Promise<string | null> {
-    const foreman = await this.prisma.user.findFirst({ where: { shopId, role: 'foreman', active: true }, orderBy: { name: 'asc' }, select: { name: true } });
-    return foreman?.name ?? null;
   }
 }

@@ -1,7 +1,10 @@
 import { z } from 'zod';
+import { LIMITS } from '../../common/limits';
 import { checkVin } from '../../engine/vin';
 import { TypedOrderNumber } from '../order-numbering/order-numbering.dto';
 import { IsoTime, lineText, optionalLineText, optionalText, Paging, text, TroubleCodes } from '../../common/validation/domain-schemas';
+
+const T = LIMITS.text;
 
 const STATUSES = ['open', 'diagnosing', 'repaired', 'verified', 'closed'] as const;
 export const StatusEnum = z.enum(STATUSES);
@@ -13,10 +16,10 @@ export const NewVehicle = z
     vin: z.string().max(40, 'a VIN is 17 characters'),
     builtOutsideNorthAmerica: z.boolean().default(false),
     year: z.number().int().min(1981, 'a 17-character VIN means model year 1981 or later').max(thisYear + 2),
-    make: lineText(60),
-    model: lineText(60),
-    engine: optionalLineText(80).default(''),
-    odometer: z.number().int().min(0).max(3_000_000),
+    make: lineText(T.vehicleMake),
+    model: lineText(T.vehicleModel),
+    engine: optionalLineText(T.vehicleEngine).default(''),
+    odometer: z.number().int().min(0).max(LIMITS.number.odometer),
     odometerUnit: z.enum(['mi', 'km']).default('mi'),
   })
   .transform((v, ctx) => {
@@ -31,7 +34,7 @@ export const CreateRepairOrder = z
     number: TypedOrderNumber.optional().describe('the shop’s number, stored upper-case; by default the next automatic one (see /api/shop/order-numbering)'),
     vehicleId: z.uuid().optional(),
     vehicle: NewVehicle.optional(),
-    complaint: text(4000),
+    complaint: text(T.complaint),
     codes: TroubleCodes.default([]),
     technicianId: z.uuid().optional(),
   })
@@ -45,9 +48,10 @@ export type CreateRepairOrder = z.output<typeof CreateRepairOrder>;
 export const UpdateRepairOrder = z
   .strictObject({
     version: z.number().int().min(1, 'the version you last read'),
-    complaint: text(4000).optional(),
-    cause: optionalText(4000).optional(),
-    correction: optionalText(4000).optional(),
+    complaint: text(T.complaint).optional(),
+    cause: optionalText(T.cause).optional(),
+    correction: optionalText(T.correction).optional(),
+    odometerOut: z.number().int().min(0).max(LIMITS.number.odometer).nullable().optional().describe('odometer when the vehicle leaves, for the proof'),
     codes: TroubleCodes.optional(),
     codesAfter: TroubleCodes.optional(),
     technicianId: z.uuid().nullable().optional(),
@@ -57,7 +61,7 @@ export type UpdateRepairOrder = z.output<typeof UpdateRepairOrder>;
 
 export const ChangeStatus = z.strictObject({
   to: StatusEnum,
-  reason: optionalText(2000).optional(),
+  reason: optionalText(T.statusReason).optional(),
   version: z.number().int().min(1).optional(),
 });
 export type ChangeStatus = z.output<typeof ChangeStatus>;

@@ -4,11 +4,12 @@ import { OrderNumberingModule } from '../order-numbering/order-numbering.module'
 import { RepairOrdersController } from './repair-orders.controller';
 import { RepairOrdersRepository } from './repair-orders.repository';
 import { RepairOrdersService } from './repair-orders.service';
+import { StatusGates } from './status-gates';
 
 @Module({
   imports: [IdentityModule, OrderNumberingModule],
   controllers: [RepairOrdersController],
-  providers: [RepairOrdersRepository, RepairOrdersService],
-  exports: [RepairOrdersRepository, RepairOrdersService],
+  providers: [RepairOrdersRepository, RepairOrdersService, StatusGates],
+  exports: [RepairOrdersRepository, RepairOrdersService, StatusGates],
 })
 export class RepairOrdersModule {}

@@ -36,7 +36,7 @@ export function scopeWhere(scope: OrderScope): Prisma.RepairOrderWhereInput {
 export type RepairOrderDetail = Prisma.RepairOrderGetPayload<{ include: typeof detailInclude }>;
 
 /** What checks on a write need of an order. */
-const HEADER = { id: true, status: true, version: true, number: true, createdAt: true } satisfies Prisma.RepairOrderSelect;
+const HEADER = { id: true, status: true, version: true, number: true, createdAt: true, updatedAt: true } satisfies Prisma.RepairOrderSelect;
 
 const CIRCUIT_OF_ORDER = { id: true, kind: true, faultTreeId: true } satisfies Prisma.CircuitSelect;
 export type CircuitOfOrder = Prisma.CircuitGetPayload<{ select: typeof CIRCUIT_OF_ORDER }>;
@@ -128,7 +128,11 @@ export class RepairOrdersRepository extends PrismaRepository {
     return count;
   }
 
-  logStatus(db: Db, repairOrderId: string, from: RepairOrderStatus | null, to: RepairOrderStatus, byId: string, reason = '') {
-    return db.statusChange.create({ data: { repairOrderId, fromStatus: from, toStatus: to, byId, reason } });
+  /**
+   * Records a move made from the order at `fromVersion` (0 for its opening). The database takes one move per
+   * version, so of two moves decided on the same reading of the order only the first lands.
+   */
+  logStatus(db: Db, repairOrderId: string, from: RepairOrderStatus | null, to: RepairOrderStatus, byId: string, reason: string, fromVersion: number) {
+    return db.statusChange.create({ data: { repairOrderId, fromStatus: from, toStatus: to, byId, reason, fromVersion } });
   }
 }

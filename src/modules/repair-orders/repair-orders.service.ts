@@ -2,7 +2,8 @@ import { Injectable } from '@nestjs/common';
 import { ConflictException, DomainException, InvalidInputException, NotFoundException } from '../../common/errors/domain.exception';
 import { isUniqueViolation } from '../../common/database/prisma-errors';
 import { checkMove } from '../../engine/status';
-import type { Prisma } from '../../generated/prisma/client';
+import type { Prisma, RepairOrderStatus } from '../../generated/prisma/client';
+import { StatusGates } from './status-gates';
 import { orderScope, type Actor } from '../identity/actor';
 import { UsersRepository } from '../identity/users.repository';
 import { OrderNumberingService } from '../order-numbering/order-numbering.service';
@@ -27,6 +28,7 @@ export class RepairOrdersService {
     private readonly orders: RepairOrdersRepository,
     private readonly users: UsersRepository,
     private readonly numbering: OrderNumberingService,
+    private readonly gates: StatusGates,
   ) {}
 
   async list(actor: Actor, query: ListRepairOrders) {
@@ -102,7 +104,7 @@ export class RepairOrdersService {
         odometerIn: input.vehicle?.odometer ?? null,
         createdById: actor.userId,
       });
-      await this.orders.logStatus(tx, created.id, null, 'open', actor.userId);
+      await this.orders.logStatus(tx, created.id, null, 'open', actor.userId, '', 0);
       return created.id;
     });
   }
@@ -124,39 +126,38 @@ export class RepairOrdersService {
   }
 
   async changeStatus(actor: Actor, id: string, input: ChangeStatus) {
+    // The evidence a move needs is checked on the order as read here; the move then lands only on that version.
+    const seen = await this.orders.findHeader(orderScope(actor), id);
+    if (!seen) throw new NotFoundException('repair_order', id);
+    if (input.version !== undefined) this.requireVersion(seen, input.version);
+    this.requireLegal(seen.status, input);
+    await this.gates.check(actor, seen, input.to);
     await this.orders.transaction(async (tx) => {
       const current = await this.orders.find(orderScope(actor), id, tx);
       if (!current) throw new NotFoundException('repair_order', id);
-      if (input.version !== undefined) this.requireVersion(current, input.version);
+      if (current.version !== seen.version) this.raceLost(id);
       await this.requireProgress(tx, current, input.to);
-      const move = checkMove(current.status, input.to, input.reason);
-      if (!move.ok) {
-        const f = move.finding;
-        if (f.code === 'status.reason_required') {
-          throw new InvalidInputException([{ code: f.code, path: 'body.reason', message: f.message }]);
-        }
-        throw new ConflictException(f.code, f.message, { from: current.status, to: input.to, allowed: f.allowed });
-      }
       const changed = await this.orders.updateAtVersion(tx, id, current.version, { status: input.to });
       if (changed !== 1) this.raceLost(id);
-      await this.orders.logStatus(tx, id, current.status, input.to, actor.userId, input.reason ?? '');
+      await this.orders.logStatus(tx, id, current.status, input.to, actor.userId, input.reason ?? '', current.version);
     });
     return this.get(actor, id);
   }
 
-  /** Moves that need work done first: a repair before "repaired", the foreman's approval before "closed". */
+  private requireLegal(from: RepairOrderStatus, input: ChangeStatus): void {
+    const move = checkMove(from, input.to, input.reason);
+    if (move.ok) return;
+    const f = move.finding;
+    if (f.code === 'status.reason_required') throw new InvalidInputException([{ code: f.code, path: 'body.reason', message: f.message }]);
+    throw new ConflictException(f.code, f.message, { from, to: input.to, allowed: f.allowed });
+  }
+
+  /** A repair before "repaired" (the evidence "verified" and "closed" need is checked by the status gates). */
   private async requireProgress(tx: Prisma.TransactionClient, current: { id: string; number: string; status: string }, to: string): Promise<void> {
-    if (to !== 'repaired' && to !== 'closed') return;
-    const { repairs, latestDecision } = await this.orders.progress(tx, current.id);
-    if (to === 'repaired' && current.status === 'diagnosing' && repairs === 0) {
+    if (to !== 'repaired') return;
+    const { repairs } = await this.orders.progress(tx, current.id);
+    if (current.status === 'diagnosing' && repairs === 0) {
       throw new ConflictException('status.repair_not_recorded', `Record the repair on ${current.number} (what was done, where, parts) before marking it repaired.`, { from: current.status, to });
-    }
-    if (to === 'closed' && current.status === 'verified' && latestDecision !== 'approved') {
-      throw new ConflictException(
-        'status.not_approved',
-        `${current.number} can be closed once a foreman has approved the repair (latest decision: ${latestDecision ?? 'none'}).`,
-        { from: current.status, to, latestDecision },
-      );
     }
   }
 

@@ -19,6 +19,10 @@ export function toDetailView(order: RepairOrderDetail) {
     codes: order.codes,
     codesAfter: order.codesAfter,
     odometerIn: order.odometerIn,
+    odometerOut: order.odometerOut,
+    codesAfterCheck: order.codesAfterCheckedAt
+      ? { method: order.codesAfterMethod, keyCycles: order.codesAfterKeyCycles, note: order.codesAfterNote, checkedAt: order.codesAfterCheckedAt.toISOString() }
+      : null,
     vehicle: {
       id: order.vehicle.id,
       vin: order.vehicle.vin,

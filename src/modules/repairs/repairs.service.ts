@@ -15,9 +15,22 @@ export function repairView(r: RepairRow) {
     location: r.location,
     parts: r.parts as Array<{ name: string; number?: string; quantity: number }>,
     note: r.note,
+    labour: { clockOnAt: r.clockOnAt?.toISOString() ?? null, clockOffAt: r.clockOffAt?.toISOString() ?? null, minutes: r.labourMinutes },
     by: r.by,
     at: r.at.toISOString(),
   };
+}
+
+/** The same repair as one already recorded: what a double-sent request looks like. */
+function sameRepair(r: RepairRow, input: RecordRepair): boolean {
+  return (
+    r.circuitId === (input.circuitId ?? null) &&
+    r.part === input.part &&
+    r.action === input.action &&
+    r.location === input.location &&
+    r.note === input.note &&
+    JSON.stringify(r.parts) === JSON.stringify(input.parts)
+  );
 }
 
 @Injectable()
@@ -43,6 +56,10 @@ export class RepairsService {
       if (input.circuitId && !(await this.circuits.findInOrder(repairOrderId, input.circuitId, tx))) {
         throw new InvalidInputException([{ code: 'circuit.not_found', path: 'body.circuitId', message: 'names no circuit of this repair order' }]);
       }
+      const latest = (await this.repairs.listForOrder(repairOrderId, tx)).at(-1);
+      if (latest && sameRepair(latest, input)) {
+        throw new ConflictException('repair.duplicate', `This repair is already recorded on ${order.number} (${latest.by.name}, ${latest.at.toISOString()}); a repair sent twice is stored once.`, { repairId: latest.id });
+      }
       const created = await this.repairs.create(tx, {
         repairOrderId,
         circuitId: input.circuitId ?? null,
@@ -51,14 +68,18 @@ export class RepairsService {
         location: input.location,
         parts: input.parts,
         note: input.note,
+        clockOnAt: input.clockOnAt ? new Date(input.clockOnAt) : null,
+        clockOffAt: input.clockOffAt ? new Date(input.clockOffAt) : null,
+        labourMinutes: input.labourMinutes ?? null,
         byId: actor.userId,
       });
-      if (order.status === 'diagnosing') {
-        await this.orders.updateAtVersion(tx, repairOrderId, order.version, { status: 'repaired' });
-        await this.orders.logStatus(tx, repairOrderId, 'diagnosing', 'repaired', actor.userId, 'repair recorded');
-      } else {
-        await this.orders.touch(tx, repairOrderId);
+      // Each repair moves the order to its next version: another repair (or move) that landed since the order was
+      // read makes this one lose, so repairs sent together are stored once and never log the same move twice.
+      const status = order.status === 'diagnosing' ? { status: 'repaired' as const } : {};
+      if ((await this.orders.updateAtVersion(tx, repairOrderId, order.version, status)) !== 1) {
+        throw new ConflictException('repair.order_changed', `Repair order ${order.number} changed at the same moment (another repair or status move); reload it and record the repair again if it is still needed.`);
       }
+      if (order.status === 'diagnosing') await this.orders.logStatus(tx, repairOrderId, 'diagnosing', 'repaired', actor.userId, 'repair recorded', order.version);
       return created;
     });
     return repairView(row);
