@@ -1,5 +1,6 @@
 // New repair order: the VIN is checked as it is typed (or scanned) by the service's own 49 CFR 565 rule.
 import { api, busy, showError } from './api.js';
+import { typedInteger } from './numbers.js';
 
 const form = document.getElementById('new-order');
 const vin = document.getElementById('vin');
@@ -53,7 +54,11 @@ outside.addEventListener('change', check);
 form.addEventListener('submit', async (event) => {
   event.preventDefault();
   const data = new FormData(form);
-  const num = (name) => (String(data.get(name) || '').trim() === '' ? NaN : Number(data.get(name)));
+  // A number the page cannot read goes as typed, so the service's answer names the field and what it expects.
+  const num = (name) => {
+    const typed = String(data.get(name) || '').trim();
+    return typed === '' ? undefined : (typedInteger(typed) ?? typed);
+  };
   const body = {
     vehicle: {
       vin: cleaned(String(data.get('vin') || '')),
@@ -69,7 +74,6 @@ form.addEventListener('submit', async (event) => {
     codes: String(data.get('codes') || '').split(/[\s,;]+/).filter(Boolean),
     ...(form.dataset.technician ? { technicianId: form.dataset.technician } : {}),
   };
-  for (const k of ['year', 'odometer']) if (Number.isNaN(body.vehicle[k])) body.vehicle[k] = null;
   await busy(form, async () => {
     try {
       showError(form, null);

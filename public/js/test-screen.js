@@ -1,5 +1,6 @@
 // The guided test screen: number pad, saving a reading through the unsent queue, and showing the new state.
 import { newKey } from './api.js';
+import { typedDecimal } from './numbers.js';
 import { bindRepairForm, bindVerifiedForm } from './forms.js';
 import { discard, enqueue, flush, unsent } from './reading-queue.js';
 
@@ -7,10 +8,8 @@ const main = document.getElementById('main');
 let orderId = null;
 
 function parseValue(text) {
-  const t = text.trim().replace(',', '.').replace('−', '-');
-  if (/^ol$/i.test(t)) return 'OL';
-  if (!/^-?(\d+\.?\d*|\.\d+)$/.test(t)) return null;
-  return Number(t);
+  if (/^ol$/i.test(text.trim())) return 'OL';
+  return typedDecimal(text);
 }
 
 function bindPad(form) {

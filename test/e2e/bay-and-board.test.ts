@@ -150,7 +150,7 @@ describe('bay tablet and foreman board in Chromium', () => {
     await page.locator('#year').fill('2005');
     await page.locator('#make').fill('Testmake');
     await page.locator('#model').fill('Testmodel');
-    await page.locator('#odometer').fill('88120');
+    await page.locator('#odometer').fill('88,120');
     await page.locator('#complaint').fill('Reduced power warning; pedal feels dead at times.');
     await page.locator('#codes').fill('p0122');
     await check('03-new-order');

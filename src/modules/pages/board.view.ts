@@ -9,6 +9,7 @@ import { ago, percent } from './words';
 
 const FLAG_ICON: Record<Flag['code'], SafeHtml> = {
   approval: ICON.check,
+  unassigned: ICON.flag,
   contradiction: ICON.cross,
   silent: ICON.clock,
   unsure: ICON.flag,
@@ -87,7 +88,7 @@ export function reviewPage(
         <h2 id="c-${c.circuit.id}">${c.circuit.label} ${diagnosisStatus(c.atRepair ?? c.diagnosis)}</h2>
         ${conclusionCard(c.atRepair ?? c.diagnosis)}
         <div class="two-col"><div><h3>${c.atRepair ? 'Causes as diagnosed before the repair' : 'Likely causes'}</h3>${rankedCauses(c.atRepair ?? c.diagnosis)}</div>
-        <div><h3>Path</h3>${pathList(c)}</div></div>
+        <div><h3>Readings in the order taken</h3>${pathList(c)}</div></div>
         ${verificationTable(c)}
       </section>`,
     )}

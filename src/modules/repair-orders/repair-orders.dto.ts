@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { checkVin } from '../../engine/vin';
 import { IsoTime, optionalText, Paging, text, TroubleCodes } from '../../common/validation/domain-schemas';
+import { typedInteger } from '../../common/validation/typed-number';
 
 const STATUSES = ['open', 'diagnosing', 'repaired', 'verified', 'closed'] as const;
 export const StatusEnum = z.enum(STATUSES);
@@ -11,11 +12,11 @@ export const NewVehicle = z
   .strictObject({
     vin: z.string().max(40, 'a VIN is 17 characters'),
     builtOutsideNorthAmerica: z.boolean().default(false),
-    year: z.number().int().min(1981, 'a 17-character VIN means model year 1981 or later').max(thisYear + 2),
+    year: typedInteger(1981, thisYear + 2, '2019'),
     make: text(60),
     model: text(60),
     engine: optionalText(80).default(''),
-    odometer: z.number().int().min(0).max(3_000_000),
+    odometer: typedInteger(0, 3_000_000, '148,220'),
     odometerUnit: z.enum(['mi', 'km']).default('mi'),
   })
   .transform((v, ctx) => {

@@ -93,7 +93,8 @@ export class RepairOrdersService {
         shopId: actor.shopId,
         number,
         vehicleId,
-        technicianId: input.technicianId ?? null,
+        // A technician who opens an order is the one working on it unless they name someone else.
+        technicianId: input.technicianId ?? (actor.role === 'technician' ? actor.userId : null),
         complaint: input.complaint,
         codes: input.codes,
         odometerIn: input.vehicle?.odometer ?? null,

@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { optionalText, text } from '../../common/validation/domain-schemas';
+import { typedInteger } from '../../common/validation/typed-number';
 
 export const CIRCUIT_PARTS = ['reference', 'signal', 'ground', 'sensor', 'module', 'connector', 'other'] as const;
 
@@ -13,7 +14,7 @@ export const RecordRepair = z.strictObject({
       z.strictObject({
         name: text(120),
         number: optionalText(60).optional(),
-        quantity: z.number().int().min(1).max(999).default(1),
+        quantity: typedInteger(1, 999, '2').default(1),
       }),
     )
     .max(30, 'at most 30 parts')
