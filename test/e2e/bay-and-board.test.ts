@@ -147,7 +147,12 @@ describe('bay tablet and foreman board in Chromium', () => {
     await expect.poll(() => page.locator('#vin').getAttribute('aria-invalid')).toBe('true');
     await page.locator('#vin').fill(VIN_SAMPLE);
     await expect.poll(() => page.locator('#vin-state').textContent()).toMatch(/Check digit correct/);
+    // Position 10 of the VIN is "5": model year 2005 or 2035 (49 CFR 565.15(c)). Another year is pointed out.
+    await expect.poll(() => page.locator('#year').inputValue()).toBe('2005');
+    await page.locator('#year').fill('2006');
+    await expect.poll(() => page.locator('#year-state').textContent()).toContain('stands for 2005 or 2035, not 2006');
     await page.locator('#year').fill('2005');
+    await expect.poll(() => page.locator('#year-state').textContent()).toBe('');
     await page.locator('#make').fill('Testmake');
     await page.locator('#model').fill('Testmodel');
     await page.locator('#odometer').fill('88,120');

@@ -1,6 +1,7 @@
 import { Controller, HttpCode, Post } from '@nestjs/common';
 import { ApiOperation, ApiSecurity, ApiTags } from '@nestjs/swagger';
 import { ZBody } from '../../common/validation/zod-input';
+import { roundProbabilities } from '../../common/round-probabilities';
 import { IdentifyWiresBody } from './circuit-model.dto';
 import { CircuitModelService } from './circuit-model.service';
 
@@ -20,6 +21,6 @@ export class WireIdentificationController {
       'Never put an ohmmeter on airbag circuits; back-probe without spreading terminals; the service information of the manufacturer takes precedence.',
   })
   identify(@ZBody(IdentifyWiresBody) body: IdentifyWiresBody) {
-    return this.service.identifyWires(body);
+    return roundProbabilities(this.service.identifyWires(body));
   }
 }

@@ -3,7 +3,7 @@ import { ApiOperation, ApiSecurity, ApiTags } from '@nestjs/swagger';
 import { UuidParam } from '../../common/validation/zod-input';
 import { CurrentActor, type Actor } from '../identity/actor';
 import { DiagnosisService } from './diagnosis.service';
-import { diagnosisView } from './diagnosis.view';
+import { apiDiagnosisView } from './diagnosis.view';
 
 @ApiTags('diagnosis')
 @ApiSecurity('user')
@@ -19,6 +19,6 @@ export class DiagnosisController {
   })
   async get(@CurrentActor() actor: Actor, @UuidParam('id') id: string, @UuidParam('circuitId') circuitId: string) {
     const { tree, diagnosis } = await this.service.forCircuit(actor, id, circuitId);
-    return diagnosisView(tree, diagnosis);
+    return apiDiagnosisView(tree, diagnosis);
   }
 }

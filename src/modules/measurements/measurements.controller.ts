@@ -4,7 +4,7 @@ import { ApiBody, ApiOperation, ApiSecurity, ApiTags } from '@nestjs/swagger';
 import { openApiSchema, UuidParam, ZQuery } from '../../common/validation/zod-input';
 import { CurrentActor, type Actor } from '../identity/actor';
 import { DiagnosisService } from '../diagnosis/diagnosis.service';
-import { diagnosisView } from '../diagnosis/diagnosis.view';
+import { apiDiagnosisView } from '../diagnosis/diagnosis.view';
 import { ListMeasurements, MeasurementBody, RecordOptions } from './measurements.dto';
 import { MeasurementsService } from './measurements.service';
 
@@ -42,7 +42,7 @@ export class MeasurementsController {
     const diagnoses = [];
     for (const circuit of circuits) {
       const { tree, diagnosis } = await this.diagnoses.ofCircuit(actor, id, circuit);
-      diagnoses.push({ circuitId: circuit.id, ...diagnosisView(tree, diagnosis) });
+      diagnoses.push({ circuitId: circuit.id, ...apiDiagnosisView(tree, diagnosis) });
     }
     return { ...(result as object), diagnoses };
   }
