@@ -12,6 +12,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { defaultCircuit, faultsFor, predictReading } from '../../src/engine/circuit';
 import type { MeasurementRequest } from '../../src/engine/vocabulary';
+import { formatEntered } from '../../src/modules/pages/words';
 import { readPdf } from '../proof-render/pdf-tools';
 import { FIXTURE_PASSWORD, TECH_A, VIN_SAMPLE } from '../support/fixtures';
 import { startApi, type TestApi } from '../support/http';
@@ -251,7 +252,7 @@ describe('bay tablet and foreman board in Chromium', () => {
         expect((await entryOf(page))!.mode).toBe('correct');
         // The correction screen names the test and the reading on record.
         expect(await page.locator('#entry-h').textContent()).toBe(firstTitle);
-        expect(await page.locator('.correcting').textContent()).toContain(`the reading on record is ${Number(value)} ${unit}`);
+        expect(await page.locator('.correcting').textContent()).toContain(`the reading on record is ${formatEntered(Number(value), unit)}`);
         await snap(page, '06c-correct');
         await enter(value, unit, { typeIt: true, note: '<script>alert(1)</script> re-read with a sharper probe' });
         saves++;
@@ -352,6 +353,8 @@ describe('bay tablet and foreman board in Chromium', () => {
     await card.locator('a').click();
     await page.waitForURL(/\/board\/orders\//);
     expect(await page.locator('.path .step').count()).toBeGreaterThan(3);
+    // The technician who opened it works on it; the foreman can give it to someone else from here.
+    expect((await page.locator('#assign-tech option:checked').textContent())!.trim()).toBe('Tech One');
     await check('12-board-review');
     await page.locator('#review-comment').fill('Clean splice, readings back in range.');
     await page.getByRole('button', { name: 'Approve' }).click();

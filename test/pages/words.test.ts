@@ -6,7 +6,7 @@
 import { describe, expect, it } from 'vitest';
 import type { Diagnosis } from '../../src/engine/diagnosis';
 import { conclusionCard, diagnosisStatus, statusTag } from '../../src/modules/pages/parts.view';
-import { formatSi, leads, percent, predictedRange, requestLine } from '../../src/modules/pages/words';
+import { formatEntered, formatSi, leads, percent, predictedRange, requestLine } from '../../src/modules/pages/words';
 import type { MeasurementRequest } from '../../src/engine/vocabulary';
 
 describe('probabilities for people', () => {
@@ -36,6 +36,19 @@ describe('values for people (significant figures and SI prefixes, NIST SP 811 sp
     [101_325, 'Pa', '101 kPa'],
   ])('shows %f %s as %s', (value, unit, shown) => {
     expect(formatSi(value, unit)).toBe(shown);
+  });
+});
+
+describe('readings as entered, for people', () => {
+  it.each([
+    [5, 'V', false, '5.00 V'],
+    [12.34, 'V', false, '12.34 V'],
+    [0.75, 'V', false, '0.750 V'],
+    [253, 'kΩ', false, '253 kΩ'],
+    [83, '°C', false, '83.0 °C'],
+    [null, 'Ω', true, 'OL (Ω)'],
+  ] as const)('shows %s %s (over-range %s) as %s', (value, unit, overload, shown) => {
+    expect(formatEntered(value, unit, overload)).toBe(shown);
   });
 });
 

@@ -11,7 +11,7 @@ import type { ListRepairOrders } from '../repair-orders/repair-orders.dto';
 import { RepairOrdersService } from '../repair-orders/repair-orders.service';
 import { RepairsService } from '../repairs/repairs.service';
 import { ReviewsService } from '../reviews/reviews.service';
-import { requestLine, when } from './words';
+import { formatEntered, requestLine, when } from './words';
 
 export type OrderDetail = Awaited<ReturnType<RepairOrdersService['get']>>;
 export type OrderSummary = Awaited<ReturnType<RepairOrdersService['list']>>['items'][number];
@@ -123,7 +123,7 @@ export class BayService {
       if (target && phaseOk) {
         const request = requestOf(target);
         const label = c.diagnosis.path.find((p) => p.readingId === target.id)?.testLabel ?? c.howTo.get(requestKey(request))?.label ?? requestLine(request, c.circuit.cavities);
-        const value = target.overload ? `OL (${target.unitEntered})` : `${target.valueEntered} ${target.unitEntered}`;
+        const value = formatEntered(target.valueEntered, target.unitEntered, target.overload);
         return { mode: 'correct', title: label, request, phase: target.phase, supersedes: target.id, was: `${value}, ${target.takenBy.name}, ${when(target.takenAt)}` };
       }
     }

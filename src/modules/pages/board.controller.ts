@@ -44,7 +44,7 @@ export class BoardController {
     // Existence first: an id of another shop is a 404 for everyone, never a 403 that confirms it exists.
     const data = await this.bay.order(actor, id);
     foremanOnly(actor);
-    const [item] = await this.board.list(actor, { orderId: id });
-    return reviewPage(actor, data, item?.flags ?? []).value;
+    const [[item], technicians] = await Promise.all([this.board.list(actor, { orderId: id }), this.board.technicians(actor)]);
+    return reviewPage(actor, data, item?.flags ?? [], technicians).value;
   }
 }

@@ -5,7 +5,7 @@ import { AGE_CHOICES, type BoardFilter, type BoardItem, type Flag } from './boar
 import { html, type SafeHtml } from './html';
 import { ICON, page } from './layout.view';
 import { conclusionCard, diagnosisStatus, orderHeader, pathList, proofLink, rankedCauses, repairsList, reviewsList, statusTag, vehicleLine } from './parts.view';
-import { ago, percent } from './words';
+import { ago, formatEntered, percent } from './words';
 
 const FLAG_ICON: Record<Flag['code'], SafeHtml> = {
   approval: ICON.check,
@@ -63,9 +63,21 @@ export function boardPage(actor: Actor, items: BoardItem[], technicians: Array<{
   );
 }
 
+/** Who works on the order: an unassigned one shows on nobody's "My repair orders" until the foreman gives it out. */
+function assignForm(order: OrderDetail, technicians: Array<{ id: string; name: string }>): SafeHtml {
+  return html`<form id="assign-form" class="filters" data-order="${order.id}" data-version="${order.version}" novalidate>
+    <div class="field"><label for="assign-tech">Technician on this order</label><select id="assign-tech" name="technicianId">
+      <option value="" ${order.technician ? '' : 'selected'}>Not assigned</option>
+      ${technicians.map((t) => html`<option value="${t.id}" ${t.id === order.technician?.id ? 'selected' : ''}>${t.name}</option>`)}
+    </select></div>
+    <button class="button" type="submit">Assign</button>
+    <p class="form-error" role="alert" hidden></p>
+  </form>`;
+}
+
 function verificationTable(c: CircuitDiagnosis): SafeHtml {
   if (c.verification.length === 0) return html``;
-  const show = (r: { overload: boolean; valueEntered: number | null; unitEntered: string } | null) => (r ? (r.overload ? 'OL' : `${r.valueEntered} ${r.unitEntered}`) : '—');
+  const show = (r: { overload: boolean; valueEntered: number | null; unitEntered: string } | null) => (r ? formatEntered(r.valueEntered, r.unitEntered, r.overload) : '—');
   return html`<table class="table"><caption>Before and after the repair</caption>
     <thead><tr><th scope="col">Test</th><th scope="col">Before</th><th scope="col">After</th></tr></thead>
     <tbody>${c.verification.map((v) => html`<tr><th scope="row">${v.label}</th><td>${show(v.before)}</td><td>${show(v.after)}</td></tr>`)}</tbody></table>`;
@@ -75,6 +87,7 @@ export function reviewPage(
   actor: Actor,
   data: { order: OrderDetail; circuits: CircuitDiagnosis[]; repairs: RepairItem[]; reviews: ReviewList },
   flags: Flag[],
+  technicians: Array<{ id: string; name: string }> = [],
 ): SafeHtml {
   const { order, circuits, repairs, reviews } = data;
   const reviewable = order.status === 'repaired' || order.status === 'verified';
@@ -83,6 +96,7 @@ export function reviewPage(
     { title: `Review ${order.number}`, actor, page: 'board-order', scripts: ['board.js'], back: { href: '/board', label: 'Shop board' } },
     html`${orderHeader(order)}
     ${flagList(flags)}
+    ${order.status === 'closed' ? '' : assignForm(order, technicians)}
     ${circuits.map(
       (c) => html`<section class="panel" aria-labelledby="c-${c.circuit.id}">
         <h2 id="c-${c.circuit.id}">${c.circuit.label} ${diagnosisStatus(c.atRepair ?? c.diagnosis)}</h2>

@@ -6,7 +6,7 @@ import type { CircuitDiagnosis, OrderDetail, RepairItem, ReviewList } from './ba
 import { html, type SafeHtml } from './html';
 import { isProven, repairable, undecidedOf } from './diagnosis-state';
 import { ICON } from './layout.view';
-import { DIAGNOSIS_STATUS_WORDS, PART_WORDS, percent, requestLine, STATUS_WORDS, VERDICT_WORDS, when } from './words';
+import { DIAGNOSIS_STATUS_WORDS, formatEntered, PART_WORDS, percent, requestLine, STATUS_WORDS, VERDICT_WORDS, when } from './words';
 
 /** The repair order's status, labelled as such: it sits beside the circuit's own badge on several screens. */
 export function statusTag(status: string): SafeHtml {
@@ -49,7 +49,7 @@ export function rankedCauses(d: Diagnosis, limit = 5): SafeHtml {
 }
 
 function readingValue(r: MeasurementRow): string {
-  return r.overload ? `OL (${r.unitEntered})` : `${r.valueEntered} ${r.unitEntered}`;
+  return formatEntered(r.valueEntered, r.unitEntered, r.overload);
 }
 
 /**

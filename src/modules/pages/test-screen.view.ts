@@ -7,7 +7,7 @@ import { html, jsonAttr, type SafeHtml } from './html';
 import { ICON, page } from './layout.view';
 import { cautionList, conclusionCard, diagnosisStatus, pathList, proofLink, rankedCauses, statusTag } from './parts.view';
 import { requestKey } from '../../engine/diagnosis';
-import { conditions, leads, PART_WORDS, padUnits, percent, predictedRange } from './words';
+import { conditions, formatEntered, leads, PART_WORDS, padUnits, percent, predictedRange } from './words';
 import { repairable } from './diagnosis-state';
 
 const REASON_WORDS: Record<string, string> = {
@@ -119,7 +119,7 @@ function verificationPanel(order: OrderDetail, c: CircuitDiagnosis, entry: Entry
     <ul class="verify-list">${items.map(
       (v) => html`<li class="${v.after ? 'done' : 'todo'}">
         <span>${v.after ? ICON.check : ICON.pending} ${v.label}</span>
-        <span class="muted">before ${v.before.overload ? 'OL' : `${v.before.valueEntered} ${v.before.unitEntered}`}${v.after ? `, after ${v.after.overload ? 'OL' : `${v.after.valueEntered} ${v.after.unitEntered}`}` : ''}</span>
+        <span class="muted">before ${formatEntered(v.before.valueEntered, v.before.unitEntered, v.before.overload)}${v.after ? `, after ${formatEntered(v.after.valueEntered, v.after.unitEntered, v.after.overload)}` : ''}</span>
         ${entry?.mode === 'verify' && entry.index === v.index ? html`<span class="pill">measuring now</span>` : html`<a class="button small" href="?verify=${v.index}">${v.after ? 'Take again' : 'Measure'}</a>`}
       </li>`,
     )}</ul>

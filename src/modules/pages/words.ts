@@ -1,5 +1,5 @@
 /** The shared measurement vocabulary in plain words for the bay screens, and reading values formatted for people. */
-import { formatValue, unitsFor, type Unit } from '../../engine/units';
+import { formatValue, UNITS, unitsFor, type Unit } from '../../engine/units';
 import type { MeasurementRequest, Point, Quantity } from '../../engine/vocabulary';
 
 const POINT_WORDS: Record<Point, string> = {
@@ -123,6 +123,22 @@ export function formatSi(value: number | 'overload' | null | undefined, siUnit: 
   if (value === 'overload' || value === null || value === undefined || !Number.isFinite(value)) return 'OL';
   if (siUnit === 'Pa') return formatValue(value / 1000, 'kPa', { significant: digits });
   return formatValue(value, siUnit as Unit, { significant: digits, autoPrefix: true });
+}
+
+/** Significant digits of a stored number as written in shortest form: 12.34 → 4, 5 → 1, 0.075 → 2. */
+function digitsOf(value: number): number {
+  const text = Math.abs(value).toExponential().split('e')[0]!.replace('.', '');
+  return Math.max(1, text.length);
+}
+
+/**
+ * A reading as entered, for people: at least 3 significant figures ("5.00 V", not "5 V"), never fewer than the
+ * technician typed (12.34 V stays 12.34 V), in the unit entered; "OL" for over-range.
+ */
+export function formatEntered(value: number | null, unit: string, overload = false): string {
+  if (overload || value === null) return `OL (${unit})`;
+  if (!(UNITS as readonly string[]).includes(unit)) return `${value} ${unit}`;
+  return formatValue(value, unit as Unit, { significant: Math.max(3, digitsOf(value)) });
 }
 
 /** A predicted reading as a meter would show it: volts to 0.01 V (no "−0.00"), ohms with a prefix. */
