@@ -4,6 +4,7 @@ import { ZBody } from '../../common/validation/zod-input';
 import { roundProbabilities } from '../../common/round-probabilities';
 import { IdentifyWiresBody } from './circuit-model.dto';
 import { CircuitModelService } from './circuit-model.service';
+import { WireRoles, ZResponse } from '../../common/openapi/responses';
 
 @ApiTags('wires')
 @ApiSecurity('user')
@@ -12,6 +13,7 @@ export class WireIdentificationController {
   constructor(private readonly service: CircuitModelService) {}
 
   @Post('identify')
+  @ZResponse(WireRoles)
   @HttpCode(200)
   @ApiOperation({
     summary: 'Tell the wires of an unplugged sensor connector apart from readings per cavity, with no diagram',

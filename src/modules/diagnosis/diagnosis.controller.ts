@@ -4,6 +4,7 @@ import { UuidParam } from '../../common/validation/zod-input';
 import { CurrentActor, type Actor } from '../identity/actor';
 import { DiagnosisService } from './diagnosis.service';
 import { apiDiagnosisView } from './diagnosis.view';
+import { Diagnosis, ZResponse } from '../../common/openapi/responses';
 
 @ApiTags('diagnosis')
 @ApiSecurity('user')
@@ -12,6 +13,7 @@ export class DiagnosisController {
   constructor(private readonly service: DiagnosisService) {}
 
   @Get()
+  @ZResponse(Diagnosis)
   @ApiOperation({
     summary: 'What the readings so far say: ranked causes, the next test (post its `request` back with the value), the path, and the conclusion',
     description:

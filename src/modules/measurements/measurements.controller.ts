@@ -7,6 +7,7 @@ import { DiagnosisService } from '../diagnosis/diagnosis.service';
 import { apiDiagnosisView } from '../diagnosis/diagnosis.view';
 import { ListMeasurements, MeasurementBody, RecordOptions } from './measurements.dto';
 import { MeasurementsService } from './measurements.service';
+import { MeasurementAnswer, MeasurementList, ZResponse } from '../../common/openapi/responses';
 
 @ApiTags('measurements')
 @ApiSecurity('user')
@@ -18,6 +19,7 @@ export class MeasurementsController {
   ) {}
 
   @Post()
+  @ZResponse(MeasurementAnswer, 201)
   @ApiOperation({
     summary: 'Record a reading, or a batch of readings stored all-or-nothing',
     description:
@@ -48,6 +50,7 @@ export class MeasurementsController {
   }
 
   @Get()
+  @ZResponse(MeasurementList)
   @ApiOperation({ summary: 'Readings of a repair order in the order taken; corrected ones only with includeSuperseded=true' })
   list(@CurrentActor() actor: Actor, @UuidParam('id') id: string, @ZQuery(ListMeasurements) query: ListMeasurements) {
     return this.service.list(actor, id, query);

@@ -3,6 +3,7 @@ import { ApiOperation, ApiSecurity, ApiTags } from '@nestjs/swagger';
 import { checkVin } from '../../engine/vin';
 import { CurrentActor, type Actor } from '../identity/actor';
 import { PagesRepository } from './pages.repository';
+import { VinCheck, ZResponse } from '../../common/openapi/responses';
 
 /**
  * The VIN rule of 49 CFR 565 as the new-repair-order page types it: the same `checkVin` the repair-order API
@@ -15,6 +16,7 @@ export class VinCheckController {
   constructor(private readonly pages: PagesRepository) {}
 
   @Get(':vin')
+  @ZResponse(VinCheck)
   @ApiOperation({
     summary: 'Check a VIN as typed (49 CFR 565): format, check digit at position 9, model-year candidates; nothing is stored',
     description:

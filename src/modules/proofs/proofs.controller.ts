@@ -5,6 +5,7 @@ import { openApiSchema, UuidParam, ZodPipe } from '../../common/validation/zod-i
 import { CurrentActor, type Actor } from '../identity/actor';
 import { VerifyProof } from './proofs.dto';
 import { ProofsService } from './proofs.service';
+import { PdfResponse, ProofCheck, ZResponse } from '../../common/openapi/responses';
 
 @ApiTags('proof of repair')
 @ApiSecurity('user')
@@ -15,6 +16,7 @@ export class ProofsController {
   constructor(private readonly proofs: ProofsService) {}
 
   @Get('repair-orders/:id/proof.pdf')
+  @PdfResponse('the proof of repair, a PDF with its evidence digest')
   @ApiProduces('application/pdf')
   @ApiOperation({
     summary: 'The proof-of-repair PDF (repaired or later; 409 before), with its SHA-256 evidence digest in the X-Proof-Digest header',
@@ -29,6 +31,7 @@ export class ProofsController {
   }
 
   @Post('proofs/verify')
+  @ZResponse(ProofCheck)
   @HttpCode(200)
   @ApiOperation({
     summary: 'Does a proof (its PDF or its digest) still match the repair order’s evidence? If not, what changed since',
