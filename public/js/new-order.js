@@ -27,7 +27,7 @@ function checkYear() {
     notes.push(`This VIN is already on file as a ${known.onFile.year} ${known.onFile.make} ${known.onFile.model}.`);
   }
   yearState.textContent = notes.join(' ');
-  yearState.className = `field-state ${notes.length ? 'warn' : ''}`;
+  yearState.className = `field-state when-said ${notes.length ? 'warn' : ''}`;
 }
 
 function say(text, kind) {

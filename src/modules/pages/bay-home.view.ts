@@ -44,7 +44,7 @@ export function newOrderPage(actor: Actor): SafeHtml {
         <div class="field"><label for="make">Make</label><input id="make" name="make" required maxlength="60"></div>
         <div class="field"><label for="model">Model</label><input id="model" name="model" required maxlength="60"></div>
       </div>
-      <p id="year-state" class="field-state" aria-live="polite"></p>
+      <p id="year-state" class="field-state when-said" aria-live="polite"></p>
       <div class="row">
         <div class="field"><label for="engine">Engine</label><input id="engine" name="engine" maxlength="80"></div>
         <div class="field"><label for="odometer">Odometer</label><input id="odometer" name="odometer" inputmode="numeric" required></div>
