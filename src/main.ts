@@ -31,8 +31,7 @@ async function main(): Promise<void> {
     '',
     `Tracebay is running on the ${where}.`,
     `  Bay tablet:  ${url}/`,
-    `  API:         ${url}/api`,
-    `  API docs:    ${url}/api/docs`,
+    `  API docs:    ${url}/api/docs  (every endpoint, try it out; the OpenAPI document is ${url}/api/openapi.json)`,
     `  Health:      ${url}/api/health`,
   ];
   if (seeded) {

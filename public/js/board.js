@@ -40,3 +40,22 @@ if (close) {
     });
   });
 }
+
+// Giving the order to a technician (or taking it back): the change names the version read, so two foremen never
+// overwrite each other unseen.
+const assign = document.getElementById('assign-form');
+if (assign) {
+  assign.addEventListener('submit', async (event) => {
+    event.preventDefault();
+    const technicianId = assign.querySelector('#assign-tech').value || null;
+    await busy(assign, async () => {
+      try {
+        showError(assign, null);
+        await api('PATCH', `/api/repair-orders/${assign.dataset.order}`, { version: Number(assign.dataset.version), technicianId });
+        location.reload();
+      } catch (error) {
+        showError(assign, error);
+      }
+    });
+  });
+}

@@ -1,5 +1,6 @@
 // Forms shared by the order page and the test screen: record a repair, mark the repair verified.
 import { api, busy, showError } from './api.js';
+import { typedInteger } from './numbers.js';
 
 export function bindRepairForm(root, done) {
   const form = root.querySelector('#repair-form');
@@ -25,7 +26,10 @@ export function bindRepairForm(root, done) {
       .map((row) => ({
         name: row.querySelector('[name=partName]').value.trim(),
         number: row.querySelector('[name=partNumber]').value.trim(),
-        quantity: Number(row.querySelector('[name=partQty]').value || '1'),
+        quantity: (() => {
+          const typed = row.querySelector('[name=partQty]').value.trim() || '1';
+          return typedInteger(typed) ?? typed;
+        })(),
       }))
       .filter((p) => p.name)
       .map((p) => (p.number ? p : { name: p.name, quantity: p.quantity }));

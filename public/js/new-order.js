@@ -1,12 +1,34 @@
 // New repair order: the VIN is checked as it is typed (or scanned) by the service's own 49 CFR 565 rule.
 import { api, busy, showError } from './api.js';
+import { typedInteger } from './numbers.js';
 
 const form = document.getElementById('new-order');
 const vin = document.getElementById('vin');
 const outside = document.getElementById('outside');
 const state = document.getElementById('vin-state');
+const yearField = document.getElementById('year');
+const yearState = document.getElementById('year-state');
 let timer = null;
 let asked = 0;
+/** What the last good VIN check said: the years its 10th character stands for, and the vehicle on file. */
+let known = null;
+
+/** Warns (never blocks) when the model year typed does not fit the VIN, or the VIN is on file with another year. */
+function checkYear() {
+  if (!yearState) return;
+  const year = typedInteger(yearField.value);
+  const notes = [];
+  if (known && year !== null && known.modelYearCandidates && !known.modelYearCandidates.includes(year)) {
+    notes.push(`The VIN's 10th character stands for ${known.modelYearCandidates.join(' or ')}, not ${year}: check the year or the VIN.`);
+  }
+  if (known && known.onFile && year !== null && known.onFile.year !== year) {
+    notes.push(`This VIN is already on file as a ${known.onFile.year} ${known.onFile.make} ${known.onFile.model}; the order will use the vehicle on file.`);
+  } else if (known && known.onFile && year === null) {
+    notes.push(`This VIN is already on file as a ${known.onFile.year} ${known.onFile.make} ${known.onFile.model}.`);
+  }
+  yearState.textContent = notes.join(' ');
+  yearState.className = `field-state when-said ${notes.length ? 'warn' : ''}`;
+}
 
 function say(text, kind) {
   state.textContent = text;
@@ -27,15 +49,19 @@ async function check() {
     const { body } = await api('GET', `/api/vins/${encodeURIComponent(value)}${outside.checked ? '?outsideNorthAmerica=true' : ''}`);
     if (mine !== asked) return;
     if (body.ok) {
+      known = body;
       const years = body.modelYearCandidates ? ` Model year ${body.modelYearCandidates.join(' or ')}.` : '';
       say(`✓ ${body.checkDigit === 'valid' ? 'Check digit correct.' : 'Format correct (no check digit outside North America).'}${years}`, 'ok');
-      const year = document.getElementById('year');
-      if (!year.value && body.modelYearCandidates) {
+      if (!yearField.value && body.onFile) yearField.value = String(body.onFile.year);
+      else if (!yearField.value && body.modelYearCandidates) {
         const now = new Date().getFullYear() + 1;
-        year.value = String(body.modelYearCandidates.filter((y) => y <= now).pop() ?? '');
+        yearField.value = String(body.modelYearCandidates.filter((y) => y <= now).pop() ?? '');
       }
       vin.setAttribute('aria-invalid', 'false');
+      checkYear();
     } else {
+      known = null;
+      checkYear();
       say(`${value.length} of 17 characters. ${body.findings[0].message}`, value.length >= 17 ? 'bad' : '');
       vin.setAttribute('aria-invalid', value.length >= 17 ? 'true' : 'false');
     }
@@ -49,11 +75,16 @@ vin.addEventListener('input', () => {
   timer = setTimeout(check, 120);
 });
 outside.addEventListener('change', check);
+yearField.addEventListener('input', checkYear);
 
 form.addEventListener('submit', async (event) => {
   event.preventDefault();
   const data = new FormData(form);
-  const num = (name) => (String(data.get(name) || '').trim() === '' ? NaN : Number(data.get(name)));
+  // A number the page cannot read goes as typed, so the service's answer names the field and what it expects.
+  const num = (name) => {
+    const typed = String(data.get(name) || '').trim();
+    return typed === '' ? undefined : (typedInteger(typed) ?? typed);
+  };
   const body = {
     vehicle: {
       vin: cleaned(String(data.get('vin') || '')),
@@ -69,7 +100,6 @@ form.addEventListener('submit', async (event) => {
     codes: String(data.get('codes') || '').split(/[\s,;]+/).filter(Boolean),
     ...(form.dataset.technician ? { technicianId: form.dataset.technician } : {}),
   };
-  for (const k of ['year', 'odometer']) if (Number.isNaN(body.vehicle[k])) body.vehicle[k] = null;
   await busy(form, async () => {
     try {
       showError(form, null);

@@ -29,10 +29,10 @@ export function unsent(orderId) {
 }
 
 /** Keeps the reading before anything is sent: a dropped connection cannot lose it. */
-export function enqueue(orderId, body, label) {
+export function enqueue(orderId, body, label, shown = {}) {
   const list = load();
   if (!list.some((e) => e.key === body.clientKey)) {
-    list.push({ key: body.clientKey, orderId, body, label, queuedAt: new Date().toISOString(), state: 'waiting', error: null });
+    list.push({ key: body.clientKey, orderId, body, label, value: shown.value ?? null, test: shown.test ?? null, queuedAt: new Date().toISOString(), state: 'waiting', error: null });
     save(list);
   }
   announce({ sent: 0 });
@@ -50,6 +50,7 @@ function update(key, change) {
 
 async function sendAll() {
   let sent = 0;
+  const saved = [];
   for (const entry of load()) {
     if (entry.state === 'refused') continue;
     update(entry.key, { state: 'sending' });
@@ -68,6 +69,7 @@ async function sendAll() {
     if (response.ok) {
       save(load().filter((e) => e.key !== entry.key));
       sent++;
+      saved.push({ key: entry.key, orderId: entry.orderId, label: entry.label, value: entry.value, test: entry.test });
     } else if (response.status >= 500 || response.status === 429) {
       update(entry.key, { state: 'waiting' });
       break;
@@ -82,7 +84,7 @@ async function sendAll() {
       update(entry.key, { state: 'refused', error: message });
     }
   }
-  announce({ sent });
+  announce({ sent, saved });
   return sent;
 }
 

@@ -1,5 +1,6 @@
 // The guided test screen: number pad, saving a reading through the unsent queue, and showing the new state.
 import { newKey } from './api.js';
+import { typedDecimal } from './numbers.js';
 import { bindRepairForm, bindVerifiedForm } from './forms.js';
 import { discard, enqueue, flush, unsent } from './reading-queue.js';
 
@@ -7,10 +8,8 @@ const main = document.getElementById('main');
 let orderId = null;
 
 function parseValue(text) {
-  const t = text.trim().replace(',', '.').replace('−', '-');
-  if (/^ol$/i.test(t)) return 'OL';
-  if (!/^-?(\d+\.?\d*|\.\d+)$/.test(t)) return null;
-  return Number(t);
+  if (/^ol$/i.test(text.trim())) return 'OL';
+  return typedDecimal(text);
 }
 
 function bindPad(form) {
@@ -55,7 +54,8 @@ function bindPad(form) {
       takenAt: new Date().toISOString(),
       ...(entry.supersedes ? { supersedes: entry.supersedes } : {}),
     };
-    enqueue(form.dataset.order, body, `${value === 'OL' ? 'OL' : value} ${unit} — ${entry.title}`);
+    const shown = `${value === 'OL' ? 'OL' : input.value.trim()} ${unit}`;
+    enqueue(form.dataset.order, body, `${shown} — ${entry.title}`, { value: shown, test: entry.title });
     input.value = '';
     form.querySelector('#reading-note').value = '';
     help.textContent = 'Kept on this tablet: not yet saved until the list above clears.';
@@ -105,9 +105,43 @@ function bind() {
   renderUnsent();
 }
 
+/**
+ * After a save: says what was saved (value and test), marks the test that follows when it is a different one, and
+ * brings its title into view, so a reading is never entered against a test that changed unnoticed.
+ */
+function confirmSaved(saved, previousTitle) {
+  const last = saved.filter((s) => s.orderId === orderId && s.test).pop();
+  const heading = main.querySelector('#entry-h');
+  const now = heading ? heading.textContent.trim() : null;
+  const box = document.createElement('div');
+  box.id = 'saved';
+  box.className = 'saved-note';
+  box.setAttribute('role', 'status');
+  const p = document.createElement('p');
+  const strong = document.createElement('strong');
+  strong.textContent = last ? `Saved: ${last.value}` : `Saved ${saved.length} reading${saved.length === 1 ? '' : 's'}`;
+  p.append(strong, last ? ` for “${last.test}”.` : '.');
+  box.append(p);
+  const changed = heading && previousTitle !== null && now !== previousTitle;
+  if (heading) {
+    const next = document.createElement('p');
+    next.textContent = changed ? `The test has changed. Next: ${now}` : `Same test again: ${now}`;
+    next.className = changed ? 'test-changed' : '';
+    box.append(next);
+    heading.closest('.entry')?.classList.add(changed ? 'entry-changed' : 'entry-same');
+  }
+  const anchor = main.querySelector('.test-head');
+  anchor ? anchor.after(box) : main.prepend(box);
+  // The confirmation sits just above the test's panel: with it at the top, the new title is in view below it.
+  box.scrollIntoView({ block: 'start' });
+  if (heading) heading.focus({ preventScroll: true });
+}
+
 /** Re-renders the screen from the server: the same page, without a correction or verification choice in the URL. */
-async function refresh() {
+async function refresh(saved = []) {
   const url = location.pathname;
+  const previous = main.querySelector('#entry-h');
+  const previousTitle = previous ? previous.textContent.trim() : null;
   try {
     const response = await fetch(url, { credentials: 'same-origin', headers: { accept: 'text/html' } });
     if (!response.ok) return;
@@ -118,6 +152,7 @@ async function refresh() {
     main.replaceChildren(...fresh.childNodes);
     document.title = doc.title;
     bind();
+    if (saved.length) confirmSaved(saved, previousTitle);
   } catch {
     /* offline: the queue keeps the readings, and the screen says so */
   }
@@ -125,7 +160,7 @@ async function refresh() {
 
 window.addEventListener('tracebay:queue', (event) => {
   renderUnsent();
-  if (event.detail && event.detail.sent > 0) refresh();
+  if (event.detail && event.detail.sent > 0) refresh(event.detail.saved || []);
 });
 window.addEventListener('online', renderUnsent);
 window.addEventListener('offline', renderUnsent);

@@ -1,5 +1,6 @@
 // Wire identification: readings per cavity in, proposed roles with their reasons out.
 import { api, busy, showError } from './api.js';
+import { typedDecimal } from './numbers.js';
 
 const form = document.getElementById('wires-form');
 const rows = document.getElementById('wire-rows');
@@ -12,9 +13,12 @@ const ROLE = {
   not_identified: ['Not identified', 'unknown'],
 };
 
+/** Ω per unit of the ohms field's unit choice. */
+const OHMS_PER = { 'Ω': 1, 'kΩ': 1e3, 'MΩ': 1e6 };
+
 function renumber() {
   rows.querySelectorAll('[data-row]').forEach((row, i) =>
-    row.querySelectorAll('input').forEach((input) => {
+    row.querySelectorAll('input, select').forEach((input) => {
       if (!input.id) return;
       const base = input.id.replace(/-\d+$/, '');
       row.querySelector(`label[for="${input.id}"]`)?.setAttribute('for', `${base}-${i}`);
@@ -40,8 +44,8 @@ form.addEventListener('change', (event) => {
 });
 
 function number(text) {
-  const t = String(text).trim().replace(',', '.');
-  return t === '' ? undefined : Number(t);
+  const t = String(text).trim();
+  return t === '' ? undefined : (typedDecimal(t) ?? t);
 }
 
 function show(answer) {
@@ -87,7 +91,10 @@ form.addEventListener('submit', async (event) => {
     .map((row) => {
       const open = row.querySelector('[name=open]').checked;
       const volts = number(row.querySelector('[name=volts]').value);
-      const ohms = open ? 'open' : number(row.querySelector('[name=ohms]').value);
+      const typed = number(row.querySelector('[name=ohms]').value);
+      const per = OHMS_PER[row.querySelector('[name=ohmsUnit]').value] ?? 1;
+      // Scaled once, rounded to the digits typed: 2.53 kΩ is 2530 Ω, not 2529.9999999999995.
+      const ohms = open ? 'open' : typeof typed === 'number' ? Number((typed * per).toPrecision(12)) : typed;
       return {
         cavity: row.querySelector('[name=cavity]').value.trim(),
         ...(volts === undefined ? {} : { volts }),

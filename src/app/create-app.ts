@@ -2,6 +2,7 @@ import type { INestApplication } from '@nestjs/common';
 import { NestFactory } from '@nestjs/core';
 import type { NestExpressApplication } from '@nestjs/platform-express';
 import { DocumentBuilder, SwaggerModule } from '@nestjs/swagger';
+import { withErrorResponses } from '../common/openapi/responses';
 import helmet from 'helmet';
 import { type NextFunction, type Request, type Response } from 'express';
 import type { AppConfig } from '../config/config';
@@ -82,6 +83,7 @@ export async function createApp(config: AppConfig, database: OpenDatabase, logge
       .addBearerAuth({ type: 'http', scheme: 'bearer', description: 'token from POST /api/auth/sign-in' }, 'user')
       .build(),
   );
+  withErrorResponses(document);
   SwaggerModule.setup('api/docs', app, document, { jsonDocumentUrl: 'api/openapi.json', customSiteTitle: 'Tracebay API' });
   return app;
 }

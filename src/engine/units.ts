@@ -56,7 +56,7 @@ const DEFS: Readonly<Record<Unit, UnitDef>> = {
 /** Spellings matched exactly (case matters: M is mega, m is milli). */
 const EXACT: Readonly<Record<string, Unit>> = {
   V: 'V', mV: 'mV', mv: 'mV',
-  Ω: 'Ω', kΩ: 'kΩ', k: 'kΩ', MΩ: 'MΩ', M: 'MΩ', Mohm: 'MΩ', Mohms: 'MΩ', MOhm: 'MΩ', MOhms: 'MΩ', megohm: 'MΩ', megohms: 'MΩ',
+  Ω: 'Ω', kΩ: 'kΩ', MΩ: 'MΩ', M: 'MΩ', Mohm: 'MΩ', Mohms: 'MΩ', MOhm: 'MΩ', MOhms: 'MΩ', megohm: 'MΩ', megohms: 'MΩ',
   A: 'A', mA: 'mA', ma: 'mA',
   Pa: 'Pa', '°C': '°C', '°F': '°F', '%': '%',
 };
@@ -75,7 +75,7 @@ const AMBIGUOUS: Readonly<Record<string, string>> = {
   mohm: "'mohm' could be milliohms or megohms; write MΩ (or Mohm) for megohms (milliohms are not accepted)",
   mohms: "'mohms' could be milliohms or megohms; write MΩ (or Mohm) for megohms (milliohms are not accepted)",
   mω: "'mΩ' (milliohms) is not accepted; write MΩ for megohms or Ω for ohms",
-  k: "'K' could be kelvin or kilohms; write kΩ (or k, kohm) for kilohms, °C or °F for temperature",
+  k: `'k' alone is a prefix, not a unit; expected one of ${UNITS.join(', ')} (kilohms: kΩ or kohm)`,
 };
 
 export type ParseUnitResult = { ok: true; unit: Unit } | { ok: false; findings: Finding[] };

@@ -2,6 +2,7 @@
  * Wording of the proof: times, ranges, test conditions. Times print in the offset they carry (no server time zone,
  * no locale), so the same view always prints the same words.
  */
+import { formatValue } from '../engine/units';
 import type { Jumper, JumperVia, MeasurementRequest, Point } from '../engine/vocabulary';
 import { canonicalJson } from './digest';
 import { printBound } from './units';
@@ -19,8 +20,16 @@ export function formatTimeOr(iso: string | null, missing: string): string {
   return iso === null ? missing : formatTime(iso);
 }
 
-/** "0.40 – 4.60 V", "≤ 0.10 V", "≥ 1 MΩ": bounds as the caller gave them. */
+/**
+ * "0.40 – 4.60 V", "≤ 0.10 V", "≥ 1 MΩ": bounds as the caller gave them, except bounds in plain ohms, which take the
+ * prefix a reading beside them would ("10.0 kΩ – 1.00 MΩ", not "10000 – 1000000 Ω").
+ */
 export function formatRange(e: ExpectedRange): string {
+  if (e.unit === 'Ω' && Math.max(Math.abs(e.min ?? 0), Math.abs(e.max ?? 0)) >= 1000) {
+    const ohms = (v: number) => formatValue(v, 'Ω', { significant: 3, autoPrefix: true }).replace(/^-/, '\u2212');
+    if (e.min !== null && e.max !== null) return `${ohms(e.min)} – ${ohms(e.max)}`;
+    return e.max !== null ? `≤ ${ohms(e.max)}` : `≥ ${ohms(e.min ?? 0)}`;
+  }
   if (e.min !== null && e.max !== null) return `${printBound(e.min)} – ${printBound(e.max)} ${e.unit}`;
   if (e.max !== null) return `≤ ${printBound(e.max)} ${e.unit}`;
   return `≥ ${printBound(e.min ?? 0)} ${e.unit}`;

@@ -12,10 +12,11 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { defaultCircuit, faultsFor, predictReading } from '../../src/engine/circuit';
 import type { MeasurementRequest } from '../../src/engine/vocabulary';
+import { formatEntered } from '../../src/modules/pages/words';
 import { readPdf } from '../proof-render/pdf-tools';
 import { FIXTURE_PASSWORD, TECH_A, VIN_SAMPLE } from '../support/fixtures';
 import { startApi, type TestApi } from '../support/http';
-import { launch, PORTRAIT, seriousViolations, snap } from './browser';
+import { LANDSCAPE, launch, PORTRAIT, seriousViolations, snap, snapView } from './browser';
 
 interface Entry {
   request: MeasurementRequest;
@@ -47,6 +48,21 @@ async function entryOf(page: Page): Promise<Entry | null> {
   const form = page.locator('#reading-form');
   if ((await form.count()) === 0) return null;
   return JSON.parse((await form.getAttribute('data-entry'))!) as Entry;
+}
+
+/** Where an element sits in the viewport now (evaluated in the page: this project type-checks without the DOM library). */
+async function box(page: Page, selector: string): Promise<{ top: number; bottom: number; viewport: number } | null> {
+  return (await page.evaluate(`(() => {
+    const el = document.querySelector(${JSON.stringify(selector)});
+    if (!el) return null;
+    const r = el.getBoundingClientRect();
+    return { top: r.top, bottom: r.bottom, viewport: window.innerHeight };
+  })()`)) as { top: number; bottom: number; viewport: number } | null;
+}
+
+/** The computed background colours of every element matching the selector. */
+async function backgrounds(page: Page, selector: string): Promise<string[]> {
+  return (await page.evaluate(`[...document.querySelectorAll(${JSON.stringify(selector)})].map((el) => getComputedStyle(el).backgroundColor)`)) as string[];
 }
 
 describe('bay tablet and foreman board in Chromium', () => {
@@ -132,10 +148,15 @@ describe('bay tablet and foreman board in Chromium', () => {
     await expect.poll(() => page.locator('#vin').getAttribute('aria-invalid')).toBe('true');
     await page.locator('#vin').fill(VIN_SAMPLE);
     await expect.poll(() => page.locator('#vin-state').textContent()).toMatch(/Check digit correct/);
+    // Position 10 of the VIN is "5": model year 2005 or 2035 (49 CFR 565.15(c)). Another year is pointed out.
+    await expect.poll(() => page.locator('#year').inputValue()).toBe('2005');
+    await page.locator('#year').fill('2006');
+    await expect.poll(() => page.locator('#year-state').textContent()).toContain('stands for 2005 or 2035, not 2006');
     await page.locator('#year').fill('2005');
+    await expect.poll(() => page.locator('#year-state').textContent()).toBe('');
     await page.locator('#make').fill('Testmake');
     await page.locator('#model').fill('Testmodel');
-    await page.locator('#odometer').fill('88120');
+    await page.locator('#odometer').fill('88,120');
     await page.locator('#complaint').fill('Reduced power warning; pedal feels dead at times.');
     await page.locator('#codes').fill('p0122');
     await check('03-new-order');
@@ -181,17 +202,58 @@ describe('bay tablet and foreman board in Chromium', () => {
       const entry = await entryOf(page);
       if (!entry) break;
       expect(entry.phase).toBe('diagnosis');
+      // Still testing: nothing is proven, so no repair is offered.
+      expect(await page.locator('#repair-form').count()).toBe(0);
       const { value, unit } = typed(entry.request, 'signal_open');
       if (i === 0) {
         await check('06-test');
         // Cautions show as text with an icon, not by colour alone.
         expect(await page.locator('.caution').first().textContent()).toContain('Caution:');
+        // On the smaller tablet on its side, where the leads go is on the first screen, under the specific cautions;
+        // the general "follow the service information" line is compact, below them.
+        await page.setViewportSize(LANDSCAPE);
+        await page.evaluate('window.scrollTo(0, 0)');
+        const black = await box(page, '.lead-black');
+        expect(black!.bottom).toBeLessThanOrEqual(LANDSCAPE.height);
+        expect(await page.locator('.caution', { hasText: 'service information' }).count()).toBe(0);
+        expect(await page.locator('.caution-general').textContent()).toContain('service information');
+        // "Before you start" comes before the steps, in the instructions' own type.
+        const order = (await page.evaluate(`[...document.querySelectorAll('.before-start, .procedure')].map((e) => e.className)`)) as string[];
+        expect(order).toEqual(['before-start', 'procedure']);
+        // The caution colour is the cautions' own: no badge, notice or panel shares it.
+        const caution = (await backgrounds(page, '.caution'))[0]!;
+        expect(await backgrounds(page, '.tag, .notice, .panel, .conclusion, .saved-note, .condition')).not.toContain(caution);
+        // Each badge says what it is about.
+        expect(await page.locator('.test-head .tag').allTextContents()).toEqual([expect.stringMatching(/^Order:?\s*Open$/), expect.stringMatching(/^Circuit:?\s*Testing$/)]);
+        // What each likely cause would show: a range a meter can display, never a negative resistance.
+        expect(await page.locator('.expect').textContent()).not.toMatch(/−|-\d[\d.]* (m|k|M)?Ω/);
+        await snapView(page, '06a-test-first-screen');
+        await page.setViewportSize(PORTRAIT);
+        // Scrolled down to the pad, as a technician is after typing.
+        await page.locator('#reading-form button[type=submit]').scrollIntoViewIfNeeded();
+        const firstTitle = entry.title;
         await enter(value, unit);
         saves++;
+        // The save is confirmed with the value and the test, and the title of the test now asked for is in view.
+        await expect.poll(() => page.locator('#saved').textContent()).toContain(`Saved: ${value} ${unit}`);
+        expect(await page.locator('#saved').textContent()).toContain(firstTitle);
+        const title = await box(page, '#entry-h');
+        expect(title!.top).toBeGreaterThanOrEqual(0);
+        expect(title!.bottom).toBeLessThanOrEqual(title!.viewport);
+        const next = await entryOf(page);
+        if (next && next.title !== firstTitle) {
+          expect(await page.locator('#saved .test-changed').textContent()).toContain(`The test has changed. Next: ${next.title}`);
+          expect(await page.locator('.entry.entry-changed').count()).toBe(1);
+        }
+        await snapView(page, '06b-test-saved');
         // Correct the first reading (same value, re-read): the old one stays on record, marked corrected.
         await page.locator('.path .step').first().getByRole('link', { name: 'Correct this reading' }).click();
         await page.waitForURL(/correct=/);
         expect((await entryOf(page))!.mode).toBe('correct');
+        // The correction screen names the test and the reading on record.
+        expect(await page.locator('#entry-h').textContent()).toBe(firstTitle);
+        expect(await page.locator('.correcting').textContent()).toContain(`the reading on record is ${formatEntered(Number(value), unit)}`);
+        await snap(page, '06c-correct');
         await enter(value, unit, { typeIt: true, note: '<script>alert(1)</script> re-read with a sharper probe' });
         saves++;
         expect(await page.locator('.path .verdict-superseded').count()).toBe(1);
@@ -241,6 +303,16 @@ describe('bay tablet and foreman board in Chromium', () => {
     await check('08-test-concluded');
   });
 
+  it('offers no repair while no cause is found, and leaves "What you did" for the technician to write', async () => {
+    // Before the cause was found the test screen had no repair form: checked on the first screen of the next test.
+    const action = page.locator('#repair-action');
+    expect(await action.inputValue()).toBe('');
+    expect(await action.getAttribute('placeholder')).toMatch(/\S/);
+    await page.getByRole('button', { name: 'Save the repair' }).click();
+    await expect.poll(() => page.locator('#repair-form .form-error').isVisible()).toBe(true);
+    await action.fill('Cut out the broken section of the signal wire and spliced in new wire with a sealed crimp splice.');
+  });
+
   it('records the repair, takes the verification readings again and marks the repair verified', async () => {
     await page.locator('#repair-location').fill('signal wire 12 cm from the sensor connector');
     await page.locator('#part-name-0').fill('Sealed crimp splice');
@@ -281,6 +353,8 @@ describe('bay tablet and foreman board in Chromium', () => {
     await card.locator('a').click();
     await page.waitForURL(/\/board\/orders\//);
     expect(await page.locator('.path .step').count()).toBeGreaterThan(3);
+    // The technician who opened it works on it; the foreman can give it to someone else from here.
+    expect((await page.locator('#assign-tech option:checked').textContent())!.trim()).toBe('Tech One');
     await check('12-board-review');
     await page.locator('#review-comment').fill('Clean splice, readings back in range.');
     await page.getByRole('button', { name: 'Approve' }).click();

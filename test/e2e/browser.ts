@@ -9,9 +9,9 @@ import { chromium, type Browser, type Page } from 'playwright-core';
 export const CHROMIUM = '/usr/bin/chromium';
 export const SCREENSHOTS = resolve(__dirname, '..', '..', 'artifacts', 'screenshots');
 
-/** A 10-inch tablet in CSS pixels, upright and on its side. */
+/** A 10-inch tablet in CSS pixels upright, and a smaller one on its side. */
 export const PORTRAIT = { width: 800, height: 1280 };
-export const LANDSCAPE = { width: 1280, height: 800 };
+export const LANDSCAPE = { width: 1024, height: 768 };
 
 export async function launch(): Promise<Browser> {
   if (!existsSync(CHROMIUM)) throw new Error(`${CHROMIUM} is missing: apt-get install -y chromium (.ci/run does it)`);
@@ -54,4 +54,12 @@ export async function seriousViolations(page: Page): Promise<AxeProblem[]> {
   const violations = (await page.evaluate(`axe.run(document, { resultTypes: ['violations'] }).then((r) =>
     r.violations.map((v) => ({ id: v.id, impact: v.impact, help: v.help, targets: v.nodes.slice(0, 3).map((n) => n.target.join(' ')) })))`)) as AxeProblem[];
   return violations.filter((v) => v.impact === 'serious' || v.impact === 'critical');
+}
+
+/** What the person sees right now: the viewport only, not the whole page. */
+export async function snapView(page: Page, name: string): Promise<string> {
+  mkdirSync(SCREENSHOTS, { recursive: true });
+  const file = join(SCREENSHOTS, `${name}-view.png`);
+  await page.screenshot({ path: file, fullPage: false });
+  return file;
 }

@@ -1,6 +1,8 @@
 import { ArgumentsHost, Catch, ExceptionFilter, HttpException, Logger } from '@nestjs/common';
-import type { Response } from 'express';
+import type { Request, Response } from 'express';
 import { DomainException, type ErrorKind } from './domain.exception';
+import { messageFor } from './not-found-wording';
+import { notFoundPage } from './not-found-page';
 import { currentRequestId } from '../logging/request-context';
 import { isDatabaseUnavailable, isDataRejected } from '../../database/unavailable';
 
@@ -32,7 +34,14 @@ export class HttpErrorFilter implements ExceptionFilter {
 
   catch(error: unknown, host: ArgumentsHost): void {
     const response = host.switchToHttp().getResponse<Response>();
-    const [status, body] = this.toResponse(error);
+    const request = host.switchToHttp().getRequest<Request & { actor?: { role?: string } }>();
+    const page = error instanceof HttpException && error.getStatus() === 404 ? notFoundPage(request) : null;
+    if (page !== null) {
+      response.status(404).type('html').send(page);
+      return;
+    }
+    const reader = request.actor;
+    const [status, body] = this.toResponse(error, reader);
     body.error.requestId = currentRequestId();
     // An unreachable database is an outage, not a bug: one line per request, not a stack.
     if (status === 503) this.logger.warn(`${body.error.code}: ${error instanceof Error ? error.message.trim().split('\n').pop() : String(error)}`);
@@ -42,14 +51,14 @@ export class HttpErrorFilter implements ExceptionFilter {
     response.status(status).json(body);
   }
 
-  private toResponse(error: unknown): [number, ErrorBody] {
+  private toResponse(error: unknown, reader?: { role?: string }): [number, ErrorBody] {
     if (error instanceof DomainException) {
       return [
         HTTP_STATUS[error.kind],
         {
           error: {
             code: error.code,
-            message: error.message,
+            message: messageFor(error, reader),
             ...(error.findings.length ? { findings: error.findings } : {}),
             ...error.details,
           },

@@ -8,6 +8,7 @@ import { ApiBody, ApiParam, ApiQuery } from '@nestjs/swagger';
 import { z, type ZodType } from 'zod';
 import { issueCode } from '../../engine/request-schema';
 import { InvalidInputException, type Finding } from '../errors/domain.exception';
+import { plainMessage } from './plain-messages';
 
 export function openApiSchema(schema: ZodType): Record<string, unknown> {
   const json = z.toJSONSchema(schema, { target: 'openapi-3.0', io: 'input', unrepresentable: 'any' }) as Record<string, unknown>;
@@ -19,7 +20,7 @@ export function zodFindings(error: z.ZodError, root: string): Finding[] {
   return error.issues.map((issue) => ({
     code: issueCode(issue).startsWith('request.') ? issueCode(issue) : `${root}.${issue.code}`,
     path: [root, ...issue.path.map(String)].join('.'),
-    message: issue.message,
+    message: plainMessage(issue),
   }));
 }
 
@@ -30,7 +31,8 @@ export class ZodPipe<T extends ZodType> implements PipeTransform {
   ) {}
 
   transform(value: unknown): z.output<T> {
-    const parsed = this.schema.safeParse(value === undefined && this.root === 'body' ? null : value);
+    // reportInput: so that the plain message can say what came instead of what was expected.
+    const parsed = this.schema.safeParse(value === undefined && this.root === 'body' ? null : value, { reportInput: true });
     if (!parsed.success) throw new InvalidInputException(zodFindings(parsed.error, this.root));
     return parsed.data;
   }

@@ -4,6 +4,7 @@ import { UuidParam, ZQuery } from '../../common/validation/zod-input';
 import { CurrentActor, type Actor } from '../identity/actor';
 import { ListAuditEvents } from './audit.dto';
 import { AuditService } from './audit.service';
+import { AuditList, ZResponse } from '../../common/openapi/responses';
 
 @ApiTags('audit trail')
 @ApiSecurity('user')
@@ -12,6 +13,7 @@ export class AuditController {
   constructor(private readonly service: AuditService) {}
 
   @Get(':id/audit')
+  @ZResponse(AuditList)
   @ApiOperation({
     summary: 'Every write on a repair order, oldest first: who, when, from which client, the row written and, for updates, each changed field before → after',
   })

@@ -8,6 +8,7 @@ import { SignInBody } from './auth.dto';
 import { AuthService } from './auth.service';
 import { clearSessionCookies, setSessionCookies } from './credentials';
 import { csrfTokenFor } from './secrets';
+import { SignedIn, SignedOut, ZResponse } from '../../common/openapi/responses';
 
 @ApiTags('sign-in')
 @Controller('api/auth')
@@ -18,6 +19,7 @@ export class AuthController {
   ) {}
 
   @Post('sign-in')
+  @ZResponse(SignedIn)
   @PublicRoute()
   @HttpCode(200)
   @ApiOperation({
@@ -36,6 +38,7 @@ export class AuthController {
   }
 
   @Post('sign-out')
+  @ZResponse(SignedOut)
   @HttpCode(200)
   @ApiSecurity('user')
   @ApiOperation({ summary: 'Sign out: the token or session used for this call stops working at once, on every instance' })

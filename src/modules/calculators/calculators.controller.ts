@@ -4,6 +4,7 @@ import { ZBody } from '../../common/validation/zod-input';
 import { BiasResistance, MeterLoading, Pressure, ReferenceLoad, ScanDecode, Thermistor, TroubleCode, VoltageDrop } from './calculators.dto';
 import { CalculatorsService } from './calculators.service';
 import { UNITS_CONVENTION } from './quantities';
+import { EngineAnswer, ZResponse } from '../../common/openapi/responses';
 
 @ApiTags('calculators')
 @ApiSecurity('user')
@@ -12,6 +13,7 @@ export class CalculatorsController {
   constructor(private readonly service: CalculatorsService) {}
 
   @Post('bias-resistance')
+  @ZResponse(EngineAnswer)
   @HttpCode(200)
   @ApiOperation({
     summary: 'Bias resistance of a signal input from its reading on a meter: R = R_meter·(V_open/V_read − 1)',
@@ -22,6 +24,7 @@ export class CalculatorsController {
   }
 
   @Post('meter-loading')
+  @ZResponse(EngineAnswer)
   @HttpCode(200)
   @ApiOperation({
     summary: 'What a meter reads on a source behind a resistance: V·R_meter/(R_meter + R_source)',
@@ -32,6 +35,7 @@ export class CalculatorsController {
   }
 
   @Post('reference-load')
+  @ZResponse(EngineAnswer)
   @HttpCode(200)
   @ApiOperation({
     summary: 'Source resistance of the 5 V reference from a reading under a known load, its verdict, and whether it recovers once released',
@@ -42,6 +46,7 @@ export class CalculatorsController {
   }
 
   @Post('voltage-drop')
+  @ZResponse(EngineAnswer)
   @HttpCode(200)
   @ApiOperation({
     summary: 'Verdict on a voltage drop against a configurable limit (default 0.1 V for a sensor ground), and the wire resistance given the current',
@@ -52,6 +57,7 @@ export class CalculatorsController {
   }
 
   @Post('thermistor')
+  @ZResponse(EngineAnswer)
   @HttpCode(200)
   @ApiOperation({
     summary: 'NTC thermistor both ways (Steinhart–Hart 1968 or beta): temperature ↔ resistance, and the divider voltage with the module pull-up',
@@ -62,6 +68,7 @@ export class CalculatorsController {
   }
 
   @Post('pressure')
+  @ZResponse(EngineAnswer)
   @HttpCode(200)
   @ApiOperation({
     summary: 'Pressure: a linear sensor from two calibration points, gauge vacuum ↔ absolute under a barometer, and kPa ↔ inHg ↔ psi',
@@ -72,6 +79,7 @@ export class CalculatorsController {
   }
 
   @Post('scan-decode')
+  @ZResponse(EngineAnswer)
   @HttpCode(200)
   @ApiOperation({
     summary: 'Decode an SAE J1979 mode 01 value from its raw data bytes',
@@ -82,6 +90,7 @@ export class CalculatorsController {
   }
 
   @Post('trouble-code')
+  @ZResponse(EngineAnswer)
   @HttpCode(200)
   @ApiOperation({
     summary: 'A trouble code from its two raw bytes or as typed (SAE J2012), with system, scope and the generic meaning where tabled',

@@ -4,6 +4,7 @@ import { ZBody } from '../../common/validation/zod-input';
 import { UNITS_CONVENTION } from '../calculators/quantities';
 import { BandsBody, MAX_SAMPLE_SOLVES, MAX_SAMPLES, PredictionBody } from './circuit-model.dto';
 import { CircuitModelService } from './circuit-model.service';
+import { EngineAnswer, ZResponse } from '../../common/openapi/responses';
 
 const CIRCUIT_NOTE =
   'The circuit is the default one of its kind (three_wire_5v: 5 V regulator behind 1 Ω, signal biased up through 250 kΩ, potentiometer at 0.15; two_wire_thermistor: 10 kΩ pull-up, generic 10 kΩ NTC at 20 °C) with any part overridden. ' +
@@ -18,6 +19,7 @@ export class CircuitModelController {
   constructor(private readonly service: CircuitModelService) {}
 
   @Post('predictions')
+  @ZResponse(EngineAnswer)
   @HttpCode(200)
   @ApiOperation({ summary: 'Predict the reading of a test on a circuit: the good circuit and one row per fault', description: CIRCUIT_NOTE })
   predict(@ZBody(PredictionBody) body: PredictionBody) {
@@ -25,6 +27,7 @@ export class CircuitModelController {
   }
 
   @Post('bands')
+  @ZResponse(EngineAnswer)
   @HttpCode(200)
   @ApiOperation({
     summary: 'Monte Carlo spread of a test’s reading, good and per fault: percentiles and the probability of each outcome band',

@@ -1,8 +1,10 @@
 import { Controller, HttpCode, Post } from '@nestjs/common';
 import { ApiOperation, ApiSecurity, ApiTags } from '@nestjs/swagger';
 import { ZBody } from '../../common/validation/zod-input';
+import { roundProbabilities } from '../../common/round-probabilities';
 import { IdentifyWiresBody } from './circuit-model.dto';
 import { CircuitModelService } from './circuit-model.service';
+import { WireRoles, ZResponse } from '../../common/openapi/responses';
 
 @ApiTags('wires')
 @ApiSecurity('user')
@@ -11,6 +13,7 @@ export class WireIdentificationController {
   constructor(private readonly service: CircuitModelService) {}
 
   @Post('identify')
+  @ZResponse(WireRoles)
   @HttpCode(200)
   @ApiOperation({
     summary: 'Tell the wires of an unplugged sensor connector apart from readings per cavity, with no diagram',
@@ -20,6 +23,6 @@ export class WireIdentificationController {
       'Never put an ohmmeter on airbag circuits; back-probe without spreading terminals; the service information of the manufacturer takes precedence.',
   })
   identify(@ZBody(IdentifyWiresBody) body: IdentifyWiresBody) {
-    return this.service.identifyWires(body);
+    return roundProbabilities(this.service.identifyWires(body));
   }
 }

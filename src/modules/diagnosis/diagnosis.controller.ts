@@ -3,7 +3,8 @@ import { ApiOperation, ApiSecurity, ApiTags } from '@nestjs/swagger';
 import { UuidParam } from '../../common/validation/zod-input';
 import { CurrentActor, type Actor } from '../identity/actor';
 import { DiagnosisService } from './diagnosis.service';
-import { diagnosisView } from './diagnosis.view';
+import { apiDiagnosisView } from './diagnosis.view';
+import { Diagnosis, ZResponse } from '../../common/openapi/responses';
 
 @ApiTags('diagnosis')
 @ApiSecurity('user')
@@ -12,6 +13,7 @@ export class DiagnosisController {
   constructor(private readonly service: DiagnosisService) {}
 
   @Get()
+  @ZResponse(Diagnosis)
   @ApiOperation({
     summary: 'What the readings so far say: ranked causes, the next test (post its `request` back with the value), the path, and the conclusion',
     description:
@@ -19,6 +21,6 @@ export class DiagnosisController {
   })
   async get(@CurrentActor() actor: Actor, @UuidParam('id') id: string, @UuidParam('circuitId') circuitId: string) {
     const { tree, diagnosis } = await this.service.forCircuit(actor, id, circuitId);
-    return diagnosisView(tree, diagnosis);
+    return apiDiagnosisView(tree, diagnosis);
   }
 }

@@ -6,6 +6,7 @@ import { TREE_LIMITS, treeLimitsTable } from '../../engine/diagnosis';
 import { CurrentActor, type Actor } from '../identity/actor';
 import { FaultTreeCatalog } from './fault-tree-catalog.service';
 import { FaultTreesRepository } from './fault-trees.repository';
+import { FaultTree, FaultTreeList, FaultTreeUpload, ZResponse } from '../../common/openapi/responses';
 
 @ApiTags('fault trees')
 @ApiSecurity('user')
@@ -17,12 +18,14 @@ export class FaultTreesController {
   ) {}
 
   @Get()
+  @ZResponse(FaultTreeList)
   @ApiOperation({ summary: 'The built-in trees and every version of the shop’s own trees' })
   async list(@CurrentActor() actor: Actor) {
     return { builtIn: this.catalog.builtIns(), shop: await this.trees.listForShop(actor.shopId) };
   }
 
   @Post()
+  @ZResponse(FaultTreeUpload, 201)
   @ApiOperation({
     summary: 'Upload a shop tree (foreman or admin): validated, stored as a new version; the same document again is the same version',
     description: `Errors name the JSON path inside the document, e.g. body.tests.3.outcomes.1.condition. A tree over a size limit is refused with a 400 whose finding code names the limit (tree.limit.<name>). Limits: ${treeLimitsTable()}.`,
@@ -41,6 +44,7 @@ export class FaultTreesController {
   }
 
   @Get(':treeRowId')
+  @ZResponse(FaultTree)
   @ApiOperation({ summary: 'One stored tree version with its document' })
   async get(@CurrentActor() actor: Actor, @UuidParam('treeRowId') id: string) {
     const tree = await this.catalog.byStoredId(actor, id);

@@ -4,9 +4,10 @@ import { ApiBody, ApiOperation, ApiSecurity, ApiTags } from '@nestjs/swagger';
 import { openApiSchema, UuidParam, ZQuery } from '../../common/validation/zod-input';
 import { CurrentActor, type Actor } from '../identity/actor';
 import { DiagnosisService } from '../diagnosis/diagnosis.service';
-import { diagnosisView } from '../diagnosis/diagnosis.view';
+import { apiDiagnosisView } from '../diagnosis/diagnosis.view';
 import { ListMeasurements, MeasurementBody, RecordOptions } from './measurements.dto';
 import { MeasurementsService } from './measurements.service';
+import { MeasurementAnswer, MeasurementList, ZResponse } from '../../common/openapi/responses';
 
 @ApiTags('measurements')
 @ApiSecurity('user')
@@ -18,6 +19,7 @@ export class MeasurementsController {
   ) {}
 
   @Post()
+  @ZResponse(MeasurementAnswer, 201)
   @ApiOperation({
     summary: 'Record a reading, or a batch of readings stored all-or-nothing',
     description:
@@ -42,12 +44,13 @@ export class MeasurementsController {
     const diagnoses = [];
     for (const circuit of circuits) {
       const { tree, diagnosis } = await this.diagnoses.ofCircuit(actor, id, circuit);
-      diagnoses.push({ circuitId: circuit.id, ...diagnosisView(tree, diagnosis) });
+      diagnoses.push({ circuitId: circuit.id, ...apiDiagnosisView(tree, diagnosis) });
     }
     return { ...(result as object), diagnoses };
   }
 
   @Get()
+  @ZResponse(MeasurementList)
   @ApiOperation({ summary: 'Readings of a repair order in the order taken; corrected ones only with includeSuperseded=true' })
   list(@CurrentActor() actor: Actor, @UuidParam('id') id: string, @ZQuery(ListMeasurements) query: ListMeasurements) {
     return this.service.list(actor, id, query);

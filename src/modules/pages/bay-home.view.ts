@@ -40,10 +40,11 @@ export function newOrderPage(actor: Actor): SafeHtml {
       </div>
       <label class="check"><input type="checkbox" name="builtOutsideNorthAmerica" id="outside"> Built for a market outside North America (no check digit)</label>
       <div class="row">
-        <div class="field"><label for="year">Model year</label><input id="year" name="year" inputmode="numeric" required min="1981" max="${year + 2}"></div>
+        <div class="field"><label for="year">Model year</label><input id="year" name="year" inputmode="numeric" required min="1981" max="${year + 2}" aria-describedby="year-state"></div>
         <div class="field"><label for="make">Make</label><input id="make" name="make" required maxlength="60"></div>
         <div class="field"><label for="model">Model</label><input id="model" name="model" required maxlength="60"></div>
       </div>
+      <p id="year-state" class="field-state when-said" aria-live="polite"></p>
       <div class="row">
         <div class="field"><label for="engine">Engine</label><input id="engine" name="engine" maxlength="80"></div>
         <div class="field"><label for="odometer">Odometer</label><input id="odometer" name="odometer" inputmode="numeric" required></div>

@@ -4,6 +4,7 @@ import type { CircuitDiagnosis, OrderDetail, RepairItem, ReviewList } from './ba
 import { html, type SafeHtml } from './html';
 import { ICON, page } from './layout.view';
 import { diagnosisStatus, orderHeader, proofLink, repairsList, reviewsList } from './parts.view';
+import { unitsFor } from '../../engine/units';
 import { percent } from './words';
 import { approvalBanner, type Approval } from './approval.view';
 
@@ -13,6 +14,8 @@ const KIND_WORDS: Record<string, string> = {
   shared_5v_reference: 'One 5 V reference shared by several sensors',
 };
 const ROLES = ['reference', 'signal', 'ground', 'unknown'] as const;
+/** The ohms units the reading pad offers, from the one definition of units. */
+const OHMS_UNITS = unitsFor('ohms');
 const ROLE_WORDS: Record<string, string> = { reference: '5 V reference', signal: 'Signal', ground: 'Sensor ground', unknown: 'Not known yet' };
 
 export interface Prefill {
@@ -28,7 +31,7 @@ function circuitCard(order: OrderDetail, c: CircuitDiagnosis): SafeHtml {
     <div><strong class="circuit-name">${c.circuit.label}</strong> <span class="muted">${c.circuit.sensor} · ${KIND_WORDS[c.circuit.kind] ?? c.circuit.kind}</span></div>
     <div>${diagnosisStatus(shown)} ${top ? html`${c.atRepair ? 'Cause found before the repair' : 'Leading cause'}: ${top.label} (${percent(top.probability)})` : ''}
       · ${c.readings.length} reading${c.readings.length === 1 ? '' : 's'}</div>
-    <a class="button primary" href="/bay/orders/${order.id}/circuits/${c.circuit.id}">${order.status === 'repaired' ? 'Verify the repair' : 'Guided tests'}</a>
+    <a class="button primary" href="/bay/orders/${order.id}/circuits/${c.circuit.id}">${order.status === 'repaired' ? 'Verify the repair' : 'Test this circuit'}</a>
   </li>`;
 }
 
@@ -113,7 +116,8 @@ export function wiresPage(actor: Actor, order: OrderDetail): SafeHtml {
   const row = (name: string, i: number) => html`<div class="row cavity-reading" data-row>
     <div class="field narrow"><label for="w-cav-${i}">Cavity</label><input id="w-cav-${i}" name="cavity" value="${name}" maxlength="8" autocomplete="off"></div>
     <div class="field"><label for="w-volts-${i}">Volts, key on (V)</label><input id="w-volts-${i}" name="volts" inputmode="decimal" autocomplete="off"></div>
-    <div class="field"><label for="w-ohms-${i}">Ohms, key off (Ω)</label><input id="w-ohms-${i}" name="ohms" inputmode="decimal" autocomplete="off"></div>
+    <div class="field"><label for="w-ohms-${i}">Ohms, key off</label><input id="w-ohms-${i}" name="ohms" inputmode="decimal" autocomplete="off"></div>
+    <div class="field narrow"><label for="w-ohms-unit-${i}">Unit</label><select id="w-ohms-unit-${i}" name="ohmsUnit">${OHMS_UNITS.map((u) => html`<option value="${u}">${u}</option>`)}</select></div>
     <label class="check"><input type="checkbox" name="open"> Meter shows OL</label>
   </div>`;
   return page(

@@ -11,6 +11,7 @@ import type { ListRepairOrders } from '../repair-orders/repair-orders.dto';
 import { RepairOrdersService } from '../repair-orders/repair-orders.service';
 import { RepairsService } from '../repairs/repairs.service';
 import { ReviewsService } from '../reviews/reviews.service';
+import { formatEntered, requestLine, when } from './words';
 
 export type OrderDetail = Awaited<ReturnType<RepairOrdersService['get']>>;
 export type OrderSummary = Awaited<ReturnType<RepairOrdersService['list']>>['items'][number];
@@ -59,6 +60,8 @@ export interface Entry {
   supersedes?: string;
   /** verify mode: which verification item. */
   index?: number;
+  /** correct mode: the reading on record, as shown ("4.87 V, Tech One, 2026-12-03 09:12"). */
+  was?: string;
 }
 
 const OPEN: NonNullable<ListRepairOrders['status']> = ['open', 'diagnosing', 'repaired', 'verified'];
@@ -118,7 +121,10 @@ export class BayService {
       const target = c.readings.find((r) => r.id === ask.correct && !r.supersededBy);
       const phaseOk = target && (order.status === 'repaired' ? target.phase === 'verification' : target.phase === 'diagnosis');
       if (target && phaseOk) {
-        return { mode: 'correct', title: 'Correct a reading', request: requestOf(target), phase: target.phase, supersedes: target.id };
+        const request = requestOf(target);
+        const label = c.diagnosis.path.find((p) => p.readingId === target.id)?.testLabel ?? c.howTo.get(requestKey(request))?.label ?? requestLine(request, c.circuit.cavities);
+        const value = formatEntered(target.valueEntered, target.unitEntered, target.overload);
+        return { mode: 'correct', title: label, request, phase: target.phase, supersedes: target.id, was: `${value}, ${target.takenBy.name}, ${when(target.takenAt)}` };
       }
     }
     if (order.status === 'repaired') {
@@ -135,7 +141,7 @@ export class BayService {
       };
     }
     const next = c.diagnosis.nextTest;
-    if (!next || c.diagnosis.status === 'concluded' || c.diagnosis.status === 'exhausted') return null;
+    if (!next || c.diagnosis.status === 'concluded' || c.diagnosis.status === 'exhausted' || c.diagnosis.conclusion) return null;
     return {
       mode: next.recheckOf ? 'recheck' : 'next',
       title: next.label,

@@ -46,7 +46,7 @@ export class BoardController {
     // Existence first: an id of another shop is a 404 for everyone, never a 403 that confirms it exists.
     const data = await this.bay.order(actor, id);
     foremanOnly(actor);
-    const [item] = await this.board.list(actor, { orderId: id });
-    return reviewPage(actor, { ...data, approval: await this.evidence.approval(actor, id) }, item?.flags ?? []).value;
+    const [[item], technicians, approval] = await Promise.all([this.board.list(actor, { orderId: id }), this.board.technicians(actor), this.evidence.approval(actor, id)]);
+    return reviewPage(actor, { ...data, approval }, item?.flags ?? [], technicians).value;
   }
 }

@@ -11,7 +11,7 @@ import { PagesRepository, type BoardOrderRow } from './pages.repository';
  */
 export const BOARD_POLICY = { silentHours: 4, unsureAfterTests: 4, unsureBelow: 0.6 } as const;
 
-export type FlagCode = 'approval' | 'stale' | 'close' | 'contradiction' | 'silent' | 'unsure' | 'between' | 'returned';
+export type FlagCode = 'approval' | 'stale' | 'close' | 'unassigned' | 'contradiction' | 'silent' | 'unsure' | 'between' | 'returned';
 
 export interface Flag {
   code: FlagCode;
@@ -61,6 +61,7 @@ export function flagsFor(item: Omit<BoardItem, 'flags' | 'weight'>, diagnoses: D
   if (stale) flags.push({ code: 'stale', text: 'Approval stale: the evidence changed since; approve again', weight: 32 });
   else if (order.status === 'verified' && review?.decision !== 'approved') flags.push({ code: 'approval', text: 'Waiting for your approval', weight: 30 });
   if (order.status === 'verified' && review?.decision === 'approved' && !stale) flags.push({ code: 'close', text: 'Approved: ready to close', weight: 22 });
+  if (!order.technician && order.status !== 'closed') flags.push({ code: 'unassigned', text: 'No technician assigned: give it to someone', weight: 28 });
   if (diagnoses.some((d) => d.findings.some((f) => f.code.startsWith('diagnosis.contradiction')))) {
     flags.push({ code: 'contradiction', text: 'Readings contradict each other', weight: 25 });
   }

@@ -5,13 +5,14 @@ import { AGE_CHOICES, type BoardFilter, type BoardItem, type Flag } from './boar
 import { html, type SafeHtml } from './html';
 import { ICON, page } from './layout.view';
 import { conclusionCard, diagnosisStatus, orderHeader, pathList, proofLink, rankedCauses, repairsList, reviewsList, statusTag, vehicleLine } from './parts.view';
-import { ago, percent } from './words';
+import { ago, formatEntered, percent } from './words';
 import { approvalBanner, closeForm, type Approval } from './approval.view';
 
 const FLAG_ICON: Record<Flag['code'], SafeHtml> = {
   approval: ICON.check,
   stale: ICON.flag,
   close: ICON.check,
+  unassigned: ICON.flag,
   contradiction: ICON.cross,
   silent: ICON.clock,
   unsure: ICON.flag,
@@ -69,9 +70,21 @@ export function boardPage(actor: Actor, items: BoardItem[], technicians: Array<{
   );
 }
 
+/** Who works on the order: an unassigned one shows on nobody's "My repair orders" until the foreman gives it out. */
+function assignForm(order: OrderDetail, technicians: Array<{ id: string; name: string }>): SafeHtml {
+  return html`<form id="assign-form" class="filters" data-order="${order.id}" data-version="${order.version}" novalidate>
+    <div class="field"><label for="assign-tech">Technician on this order</label><select id="assign-tech" name="technicianId">
+      <option value="" ${order.technician ? '' : 'selected'}>Not assigned</option>
+      ${technicians.map((t) => html`<option value="${t.id}" ${t.id === order.technician?.id ? 'selected' : ''}>${t.name}</option>`)}
+    </select></div>
+    <button class="button" type="submit">Assign</button>
+    <p class="form-error" role="alert" hidden></p>
+  </form>`;
+}
+
 function verificationTable(c: CircuitDiagnosis): SafeHtml {
   if (c.verification.length === 0) return html``;
-  const show = (r: { overload: boolean; valueEntered: number | null; unitEntered: string } | null) => (r ? (r.overload ? 'OL' : `${r.valueEntered} ${r.unitEntered}`) : '—');
+  const show = (r: { overload: boolean; valueEntered: number | null; unitEntered: string } | null) => (r ? formatEntered(r.valueEntered, r.unitEntered, r.overload) : '—');
   return html`<table class="table"><caption>Before and after the repair</caption>
     <thead><tr><th scope="col">Test</th><th scope="col">Before</th><th scope="col">After</th></tr></thead>
     <tbody>${c.verification.map((v) => html`<tr><th scope="row">${v.label}</th><td>${show(v.before)}</td><td>${show(v.after)}</td></tr>`)}</tbody></table>`;
@@ -81,6 +94,7 @@ export function reviewPage(
   actor: Actor,
   data: { order: OrderDetail; circuits: CircuitDiagnosis[]; repairs: RepairItem[]; reviews: ReviewList; approval?: Approval },
   flags: Flag[],
+  technicians: Array<{ id: string; name: string }> = [],
 ): SafeHtml {
   const { order, circuits, repairs, reviews } = data;
   const reviewable = order.status === 'repaired' || order.status === 'verified';
@@ -92,12 +106,13 @@ export function reviewPage(
     ${approvalBanner(data.approval, order.status)}
     ${closeForm(order, data.approval)}
     ${flagList(flags)}
+    ${order.status === 'closed' ? '' : assignForm(order, technicians)}
     ${circuits.map(
       (c) => html`<section class="panel" aria-labelledby="c-${c.circuit.id}">
         <h2 id="c-${c.circuit.id}">${c.circuit.label} ${diagnosisStatus(c.atRepair ?? c.diagnosis)}</h2>
         ${conclusionCard(c.atRepair ?? c.diagnosis)}
         <div class="two-col"><div><h3>${c.atRepair ? 'Causes as diagnosed before the repair' : 'Likely causes'}</h3>${rankedCauses(c.atRepair ?? c.diagnosis)}</div>
-        <div><h3>Path</h3>${pathList(c)}</div></div>
+        <div><h3>Readings in the order taken</h3>${pathList(c)}</div></div>
         ${verificationTable(c)}
       </section>`,
     )}

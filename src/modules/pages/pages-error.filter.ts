@@ -2,6 +2,7 @@ import { ArgumentsHost, Catch, ExceptionFilter, HttpException, Logger } from '@n
 import type { Response } from 'express';
 import { DomainException } from '../../common/errors/domain.exception';
 import { HTTP_STATUS, retryAfter } from '../../common/errors/http-error.filter';
+import { messageFor } from '../../common/errors/not-found-wording';
 import type { RequestWithActor } from '../identity/actor';
 import { SESSION_COOKIE } from '../auth/credentials';
 import { errorPage } from './layout.view';
@@ -28,7 +29,7 @@ export class PagesErrorFilter implements ExceptionFilter {
     let message = 'Something went wrong on our side. Try again; if it keeps happening, tell the shop admin.';
     if (error instanceof DomainException) {
       status = HTTP_STATUS[error.kind];
-      message = error.message;
+      message = messageFor(error, request.actor);
       if (status === 429) response.setHeader('Retry-After', retryAfter(error.details.retryAfterSeconds));
     } else if (error instanceof HttpException) {
       status = error.getStatus();

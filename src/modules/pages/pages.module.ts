@@ -15,6 +15,9 @@ import { PagesRepository } from './pages.repository';
 import { staticAssets } from './static-assets';
 import { VinCheckController } from './vin-check.controller';
 import { SignInController } from './sign-in.controller';
+import { registerNotFoundPage } from '../../common/errors/not-found-page';
+import type { RequestWithActor } from '../identity/actor';
+import { errorPage } from './layout.view';
 
 /**
  * The pages for the bay tablet and the foreman, rendered on the server, with their static assets. They read and
@@ -26,6 +29,10 @@ import { SignInController } from './sign-in.controller';
   providers: [PagesRepository, BayService, BoardService],
 })
 export class PagesModule implements NestModule {
+  constructor() {
+    registerNotFoundPage((request) => errorPage(404, `There is no page at ${request.path}. Check the address, or start again from your repair orders.`, (request as RequestWithActor).actor).value);
+  }
+
   configure(consumer: MiddlewareConsumer): void {
     consumer.apply(staticAssets()).forRoutes({ path: 'assets/*path', method: RequestMethod.GET });
     // Sign-in and sign-out post as plain HTML forms.

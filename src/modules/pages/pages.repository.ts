@@ -28,6 +28,11 @@ export class PagesRepository {
     this.db = database.prisma;
   }
 
+  /** The shop's vehicle with this VIN, if it has one (the new-order page points out a different model year). */
+  vehicleByVin(shopId: string, vin: string) {
+    return this.db.vehicle.findUnique({ where: { shopId_vin: { shopId, vin } }, select: { year: true, make: true, model: true } });
+  }
+
   technicians(shopId: string) {
     return this.db.user.findMany({ where: { shopId, active: true, role: 'technician' }, orderBy: { name: 'asc' }, select: { id: true, name: true } });
   }

@@ -4,11 +4,13 @@ import type { MeasurementRow } from '../measurements/measurements.repository';
 import { requestOf } from '../measurements/measurements.view';
 import type { CircuitDiagnosis, OrderDetail, RepairItem, ReviewList } from './bay.service';
 import { html, type SafeHtml } from './html';
+import { isProven, repairable, undecidedOf } from './diagnosis-state';
 import { ICON } from './layout.view';
-import { DIAGNOSIS_STATUS_WORDS, PART_WORDS, percent, requestLine, STATUS_WORDS, VERDICT_WORDS, when } from './words';
+import { DIAGNOSIS_STATUS_WORDS, formatEntered, PART_WORDS, percent, requestLine, STATUS_WORDS, VERDICT_WORDS, when } from './words';
 
+/** The repair order's status, labelled as such: it sits beside the circuit's own badge on several screens. */
 export function statusTag(status: string): SafeHtml {
-  return html`<span class="tag tag-${status}">${STATUS_WORDS[status] ?? status}</span>`;
+  return html`<span class="tag tag-${status}"><span class="tag-what">Order</span> ${STATUS_WORDS[status] ?? status}</span>`;
 }
 
 export function vehicleLine(v: { year: number; make: string; model: string; engine?: string }): string {
@@ -47,7 +49,7 @@ export function rankedCauses(d: Diagnosis, limit = 5): SafeHtml {
 }
 
 function readingValue(r: MeasurementRow): string {
-  return r.overload ? `OL (${r.unitEntered})` : `${r.valueEntered} ${r.unitEntered}`;
+  return formatEntered(r.valueEntered, r.unitEntered, r.overload);
 }
 
 /**
@@ -86,13 +88,28 @@ export function pathList(c: CircuitDiagnosis, correctHref?: (reading: Measuremen
   </ol>`;
 }
 
+/** What is known: the proven cause and its repair, advice when nothing needs repairing, or "not proven". */
 export function conclusionCard(d: Diagnosis): SafeHtml {
-  if (!d.conclusion) return html``;
-  const c = d.conclusion;
+  const undecided = undecidedOf(d);
+  if (undecided) {
+    return html`<section class="panel conclusion not-proven" aria-labelledby="conclusion-h">
+      <h2 id="conclusion-h">${ICON.flag} Not proven: no test left can settle it</h2>
+      <p>The readings so far point most to:</p>
+      <ul class="plain-list">${undecided.leading.map((l) => html`<li><strong>${l.label}</strong> <span class="pct">${percent(l.probability)}</span></li>`)}</ul>
+      <p><strong>What to do:</strong> ${undecided.advice}</p>
+      <p class="muted">No repair is offered until a cause is proven.</p>
+    </section>`;
+  }
+  if (!isProven(d)) return html``;
+  const c = d.conclusion!;
   return html`<section class="panel conclusion" aria-labelledby="conclusion-h">
-    <h2 id="conclusion-h">${ICON.flag} ${d.status === 'exhausted' ? 'Most likely cause (no test left can settle it)' : 'Cause found'}</h2>
+    <h2 id="conclusion-h">${ICON.flag} Cause found</h2>
     <p class="big">${c.label} <span class="pct">${percent(c.probability)}</span></p>
-    <p><strong>Repair:</strong> ${c.repair.action} <span class="muted">(part: ${PART_WORDS[c.repair.part] ?? c.repair.part})</span></p>
+    ${
+      repairable(d)
+        ? html`<p><strong>Repair:</strong> ${c.repair.action} <span class="muted">(part: ${PART_WORDS[c.repair.part] ?? c.repair.part})</span></p>`
+        : html`<p><strong>Nothing to repair now:</strong> ${c.repair.action}</p>`
+    }
   </section>`;
 }
 
@@ -117,7 +134,8 @@ export function reviewsList(reviews: ReviewList): SafeHtml {
 }
 
 export function diagnosisStatus(d: Diagnosis): SafeHtml {
-  return html`<span class="tag tag-d-${d.status}">${DIAGNOSIS_STATUS_WORDS[d.status] ?? d.status}</span>`;
+  const state = d.status === 'concluded' && !isProven(d) ? 'exhausted' : d.status;
+  return html`<span class="tag tag-d-${state}"><span class="tag-what">Circuit</span> ${DIAGNOSIS_STATUS_WORDS[state] ?? state}</span>`;
 }
 
 export function proofLink(order: OrderDetail): SafeHtml {

@@ -1,4 +1,4 @@
-/** The guided test screen: what to measure next and how, the number pad, the causes, and the path so far. */
+/** The test screen: what to measure next and how, the number pad, the causes, and the path so far. */
 import type { NextTest } from '../../engine/diagnosis';
 import type { Actor } from '../identity/actor';
 import { CIRCUIT_PARTS } from '../repairs/repairs.dto';
@@ -7,7 +7,8 @@ import { html, jsonAttr, type SafeHtml } from './html';
 import { ICON, page } from './layout.view';
 import { cautionList, conclusionCard, diagnosisStatus, pathList, proofLink, rankedCauses, statusTag } from './parts.view';
 import { requestKey } from '../../engine/diagnosis';
-import { conditions, formatReading, leads, PART_WORDS, padUnits, percent, siUnitOf } from './words';
+import { conditions, formatEntered, leads, PART_WORDS, padUnits, percent, predictedRange } from './words';
+import { repairable } from './diagnosis-state';
 
 const REASON_WORDS: Record<string, string> = {
   recheck_indeterminate: 'The last reading fell between two outcomes. Check the probe points and the connector, then measure again.',
@@ -16,39 +17,47 @@ const REASON_WORDS: Record<string, string> = {
 };
 const MODE_HEADINGS: Record<Entry['mode'], string> = { next: 'Next test', recheck: 'Measure again', correct: 'Correct a reading', verify: 'After the repair' };
 
+/** The one caution every test carries: shown as a compact line, so the specific ones and the leads stay in view. */
+const GENERAL_CAUTIONS = new Set(['service_information']);
+
 function instructions(entry: Entry, c: CircuitDiagnosis, next: NextTest | null): SafeHtml {
   const l = leads(entry.request, c.circuit.cavities);
+  const scan = entry.request.quantity === 'scan_value';
   const useNext = next && entry.mode !== 'correct' && entry.mode !== 'verify' ? next : null;
   // Corrections and verification readings repeat a test of the tree: show its own steps and cautions.
   const known = useNext ?? c.howTo.get(requestKey(entry.request)) ?? null;
   const cautions = known?.cautions ?? [];
+  const specific = cautions.filter((x) => !GENERAL_CAUTIONS.has(x.id));
+  const general = cautions.filter((x) => GENERAL_CAUTIONS.has(x.id));
   return html`${useNext && REASON_WORDS[useNext.reason] ? html`<p class="notice">${ICON.flag} ${REASON_WORDS[useNext.reason]}</p>` : ''}
-    ${cautionList(cautions)}
-    <dl class="conditions">${conditions(entry.request).map((x) => html`<div class="condition"><dt>${x.label}</dt><dd>${x.value}</dd></div>`)}</dl>
+    ${known?.preconditions.length ? html`<div class="before-start"><h3>Before you start</h3><ul>${known.preconditions.map((p) => html`<li>${p}</li>`)}</ul></div>` : ''}
+    ${cautionList(specific)}
     <div class="leads">
-      <p class="lead-line"><span class="lead-tag lead-red">${entry.request.quantity === 'scan_value' ? 'Read' : 'Red lead'}</span> ${l.red}</p>
+      <p class="lead-line"><span class="lead-tag ${scan ? 'lead-scan' : 'lead-red'}">${scan ? 'Scan tool' : 'Red lead'}</span> ${l.red}</p>
       ${l.black ? html`<p class="lead-line"><span class="lead-tag lead-black">Black lead</span> ${l.black}</p>` : ''}
-      <p class="muted">${l.where}</p>
+      <p class="muted lead-where">${l.where}</p>
     </div>
+    <dl class="conditions">${conditions(entry.request).map((x) => html`<div class="condition"><dt>${x.label}</dt><dd>${x.value}</dd></div>`)}</dl>
+    ${general.map((g) => html`<p class="caution-general">${ICON.caution} ${g.text}</p>`)}
     ${
       useNext?.setups.length
         ? html`<div class="setups"><h3>First</h3>${useNext.setups.map((s) => html`<p><strong>${s.label}</strong></p><ol>${s.steps.map((st) => html`<li>${st}</li>`)}</ol>`)}</div>`
         : ''
     }
     ${known ? html`<h3>How</h3><ol class="procedure">${known.procedure.map((p) => html`<li>${p}</li>`)}</ol>` : ''}
-    ${known?.preconditions.length ? html`<p class="muted">Before you start: ${known.preconditions.join(' ')}</p>` : ''}
     ${useNext ? expectations(useNext, entry) : ''}`;
 }
 
 function expectations(next: NextTest, entry: Entry): SafeHtml {
-  const unit = siUnitOf(entry.request.quantity);
+  const scan = entry.request.quantity === 'scan_value';
   const outcome = (id: string) => next.outcomes.find((o) => o.id === id)?.label ?? id;
-  return html`<h3>What each leading cause would make it read</h3>
-    <ul class="expect">${next.predictions.map(
-      (p) => html`<li><strong>${p.label}</strong> <span class="muted">(${percent(p.probability)})</span>:
-        ${p.band ? html`about ${formatReading(p.band.p50, unit)} (${formatReading(p.band.p5, unit)} to ${formatReading(p.band.p95, unit)})` : 'no prediction'}
-        → ${outcome(p.likelyOutcome)}</li>`,
-    )}</ul>`;
+  return html`<h3>What each likely cause would make the ${scan ? 'scan tool' : 'meter'} show</h3>
+    <table class="table expect"><thead><tr><th scope="col">If it is</th><th scope="col">Most likely</th><th scope="col">Could read (9 in 10 times)</th></tr></thead>
+    <tbody>${next.predictions.map((p) => {
+      const range = predictedRange(p.band, entry.request.quantity);
+      return html`<tr><th scope="row">${p.label} <span class="muted">(${percent(p.probability)})</span></th>
+        <td>${outcome(p.likelyOutcome)}</td><td>${range ?? html`<span class="muted">no range modelled</span>`}</td></tr>`;
+    })}</tbody></table>`;
 }
 
 function pad(order: OrderDetail, c: CircuitDiagnosis, entry: Entry): SafeHtml {
@@ -77,16 +86,19 @@ function pad(order: OrderDetail, c: CircuitDiagnosis, entry: Entry): SafeHtml {
   </form>`;
 }
 
+/** Offered only once a cause that needs repairing is proven; "What you did" is the technician's own words. */
 function repairForm(order: OrderDetail, c: CircuitDiagnosis): SafeHtml {
-  const conclusion = c.diagnosis.conclusion;
-  const part = conclusion && (CIRCUIT_PARTS as readonly string[]).includes(conclusion.repair.part) ? conclusion.repair.part : 'other';
-  const open = c.diagnosis.status === 'concluded' || c.diagnosis.status === 'exhausted';
-  return html`<details class="panel" id="repair" ${open ? 'open' : ''}>
+  if (!repairable(c.diagnosis)) return html``;
+  const conclusion = c.diagnosis.conclusion!;
+  const part = (CIRCUIT_PARTS as readonly string[]).includes(conclusion.repair.part) ? conclusion.repair.part : 'other';
+  return html`<details class="panel" id="repair" open>
     <summary><h2>Record the repair</h2></summary>
     <form id="repair-form" class="form" data-order="${order.id}" data-circuit="${c.circuit.id}" novalidate>
       <div class="field"><label for="repair-part">Part of the circuit repaired</label><select id="repair-part" name="part">
         ${CIRCUIT_PARTS.map((p) => html`<option value="${p}" ${p === part ? 'selected' : ''}>${PART_WORDS[p] ?? p}</option>`)}</select></div>
-      <div class="field"><label for="repair-action">What you did</label><textarea id="repair-action" name="action" rows="2" required maxlength="500">${conclusion?.repair.action ?? ''}</textarea></div>
+      <div class="field"><label for="repair-action">What you did</label>
+        <textarea id="repair-action" name="action" rows="2" required maxlength="500" aria-describedby="repair-action-hint" placeholder="${conclusion.repair.action}"></textarea>
+        <p id="repair-action-hint" class="muted">In your own words. Suggested: ${conclusion.repair.action}</p></div>
       <div class="field"><label for="repair-location">Where on the circuit</label><input id="repair-location" name="location" maxlength="300" placeholder="e.g. signal wire 15 cm from the sensor connector"></div>
       <fieldset class="field"><legend>Parts used</legend><div id="parts-rows">
         <div class="row part-row"><div class="field"><label for="part-name-0">Part</label><input id="part-name-0" name="partName" maxlength="120"></div>
@@ -107,7 +119,7 @@ function verificationPanel(order: OrderDetail, c: CircuitDiagnosis, entry: Entry
     <ul class="verify-list">${items.map(
       (v) => html`<li class="${v.after ? 'done' : 'todo'}">
         <span>${v.after ? ICON.check : ICON.pending} ${v.label}</span>
-        <span class="muted">before ${v.before.overload ? 'OL' : `${v.before.valueEntered} ${v.before.unitEntered}`}${v.after ? `, after ${v.after.overload ? 'OL' : `${v.after.valueEntered} ${v.after.unitEntered}`}` : ''}</span>
+        <span class="muted">before ${formatEntered(v.before.valueEntered, v.before.unitEntered, v.before.overload)}${v.after ? `, after ${formatEntered(v.after.valueEntered, v.after.unitEntered, v.after.overload)}` : ''}</span>
         ${entry?.mode === 'verify' && entry.index === v.index ? html`<span class="pill">measuring now</span>` : html`<a class="button small" href="?verify=${v.index}">${v.after ? 'Take again' : 'Measure'}</a>`}
       </li>`,
     )}</ul>
@@ -134,9 +146,9 @@ export function testScreenPage(actor: Actor, order: OrderDetail, c: CircuitDiagn
         ${
           entry
             ? html`<section class="panel entry" aria-labelledby="entry-h">
-                <p class="kicker">${MODE_HEADINGS[entry.mode]}</p>
-                <h2 id="entry-h">${entry.mode === 'verify' ? entry.title.replace(/^After the repair: /, '') : entry.title}</h2>
-                ${entry.mode === 'correct' ? html`<p class="notice">${ICON.flag} The new reading replaces the old one in the diagnosis; the old one stays on record, marked corrected. <a href="${base}">Cancel</a></p>` : ''}
+                <p class="kicker">${MODE_HEADINGS[entry.mode]}${entry.request.quantity === 'scan_value' ? ' · scan-tool test' : ''}</p>
+                <h2 id="entry-h" tabindex="-1">${entry.mode === 'verify' ? entry.title.replace(/^After the repair: /, '') : entry.title}</h2>
+                ${entry.mode === 'correct' ? html`<p class="notice correcting">${ICON.flag} <span>Correcting <strong>${entry.title}</strong>: the reading on record is <strong>${entry.was ?? ''}</strong>. The new reading replaces it in the diagnosis; the old one stays on record, marked corrected. <a href="${base}">Cancel</a></span></p>` : ''}
                 <div class="entry-body"><div class="entry-info">${instructions(entry, c, d.nextTest)}</div>
                 <div class="entry-pad">${pad(order, c, entry)}</div></div>
               </section>`
@@ -148,7 +160,7 @@ export function testScreenPage(actor: Actor, order: OrderDetail, c: CircuitDiagn
       </div>
       <div class="test-side">
         <section class="panel" aria-labelledby="causes-h"><h2 id="causes-h">${c.atRepair ? 'Causes as diagnosed before the repair' : 'Likely causes'}</h2>${rankedCauses(c.atRepair ?? d)}</section>
-        <section class="panel" aria-labelledby="path-h"><h2 id="path-h">Path so far</h2>${pathList(c, (r) => (r.phase === correctable ? `${base}?correct=${r.id}` : undefined))}</section>
+        <section class="panel" aria-labelledby="path-h"><h2 id="path-h">Readings so far</h2>${pathList(c, (r) => (r.phase === correctable ? `${base}?correct=${r.id}` : undefined))}</section>
       </div>
     </div>`,
   );

@@ -1,5 +1,5 @@
 /** The shared measurement vocabulary in plain words for the bay screens, and reading values formatted for people. */
-import { unitsFor } from '../../engine/units';
+import { formatValue, UNITS, unitsFor, type Unit } from '../../engine/units';
 import type { MeasurementRequest, Point, Quantity } from '../../engine/vocabulary';
 
 const POINT_WORDS: Record<Point, string> = {
@@ -19,6 +19,8 @@ const QUANTITY_WORDS: Record<Quantity, string> = {
 };
 
 const LOCATION_WORDS = { sensor_connector: 'at the sensor connector', module_connector: 'at the module connector' } as const;
+/** A scan-tool test reads what the module sees; the "location" is where the circuit is left (plugged in) for it. */
+const SCAN_WHERE = 'Scan-tool test: no meter leads; read the value from the module through the diagnostic connector';
 const CONNECTOR_WORDS = { plugged: 'plugged in', unplugged: 'unplugged', backprobed: 'plugged in, back-probed' } as const;
 const ENGINE_WORDS = { off: 'stopped', cranking: 'cranking', running: 'running' } as const;
 
@@ -35,7 +37,7 @@ export const DIAGNOSIS_STATUS_WORDS: Record<string, string> = {
   concluded: 'Cause found',
   recheck: 'Measure again',
   crank_and_reread: 'Crank and read again',
-  exhausted: 'No test left to decide',
+  exhausted: 'Not proven',
 };
 
 export const VERDICT_WORDS: Record<string, string> = {
@@ -75,7 +77,7 @@ export interface LeadWords {
 export function leads(request: MeasurementRequest, cavities: Record<string, string> = {}): LeadWords {
   const where = LOCATION_WORDS[request.location];
   if (request.quantity === 'scan_value') {
-    return { red: `Scan tool: read ${(request.pid ?? 'the parameter').replace(/_/g, ' ')} (the ${POINT_WORDS[request.at]})`, black: null, where };
+    return { red: `Scan tool: read ${(request.pid ?? 'the parameter').replace(/_/g, ' ')} (the ${POINT_WORDS[request.at]})`, black: null, where: SCAN_WHERE };
   }
   return { red: pointWords(request.at, cavities), black: request.against ? pointWords(request.against, cavities) : null, where };
 }
@@ -87,7 +89,7 @@ export interface ConditionWords {
 
 export function conditions(request: MeasurementRequest): ConditionWords[] {
   const out: ConditionWords[] = [
-    { label: 'Meter', value: QUANTITY_WORDS[request.quantity] },
+    request.quantity === 'scan_value' ? { label: 'Tool', value: 'scan tool' } : { label: 'Meter', value: QUANTITY_WORDS[request.quantity] },
     { label: 'Key', value: request.key === 'on' ? 'ON' : 'OFF' },
     { label: 'Engine', value: ENGINE_WORDS[request.engine] },
     { label: 'Connector', value: CONNECTOR_WORDS[request.connector] },
@@ -103,7 +105,8 @@ export function conditions(request: MeasurementRequest): ConditionWords[] {
 export function requestLine(request: MeasurementRequest, cavities: Record<string, string> = {}): string {
   const l = leads(request, cavities);
   const how = l.black ? `${l.red} to ${l.black}` : l.red;
-  return `${QUANTITY_WORDS[request.quantity]}: ${how}, ${l.where}, key ${request.key}, engine ${ENGINE_WORDS[request.engine]}, ${CONNECTOR_WORDS[request.connector]}`;
+  const where = request.quantity === 'scan_value' ? 'scan-tool test' : l.where;
+  return `${QUANTITY_WORDS[request.quantity]}: ${how}, ${where}, key ${request.key}, engine ${ENGINE_WORDS[request.engine]}, ${CONNECTOR_WORDS[request.connector]}`;
 }
 
 /** Units the number pad offers for a quantity (scan values: the common ones first). */
@@ -112,23 +115,30 @@ export function padUnits(quantity: Quantity): string[] {
   return [...unitsFor(quantity)];
 }
 
-function trim(n: number, digits: number): string {
-  return Number(n.toPrecision(digits)).toString();
-}
-
-/** A stored (SI) value in a readable prefix: 11010 Ω → "11.0 kΩ", 0.0021 V → "2.1 mV". */
+/**
+ * The one formatter of values for people: significant figures kept ("5.00 V", not "5 V") and the SI prefix that
+ * reads best (11010 Ω → "11.0 kΩ", 0.0021 V → "2.10 mV"), through the engine's `formatValue` (NIST SP 811 spacing).
+ */
 export function formatSi(value: number | 'overload' | null | undefined, siUnit: string, digits = 3): string {
   if (value === 'overload' || value === null || value === undefined || !Number.isFinite(value)) return 'OL';
-  const a = Math.abs(value);
-  if (siUnit === 'Ω') {
-    if (a >= 1e6) return `${trim(value / 1e6, digits)} MΩ`;
-    if (a >= 1e3) return `${trim(value / 1e3, digits)} kΩ`;
-    return `${trim(value, digits)} Ω`;
-  }
-  if (siUnit === 'V' && a > 0 && a < 0.1) return `${trim(value * 1000, digits)} mV`;
-  if (siUnit === 'A' && a > 0 && a < 0.1) return `${trim(value * 1000, digits)} mA`;
-  if (siUnit === 'Pa') return `${trim(value / 1000, digits)} kPa`;
-  return `${trim(value, digits)} ${siUnit}`;
+  if (siUnit === 'Pa') return formatValue(value / 1000, 'kPa', { significant: digits });
+  return formatValue(value, siUnit as Unit, { significant: digits, autoPrefix: true });
+}
+
+/** Significant digits of a stored number as written in shortest form: 12.34 → 4, 5 → 1, 0.075 → 2. */
+function digitsOf(value: number): number {
+  const text = Math.abs(value).toExponential().split('e')[0]!.replace('.', '');
+  return Math.max(1, text.length);
+}
+
+/**
+ * A reading as entered, for people: at least 3 significant figures ("5.00 V", not "5 V"), never fewer than the
+ * technician typed (12.34 V stays 12.34 V), in the unit entered; "OL" for over-range.
+ */
+export function formatEntered(value: number | null, unit: string, overload = false): string {
+  if (overload || value === null) return `OL (${unit})`;
+  if (!(UNITS as readonly string[]).includes(unit)) return `${value} ${unit}`;
+  return formatValue(value, unit as Unit, { significant: Math.max(3, digitsOf(value)) });
 }
 
 /** A predicted reading as a meter would show it: volts to 0.01 V (no "−0.00"), ohms with a prefix. */
@@ -140,15 +150,37 @@ export function formatReading(value: number | 'overload', siUnit: string): strin
   return formatSi(value, siUnit);
 }
 
+type BandValue = number | 'overload';
+
+/**
+ * What a cause would make the meter show, read at a glance: one value when the spread rounds to it, else "from … to
+ * …", clamped to what the instrument can display (no negative ohms; a scan value of a 0–5 V sensor is never below 0).
+ */
+export function predictedRange(band: { p5: BandValue; p95: BandValue } | null, quantity: Quantity): string | null {
+  if (!band) return null;
+  const unit = siUnitOf(quantity);
+  const floor = quantity === 'ohms' || quantity === 'scan_value' ? 0 : -Infinity;
+  const clamp = (v: BandValue): BandValue => (v === 'overload' ? v : Math.max(floor, v));
+  const lo = formatReading(clamp(band.p5), unit);
+  const hi = formatReading(clamp(band.p95), unit);
+  if (lo === hi) return lo === 'OL' ? 'OL (over-range)' : lo;
+  return hi === 'OL' ? `${lo} or more, up to OL` : `${lo} to ${hi}`;
+}
+
 /** The SI unit of a quantity's readings (scan values are shown in volts by the built-in trees). */
 export function siUnitOf(quantity: Quantity): string {
   return quantity === 'ohms' ? 'Ω' : quantity === 'amps' ? 'A' : 'V';
 }
 
+/**
+ * A probability in whole percent, never rounded up: 0.948 shows "94 %", so a cause short of the 95 % needed to
+ * conclude never looks as if it had reached it. Above 99 % it is ">99 %", below 1 % "<1 %".
+ */
 export function percent(p: number): string {
-  if (p >= 0.995) return '>99 %';
+  if (p > 0.99) return '>99 %';
   if (p > 0 && p < 0.01) return '<1 %';
-  return `${Math.round(p * 100)} %`;
+  // The small allowance keeps 0.29 (28.999… in binary) at 29 %.
+  return `${Math.floor(p * 100 + 1e-9)} %`;
 }
 
 /** "3 h ago", "2 days ago" — coarse on purpose: the board is read at a glance. */

@@ -6,6 +6,7 @@ import { CurrentActor, type Actor } from '../identity/actor';
 import { verifyInput } from './proof-upload';
 import { VerifyProof } from './proofs.dto';
 import { ProofsService } from './proofs.service';
+import { PdfResponse, ProofCheck, ZResponse } from '../../common/openapi/responses';
 
 /** The origin the caller reached us at: where the printed address and the QR code point. */
 export function publicBase(req: Request): string | undefined {
@@ -22,6 +23,7 @@ export class ProofsController {
   constructor(private readonly proofs: ProofsService) {}
 
   @Get('repair-orders/:id/proof.pdf')
+  @PdfResponse('the proof of repair, a PDF with its evidence digest')
   @ApiProduces('application/pdf')
   @ApiOperation({
     summary: 'The proof-of-repair PDF (repaired or later; 409 before), on the shop’s paper, with its SHA-256 evidence digest in the X-Proof-Digest header',
@@ -36,6 +38,7 @@ export class ProofsController {
   }
 
   @Post('proofs/verify')
+  @ZResponse(ProofCheck)
   @HttpCode(200)
   @ApiConsumes('application/json', 'application/pdf', 'multipart/form-data')
   @ApiOperation({

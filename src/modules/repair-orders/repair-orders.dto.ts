@@ -3,6 +3,7 @@ import { LIMITS } from '../../common/limits';
 import { checkVin } from '../../engine/vin';
 import { TypedOrderNumber } from '../order-numbering/order-numbering.dto';
 import { IsoTime, lineText, optionalLineText, optionalText, Paging, text, TroubleCodes } from '../../common/validation/domain-schemas';
+import { typedInteger } from '../../common/validation/typed-number';
 
 const T = LIMITS.text;
 
@@ -15,11 +16,11 @@ export const NewVehicle = z
   .strictObject({
     vin: z.string().max(40, 'a VIN is 17 characters'),
     builtOutsideNorthAmerica: z.boolean().default(false),
-    year: z.number().int().min(1981, 'a 17-character VIN means model year 1981 or later').max(thisYear + 2),
+    year: typedInteger(1981, thisYear + 2, '2019'),
     make: lineText(T.vehicleMake),
     model: lineText(T.vehicleModel),
     engine: optionalLineText(T.vehicleEngine).default(''),
-    odometer: z.number().int().min(0).max(LIMITS.number.odometer),
+    odometer: typedInteger(0, LIMITS.number.odometer, '148,220'),
     odometerUnit: z.enum(['mi', 'km']).default('mi'),
   })
   .transform((v, ctx) => {

@@ -108,7 +108,7 @@ export class RepairOrdersRepository extends PrismaRepository {
   }
 
   vehicleByVin(shopId: string, vin: string, db: Db) {
-    return db.vehicle.findUnique({ where: { shopId_vin: { shopId, vin } }, select: { id: true } });
+    return db.vehicle.findUnique({ where: { shopId_vin: { shopId, vin } }, select: { id: true, year: true, make: true, model: true } });
   }
 
   createVehicle(db: Db, data: Prisma.VehicleUncheckedCreateInput) {

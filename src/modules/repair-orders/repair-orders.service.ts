@@ -10,6 +10,8 @@ import { OrderNumberingService } from '../order-numbering/order-numbering.servic
 import type { ChangeStatus, CreateRepairOrder, ListRepairOrders, UpdateRepairOrder } from './repair-orders.dto';
 import { RepairOrdersRepository } from './repair-orders.repository';
 import { toDetailView } from './repair-orders.view';
+import { vehicleWarnings } from './vehicle-warnings';
+import type { Finding } from '../../common/errors/domain.exception';
 
 /** Tries at opening an order before answering 503: each clash means another order was opened meanwhile. */
 const OPENING_ATTEMPTS = 20;
@@ -51,7 +53,9 @@ export class RepairOrdersService {
   async create(actor: Actor, input: CreateRepairOrder) {
     for (let attempt = 1; ; attempt++) {
       try {
-        return await this.get(actor, await this.oneAtATime(actor.shopId, () => this.open(actor, input)));
+        const opened = await this.oneAtATime(actor.shopId, () => this.open(actor, input));
+        const order = await this.get(actor, opened.id);
+        return opened.warnings.length ? { ...order, warnings: opened.warnings } : order;
       } catch (error) {
         const clash = (input.number === undefined && isUniqueViolation(error, 'number')) || isUniqueViolation(error, 'vin');
         if (clash && attempt < OPENING_ATTEMPTS) continue;
@@ -88,24 +92,25 @@ export class RepairOrdersService {
     return run;
   }
 
-  private open(actor: Actor, input: CreateRepairOrder): Promise<string> {
+  private open(actor: Actor, input: CreateRepairOrder): Promise<{ id: string; warnings: Finding[] }> {
     return this.orders.transaction(async (tx) => {
       await this.requireTechnician(actor, input.technicianId, 'body.technicianId', tx);
-      const vehicleId = await this.resolveVehicle(actor, input, tx);
+      const { id: vehicleId, warnings } = await this.resolveVehicle(actor, input, tx);
       // Taken last, so the shop's counter row is locked only for the insert that follows.
       const number = input.number ?? (await this.numbering.take(actor.shopId, tx));
       const created = await this.orders.create(tx, {
         shopId: actor.shopId,
         number,
         vehicleId,
-        technicianId: input.technicianId ?? null,
+        // A technician who opens an order is the one working on it unless they name someone else.
+        technicianId: input.technicianId ?? (actor.role === 'technician' ? actor.userId : null),
         complaint: input.complaint,
         codes: input.codes,
         odometerIn: input.vehicle?.odometer ?? null,
         createdById: actor.userId,
       });
       await this.orders.logStatus(tx, created.id, null, 'open', actor.userId, '', 0);
-      return created.id;
+      return { id: created.id, warnings };
     });
   }
 
@@ -183,15 +188,16 @@ export class RepairOrdersService {
     }
   }
 
-  private async resolveVehicle(actor: Actor, input: CreateRepairOrder, tx: Prisma.TransactionClient): Promise<string> {
+  private async resolveVehicle(actor: Actor, input: CreateRepairOrder, tx: Prisma.TransactionClient): Promise<{ id: string; warnings: Finding[] }> {
     if (input.vehicleId) {
       const vehicle = await this.orders.vehicleInShop(actor.shopId, input.vehicleId, tx);
       if (!vehicle) throw new InvalidInputException([{ code: 'vehicle.not_found', path: 'body.vehicleId', message: 'names no vehicle of this shop' }]);
-      return vehicle.id;
+      return { id: vehicle.id, warnings: [] };
     }
     const v = input.vehicle!;
     const existing = await this.orders.vehicleByVin(actor.shopId, v.vin, tx);
-    if (existing) return existing.id;
+    const warnings = vehicleWarnings(v, existing);
+    if (existing) return { id: existing.id, warnings };
     const created = await this.orders.createVehicle(tx, {
       shopId: actor.shopId,
       vin: v.vin,
@@ -204,6 +210,6 @@ export class RepairOrdersService {
       odometerUnit: v.odometerUnit,
       createdById: actor.userId,
     });
-    return created.id;
+    return { id: created.id, warnings };
   }
 }

@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { LIMITS } from '../../common/limits';
 import { IsoTime, lineText, optionalLineText, optionalText, text } from '../../common/validation/domain-schemas';
+import { typedInteger } from '../../common/validation/typed-number';
 
 export const CIRCUIT_PARTS = ['reference', 'signal', 'ground', 'sensor', 'module', 'connector', 'other'] as const;
 
@@ -17,7 +18,7 @@ export const RecordRepair = z
         z.strictObject({
           name: lineText(T.partName),
           number: optionalLineText(T.partNumber).optional(),
-          quantity: z.number().int().min(1).max(LIMITS.number.partQuantity).default(1),
+          quantity: typedInteger(1, LIMITS.number.partQuantity, '2').default(1),
         }),
       )
       .max(LIMITS.count.partsPerRepair, `at most ${LIMITS.count.partsPerRepair} parts`)
