@@ -3,7 +3,7 @@
  * path; cross-references (ids, guard bands, likelihood rows) are checked afterwards in `load-tree.ts`.
  */
 import { z } from 'zod';
-import { issueCode, MeasurementRequestSchema } from '../request-schema';
+import { issueCode, MeasurementRequestSchema, PointSchema } from '../request-schema';
 import type { TreeRequest } from './request-key';
 import { finding, type Finding } from './findings';
 
@@ -47,6 +47,8 @@ const testSchema = z.strictObject({
   request: requestSchema,
   setups: z.array(id).default([]),
   preconditions: z.array(text).default([]),
+  /** Wires that must have read at most `atMostVolts` (DC volts, key on) before the test is proposed (safety-rules.ts). */
+  requires: z.array(z.strictObject({ measured: PointSchema, atMostVolts: z.number().positive().max(60) })).max(6).default([]),
   cautions: z.array(id).default([]),
   minutes: z.number().nonnegative(),
   /** Circuit parts whose repair makes an earlier reading of this test stale; absent = every part. */

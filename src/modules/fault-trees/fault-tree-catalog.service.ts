@@ -109,7 +109,7 @@ export class FaultTreeCatalog {
   private load(document: unknown, version: string): Tree {
     const cached = this.loaded.get(version);
     if (cached) return cached;
-    const result = loadTree(document);
+    const result = loadTree(document, { stored: true });
     // A stored document was valid when stored; failing now means the tree format itself changed.
     if (!result.ok) throw new Error(`stored fault tree ${version} no longer loads: ${result.findings[0]?.message}`);
     this.loaded.set(version, result.tree);
