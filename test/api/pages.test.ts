@@ -122,6 +122,22 @@ describe.each(BACKENDS)('bay and board pages over HTTP on the %s database', (bac
     else expect(res.body.findings[0].code).toBe(code);
   });
 
+  it('shows the high-voltage caution first on every test screen of a hybrid, and fuel vapour care at the tank sensor', async () => {
+    const screen = async (vehicle: Record<string, unknown>, sensor: string) => {
+      const order = await api.call('POST', '/api/repair-orders', { user: TECH_A, body: { vehicle, complaint: 'Evap code' } });
+      const circuit = await api.call('POST', `/api/repair-orders/${order.body.id}/circuits`, { user: TECH_A, body: { kind: 'three_wire_5v', sensor, label: `${sensor} sensor` } });
+      return (await page(`/bay/orders/${order.body.id}/circuits/${circuit.body.id}`, TECH_A)).text();
+    };
+    const hybrid = await screen(newVehicle({ vin: VIN_SAMPLE, highVoltageSystem: true }), 'FTP');
+    const cautions = hybrid.slice(hybrid.indexOf('class="cautions"'));
+    expect(cautions).toContain('high-voltage system (hybrid or electric): only people qualified');
+    expect(cautions.indexOf('high-voltage system')).toBeLessThan(cautions.indexOf('Caution:', cautions.indexOf('Caution:') + 1));
+    expect(hybrid).toContain('Fuel vapour at the tank');
+    const plain = await screen(newVehicle(), 'MAP');
+    expect(plain).not.toContain('only people qualified');
+    expect(plain).not.toContain('Fuel vapour');
+  });
+
   it('renders what a person typed as inert text: complaint, circuit label and a reading note', async () => {
     const evil = '<script>alert(1)</script><img src=x onerror=alert(2)>';
     const order = await api.call('POST', '/api/repair-orders', { user: TECH_A, body: { vehicle: newVehicle(), complaint: evil } });

@@ -19,6 +19,8 @@ export interface DriveResult {
   status: Diagnosis['status'];
   minutes: number;
   readings: Reading[];
+  /** Every next test the engine asked for, in order (including the ones a baseline chooser overrode). */
+  asked: NonNullable<Diagnosis['nextTest']>[];
   /** Milliseconds per `diagnose` call. */
   latencies: number[];
   last: Diagnosis;
@@ -78,6 +80,7 @@ export function exactChooser(options: DiagnosisOptions = {}, memo: ExactMemo = n
 
 export async function driveToEnd(tree: Tree, c: SimulatedCase, opts: { options?: DiagnosisOptions; choose?: TestChooser; maxSteps?: number } = {}): Promise<DriveResult> {
   const readings: Reading[] = [];
+  const asked: DriveResult['asked'] = [];
   const latencies: number[] = [];
   const attempts = new Map<string, number>();
   const start = Date.parse('2025-01-06T08:00:00Z');
@@ -88,7 +91,8 @@ export async function driveToEnd(tree: Tree, c: SimulatedCase, opts: { options?:
     const d = await diagnose(tree, readings, [], opts.options ?? {});
     latencies.push(performance.now() - t0);
     if (d.status === 'concluded' || d.status === 'exhausted' || !d.nextTest || step >= (opts.maxSteps ?? 60))
-      return { conclusion: d.conclusion?.hypothesisId ?? null, status: d.status, minutes, readings, latencies, last: d };
+      return { conclusion: d.conclusion?.hypothesisId ?? null, status: d.status, minutes, readings, asked, latencies, last: d };
+    asked.push(d.nextTest);
     const override = d.status === 'testing' && opts.choose ? opts.choose(tree, d) : undefined;
     const test = override ?? tree.tests.find((t) => t.id === d.nextTest!.id)!;
     const request: TreeRequest = override ? test.request : d.nextTest.request;

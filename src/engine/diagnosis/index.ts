@@ -33,7 +33,7 @@ export type { LoadOptions, LoadResult } from './load-tree';
 export { TREE_FORMAT } from './tree-schema';
 export { requestKey } from './request-key';
 export { healthyOutcome, type HealthyOutcome } from './healthy-outcome';
-export { CAUTION_KINDS } from './cautions';
+export { CAUTION_KINDS, cautionsInContext, requiredCautions, type WorkContext } from './cautions';
 export {
   expectedCostOfRepair,
   optimalRepairOrder,

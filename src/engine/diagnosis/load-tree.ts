@@ -106,6 +106,7 @@ export function loadTree(json: unknown, options: LoadOptions = {}): LoadResult {
   const setups: Setup[] = doc.setups.map((s, index) => ({ index, ...s }));
   const tests = doc.tests.map((t, i) => compileTest(t, i, doc, setups, floor));
   const testByRequest = new Map<string, Test>(tests.map((t) => [requestKey(t.request), t]));
+  doc.tests.forEach((t, i) => (t.alsoAnswers ?? []).forEach((r) => testByRequest.has(requestKey(r)) || testByRequest.set(requestKey(r), tests[i]!)));
   for (const t of tests) {
     if (!t.crankRequest) continue;
     const key = requestKey(t.crankRequest);

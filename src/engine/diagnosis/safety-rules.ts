@@ -75,7 +75,7 @@ export function checkJumperSafety(doc: TreeDocument): Finding[] {
       if (hazard) out.push(finding(`tree.${hazard.code}`, joinPath('tests', i, 'request', 'jumpers', k), `test "${t.id}": ${hazard.message}`));
     });
     for (const need of impliedRequirements(t.request)) {
-      const declared = t.requires.find((r) => r.measured === need.measured);
+      const declared = (t.requires ?? []).find((r) => r.measured === need.measured);
       if (!declared)
         out.push(
           finding(
@@ -85,9 +85,9 @@ export function checkJumperSafety(doc: TreeDocument): Finding[] {
           ),
         );
       else if (declared.atMostVolts > JUMPER_SAFE_VOLTS)
-        out.push(finding('tree.jumper_precondition_too_high', joinPath('tests', i, 'requires', t.requires.indexOf(declared), 'atMostVolts'), `a jumper may join a wire only once it read ${JUMPER_SAFE_VOLTS} V or less, not ${declared.atMostVolts} V`));
+        out.push(finding('tree.jumper_precondition_too_high', joinPath('tests', i, 'requires', t.requires!.indexOf(declared), 'atMostVolts'), `a jumper may join a wire only once it read ${JUMPER_SAFE_VOLTS} V or less, not ${declared.atMostVolts} V`));
     }
-    t.requires.forEach((r, k) => {
+    (t.requires ?? []).forEach((r, k) => {
       if (!doc.tests.some((m) => measuresWire(m.request, r.measured, t.request.location)))
         out.push(
           finding(
@@ -103,7 +103,7 @@ export function checkJumperSafety(doc: TreeDocument): Finding[] {
 
 /** The requirements the engine enforces for a test: those declared, and those the rule implies. */
 export function requirementsOf(t: Pick<TestDocument, 'request' | 'requires'>): VoltsRequirement[] {
-  const out = [...t.requires];
+  const out = [...(t.requires ?? [])];
   for (const need of impliedRequirements(t.request)) {
     const i = out.findIndex((r) => r.measured === need.measured);
     if (i < 0) out.push(need);

@@ -11,6 +11,10 @@ export const NewVehicle = z
   .strictObject({
     vin: z.string().max(40, 'a VIN is 17 characters'),
     builtOutsideNorthAmerica: z.boolean().default(false),
+    highVoltageSystem: z
+      .boolean()
+      .default(false)
+      .describe('true for a hybrid or electric vehicle: every test then shows the high-voltage caution; on a vehicle already on file, true marks it (never unmarks)'),
     year: z.number().int().min(1981, 'a 17-character VIN means model year 1981 or later').max(thisYear + 2),
     make: text(60),
     model: text(60),

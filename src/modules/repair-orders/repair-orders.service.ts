@@ -187,11 +187,14 @@ export class RepairOrdersService {
     }
     const v = input.vehicle!;
     const existing = await this.orders.vehicleByVin(actor.shopId, v.vin, tx);
+    // A high-voltage system once reported stays marked: the caution is never dropped by a later order.
+    if (existing && v.highVoltageSystem && !existing.highVoltageSystem) await this.orders.markHighVoltage(existing.id, tx);
     if (existing) return existing.id;
     const created = await this.orders.createVehicle(tx, {
       shopId: actor.shopId,
       vin: v.vin,
       outsideNorthAmerica: v.builtOutsideNorthAmerica,
+      highVoltageSystem: v.highVoltageSystem,
       year: v.year,
       make: v.make,
       model: v.model,

@@ -87,7 +87,7 @@ describe('tree validation refuses a jumper test without the safety precondition'
     ['a jumper test that does not require its wires measured', (d) => (jumperTest(d, 'jumper_reference_to_signal').requires = []), 'tree.jumper_precondition_missing', (d) => `tests[${indexOf(d, 'jumper_reference_to_signal')}].requires`],
     [
       'a precondition above 5.5 V',
-      (d) => (jumperTest(d, 'jumper_reference_to_signal').requires[0]!.atMostVolts = 14),
+      (d) => (jumperTest(d, 'jumper_reference_to_signal').requires![0]!.atMostVolts = 14),
       'tree.jumper_precondition_too_high',
       (d) => `tests[${indexOf(d, 'jumper_reference_to_signal')}].requires[0].atMostVolts`,
     ],
