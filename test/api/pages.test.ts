@@ -4,6 +4,8 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { html, raw } from '../../src/modules/pages/html';
+import { conditions, leads } from '../../src/modules/pages/words';
+import type { MeasurementRequest } from '../../src/engine/vocabulary';
 import { BACKENDS } from '../support/db';
 import { FIXTURE_PASSWORD, FOREMAN_A, INACTIVE_A, newVehicle, TECH_A, TECH_B, VIN_SAMPLE, VIN_TEXTBOOK } from '../support/fixtures';
 import { startApi, type TestApi } from '../support/http';
@@ -16,6 +18,14 @@ describe('the html template', () => {
     ['`back`', '&#96;back&#96;'],
   ])('escapes %j as %j', (input, expected) => {
     expect(html`<p title="${input}">${input}</p>`.value).toBe(`<p title="${expected}">${expected}</p>`);
+  });
+
+  it('names both ends when a lead goes to each end of the harness, and the state of both connectors', () => {
+    const request: MeasurementRequest = { quantity: 'ohms', at: 'signal', against: 'signal', location: 'sensor_connector', againstLocation: 'module_connector', connector: 'unplugged', otherConnector: 'unplugged', key: 'off', engine: 'off', jumpers: [] };
+    const l = leads(request, { B: 'signal' });
+    expect(l.red).toBe('signal wire (cavity B) at the sensor connector');
+    expect(l.black).toBe('signal wire at the module connector');
+    expect(conditions(request)).toEqual(expect.arrayContaining([{ label: 'Sensor connector', value: 'unplugged' }, { label: 'Module connector', value: 'unplugged' }]));
   });
 
   it('keeps nested templates and raw markup as they are, joins lists and drops null, undefined and booleans', () => {
