@@ -5,12 +5,14 @@
  * diagnosed to the end by (a) the engine, (b) a fixed checklist (reference, signal, ground, sensor, module tests in
  * that order), (c) the exact optimal policy (dynamic programming over test outcomes). All three use the same
  * inference, stop rule (one cause ≥ 0.95, or no test can change the conclusion) and re-check handling; only the
- * choice of the next test differs. Latency is the wall time of one `diagnose` call (a full recompute).
+ * choice of the next test differs; all three obey the jumper safety rule, and every case is checked for a jumper taken
+ * before the wires it joins read 5.5 V or less, key on (must be 0). Latency is the wall time of one `diagnose` call (a full recompute).
  */
 import { mulberry32 } from '../src/engine/circuit';
 import { builtInTrees } from '../src/engine/diagnosis';
 import { checklistChooser, driveToEnd, exactChooser, type TestChooser } from '../src/engine/diagnosis/drive';
 import { drawCase } from '../src/engine/diagnosis/simulate';
+import { jumperViolations } from '../src/engine/diagnosis/safety-rules';
 import { newExactMemo } from '../src/engine/diagnosis/policy';
 import type { BenchResult } from './run';
 
@@ -49,12 +51,14 @@ export default async (): Promise<BenchResult[]> => {
       let right = 0;
       let minutes = 0;
       let exhausted = 0;
+      let unsafe = 0;
       const latencies: number[] = [];
       const started = performance.now();
       for (const c of cases) {
         const result = await driveToEnd(tree, c, { choose });
         if (result.conclusion === c.hypothesisId) right++;
         if (result.status === 'exhausted') exhausted++;
+        if (jumperViolations(result.readings).length > 0) unsafe++;
         minutes += result.minutes;
         latencies.push(...result.latencies);
       }
@@ -67,6 +71,7 @@ export default async (): Promise<BenchResult[]> => {
         'top-1 accuracy': `${((100 * right) / n).toFixed(1)} %`,
         'mean minutes to root cause': (minutes / n).toFixed(2),
         'ended without reaching 0.95': exhausted,
+        'jumper before its wires read ≤ 5.5 V (cases)': unsafe,
         'wall time (s)': (elapsed / 1000).toFixed(1),
       });
       if (!choose) {

@@ -89,6 +89,7 @@ form.addEventListener('submit', async (event) => {
     vehicle: {
       vin: cleaned(String(data.get('vin') || '')),
       builtOutsideNorthAmerica: outside.checked,
+      highVoltageSystem: data.get('highVoltageSystem') === 'on',
       year: num('year'),
       make: String(data.get('make') || '').trim(),
       model: String(data.get('model') || '').trim(),

@@ -30,8 +30,13 @@ export const measurementRequestFields = {
   quantity: z.enum(QUANTITIES),
   at: PointSchema.describe('first (red) lead; for scan_value, the wire whose signal the parameter reports'),
   against: PointSchema.optional().describe('second (black) lead; omit for scan_value'),
-  location: z.enum(LOCATIONS),
-  connector: z.enum(CONNECTOR_STATES),
+  location: z.enum(LOCATIONS).describe('the connector the first lead (and any jumper) is on'),
+  connector: z.enum(CONNECTOR_STATES).describe('state of the connector at location'),
+  againstLocation: z
+    .enum(LOCATIONS)
+    .optional()
+    .describe('a lead at each end: the connector the second lead is on when not at location (a wire lead only); omit for the same connector'),
+  otherConnector: z.enum(CONNECTOR_STATES).optional().describe('state of the other connector (not at location); omit for plugged'),
   key: z.enum(KEY_STATES),
   engine: z.enum(ENGINE_STATES),
   jumpers: z.array(JumperSchema).max(4, 'at most 4 jumpers').default([]),
@@ -39,7 +44,9 @@ export const measurementRequestFields = {
   sensor: label('a sensor name', '"MAP" or "all"').optional().describe('on a shared 5 V reference: which sensor the reading concerns, or "all"'),
 };
 
-type RequestShape = { quantity: string; at: string; against?: string; pid?: string; key: string; engine: string };
+type RequestShape = { quantity: string; at: string; against?: string; location: string; againstLocation?: string; pid?: string; key: string; engine: string };
+
+const FIXED_POINTS = ['battery_negative', 'battery_positive', 'chassis_ground'];
 
 /** The stable code of a rule broken across fields, read by `issueCode` (zod's own code is only "custom"). */
 function rule(ctx: z.RefinementCtx, code: string, field: string, message: string): void {
@@ -54,11 +61,15 @@ export function refineMeasurementRequest(r: RequestShape, ctx: z.RefinementCtx):
   if (r.quantity === 'scan_value') {
     if (!r.pid) rule(ctx, 'request.pid_missing', 'pid', 'a scan_value names the parameter read (pid), e.g. an SAE J1979 PID such as "11"');
     if (r.against) rule(ctx, 'request.against_on_scan', 'against', 'a scan_value is read from the scan tool: leave against out');
+    if (r.againstLocation) rule(ctx, 'request.against_location_on_scan', 'againstLocation', 'a scan_value has no second lead: leave againstLocation out');
     return;
   }
+  if (r.againstLocation && r.against && FIXED_POINTS.includes(r.against))
+    rule(ctx, 'request.against_location_on_fixed_point', 'againstLocation', `the second lead is on ${r.against}, which has no connector: leave againstLocation out`);
   const leads = 'one of reference, signal, ground, battery_negative, battery_positive, chassis_ground';
   if (!r.against) rule(ctx, 'request.against_missing', 'against', `a ${r.quantity} reading needs the second lead: against ${leads}`);
-  if (r.against && r.at === r.against) rule(ctx, 'request.same_point', 'against', 'the two leads must be on different points');
+  if (r.against && r.at === r.against && (r.againstLocation ?? r.location) === r.location)
+    rule(ctx, 'request.same_point', 'against', 'the two leads must be on different points (or on the two ends of one wire: set againstLocation)');
   if (r.pid) rule(ctx, 'request.pid_on_meter', 'pid', 'pid belongs to scan_value readings only');
 }
 

@@ -42,8 +42,16 @@ export interface MeasurementRequest {
   at: Point;
   /** Second lead; absent for `scan_value` (read from the scan tool). */
   against?: Point;
+  /** Where the first lead, and any jumper, go; `connector` is that connector's state. */
   location: Location;
   connector: ConnectorState;
+  /**
+   * A lead at each end: the connector the second lead is on when it is not `location` (a wire lead only), e.g. end-to-end
+   * continuity or the voltage drop along a wire. Absent: the same connector as the first lead.
+   */
+  againstLocation?: Location;
+  /** State of the other connector (the one that is not `location`); absent: plugged. */
+  otherConnector?: ConnectorState;
   key: KeyState;
   engine: EngineState;
   jumpers: Jumper[];

@@ -92,8 +92,10 @@ export function conditionLines(r: MeasurementRequest): string[] {
   if (r.quantity === 'scan_value') {
     lines.push(`Scan tool: parameter ${r.pid ?? '(unnamed)'}`);
   } else {
-    lines.push(`${QUANTITY_WORDS[r.quantity]}: red lead at ${POINT_WORDS[r.at]}, black at ${POINT_WORDS[r.against ?? r.at]}`);
+    const far = r.againstLocation && r.againstLocation !== r.location ? ` at the ${LOCATION_WORDS[r.againstLocation]}` : '';
+    lines.push(`${QUANTITY_WORDS[r.quantity]}: red lead at ${POINT_WORDS[r.at]}${far ? ` at the ${LOCATION_WORDS[r.location]}` : ''}, black at ${POINT_WORDS[r.against ?? r.at]}${far}`);
   }
+  if (r.otherConnector) lines.push(`${LOCATION_WORDS[r.location === 'sensor_connector' ? 'module_connector' : 'sensor_connector'].replace(/^./, (c) => c.toUpperCase())}: ${r.otherConnector === 'backprobed' ? 'back-probed' : r.otherConnector === 'unplugged' ? 'unplugged' : 'plugged in'}`);
   if (r.sensor) lines.push(`Sensor on the shared reference: ${r.sensor}`);
   for (const j of r.jumpers) lines.push(`Jumper: ${jumperWords(j)}`);
   return lines;

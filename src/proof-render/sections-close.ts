@@ -139,7 +139,7 @@ export const CAUTION_TEXT: Record<CautionCode, { lead: string; text: string }> =
   },
   high_voltage_system: {
     lead: 'High-voltage hybrid or electric system.',
-    text: 'Work on or near high-voltage parts (orange cables) only if you are qualified and equipped for it, with the system made safe first.',
+    text: "Work on or near high-voltage parts (orange cables) only if you are qualified and equipped for it, after disabling the high-voltage system by the service information's procedure.",
   },
   backprobe_gently: {
     lead: 'Back-probing.',

@@ -93,6 +93,16 @@ describe('diagnosis over HTTP, driven by readings simulated from the circuit mod
     expect(circuit.body.error.findings[0]).toMatchObject({ path: 'body.treeId', code: 'fault_tree.wrong_kind' });
   });
 
+  it('refuses an uploaded tree whose jumper test may be proposed before its wires were measured, naming the path', async () => {
+    const own = structuredClone(builtInDocuments()[0]!) as unknown as { id: string; tests: Array<{ id: string; requires?: unknown[] }> };
+    own.id = 'bay-unsafe-jumper';
+    const i = own.tests.findIndex((t) => t.id === 'jumper_reference_to_signal');
+    own.tests[i]!.requires = [];
+    const res = await api.call('POST', '/api/fault-trees', { user: FOREMAN_A, body: own });
+    expect(res.status).toBe(400);
+    expect(res.body.error.findings).toContainEqual(expect.objectContaining({ code: 'tree.jumper_precondition_missing', path: `body.tests.${i}.requires` }));
+  });
+
   it('stores a shop tree as a version, keeps the version a circuit started with, and names paths in a bad upload', async () => {
     const own = { ...(builtInDocuments()[0] as unknown as Record<string, unknown>), id: 'bay-three-wire', title: 'Our three-wire tree' };
     const first = await api.call('POST', '/api/fault-trees', { user: FOREMAN_A, body: own });

@@ -66,6 +66,19 @@ describe.each(BACKENDS)('circuits and measurements over HTTP on the %s database'
     expect(ro.body.status).toBe('diagnosing');
   });
 
+  it('records a lead at each end: end-to-end ohms of the signal wire with both connectors unplugged, listed as posted', async () => {
+    const endToEnd = { at: 'signal', against: 'signal', againstLocation: 'module_connector', location: 'sensor_connector', connector: 'unplugged', otherConnector: 'unplugged', key: 'off', engine: 'off' };
+    const res = await post(reading({ ...endToEnd, quantity: 'ohms', value: 0.2, unit: 'Ω' }));
+    expect(res.status).toBe(201);
+    expect(res.body.request).toMatchObject({ at: 'signal', against: 'signal', againstLocation: 'module_connector', otherConnector: 'unplugged' });
+    const listed = (await api.call('GET', `/api/repair-orders/${roId}/measurements`, { user: TECH_A })).body.items.find((m: { id: string }) => m.id === res.body.id);
+    expect(listed.request).toEqual(res.body.request);
+    // Without the far location the two leads would be on one point: a 400 naming the field.
+    const same = await post(reading({ ...endToEnd, againstLocation: undefined, quantity: 'ohms', value: 0.2, unit: 'Ω' }));
+    expect(same.status).toBe(400);
+    expect(same.body.error.findings[0].path).toBe('body.against');
+  });
+
   it('answers a reading on an order under diagnosis exactly as it lists it afterwards (a jumper, an over-range reading)', async () => {
     // A first reading puts the order under diagnosis, if an earlier test has not.
     expect((await post(reading({ clientKey: 'as-listed-0' }))).status).toBe(201);

@@ -4,6 +4,8 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { html, raw } from '../../src/modules/pages/html';
+import { conditions, leads } from '../../src/modules/pages/words';
+import type { MeasurementRequest } from '../../src/engine/vocabulary';
 import { BACKENDS } from '../support/db';
 import { FIXTURE_PASSWORD, FOREMAN_A, INACTIVE_A, newVehicle, TECH_A, TECH_B, VIN_SAMPLE, VIN_TEXTBOOK } from '../support/fixtures';
 import { startApi, type TestApi } from '../support/http';
@@ -16,6 +18,14 @@ describe('the html template', () => {
     ['`back`', '&#96;back&#96;'],
   ])('escapes %j as %j', (input, expected) => {
     expect(html`<p title="${input}">${input}</p>`.value).toBe(`<p title="${expected}">${expected}</p>`);
+  });
+
+  it('names both ends when a lead goes to each end of the harness, and the state of both connectors', () => {
+    const request: MeasurementRequest = { quantity: 'ohms', at: 'signal', against: 'signal', location: 'sensor_connector', againstLocation: 'module_connector', connector: 'unplugged', otherConnector: 'unplugged', key: 'off', engine: 'off', jumpers: [] };
+    const l = leads(request, { B: 'signal' });
+    expect(l.red).toBe('signal wire (cavity B) at the sensor connector');
+    expect(l.black).toBe('signal wire at the module connector');
+    expect(conditions(request)).toEqual(expect.arrayContaining([{ label: 'Sensor connector', value: 'unplugged' }, { label: 'Module connector', value: 'unplugged' }]));
   });
 
   it('keeps nested templates and raw markup as they are, joins lists and drops null, undefined and booleans', () => {
@@ -120,6 +130,22 @@ describe.each(BACKENDS)('bay and board pages over HTTP on the %s database', (bac
     expect(res.body.ok).toBe(ok);
     if (ok) expect(res.body.checkDigit).toBe(code);
     else expect(res.body.findings[0].code).toBe(code);
+  });
+
+  it('shows the high-voltage caution first on every test screen of a hybrid, and fuel vapour care at the tank sensor', async () => {
+    const screen = async (vehicle: Record<string, unknown>, sensor: string) => {
+      const order = await api.call('POST', '/api/repair-orders', { user: TECH_A, body: { vehicle, complaint: 'Evap code' } });
+      const circuit = await api.call('POST', `/api/repair-orders/${order.body.id}/circuits`, { user: TECH_A, body: { kind: 'three_wire_5v', sensor, label: `${sensor} sensor` } });
+      return (await page(`/bay/orders/${order.body.id}/circuits/${circuit.body.id}`, TECH_A)).text();
+    };
+    const hybrid = await screen(newVehicle({ vin: VIN_SAMPLE, highVoltageSystem: true }), 'FTP');
+    const cautions = hybrid.slice(hybrid.indexOf('class="cautions"'));
+    expect(cautions).toContain('high-voltage system (hybrid or electric): only people qualified');
+    expect(cautions.indexOf('high-voltage system')).toBeLessThan(cautions.indexOf('Caution:', cautions.indexOf('Caution:') + 1));
+    expect(hybrid).toContain('Fuel vapour at the tank');
+    const plain = await screen(newVehicle(), 'MAP');
+    expect(plain).not.toContain('only people qualified');
+    expect(plain).not.toContain('Fuel vapour');
   });
 
   it('renders what a person typed as inert text: complaint, circuit label and a reading note', async () => {

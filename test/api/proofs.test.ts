@@ -92,6 +92,18 @@ describe('proof of repair over HTTP', () => {
     expect((await api.call('POST', '/api/proofs/verify', { user: TECH_B, body: { digest } })).body.known).toBe(false);
   });
 
+  it('carries the high-voltage caution on the proof of a vehicle with a high-voltage system', async () => {
+    const ro = (await api.call('POST', '/api/repair-orders', { user: FOREMAN_A, body: { vehicle: newVehicle({ vin: '9ZZEV12K7R0000017', highVoltageSystem: true }), complaint: 'Hybrid, throttle code', technicianId: TECH_A } })).body;
+    const circuit = (await api.call('POST', `/api/repair-orders/${ro.id}/circuits`, { user: TECH_A, body: { kind: 'three_wire_5v', sensor: 'TP', label: 'TP sensor 1' } })).body.id;
+    await diagnoseToEnd(api, TECH_A, ro.id, circuit, 'signal_open');
+    await api.call('POST', `/api/repair-orders/${ro.id}/repairs`, { user: TECH_A, body: { circuitId: circuit, part: 'signal', action: 'Spliced the signal wire', parts: [] } });
+    const res = await fetch(`${api.url}/api/repair-orders/${ro.id}/proof.pdf`, { headers: await api.authHeaders(TECH_A) });
+    expect(res.status).toBe(200);
+    const text = (await readPdf(Buffer.from(await res.arrayBuffer()))).pages.map((p) => p.text).join('\n').replace(/\s+/g, ' ');
+    expect(text).toContain('High-voltage hybrid or electric system.');
+    expect(text).toContain("disabling the high-voltage system by the service information's procedure");
+  });
+
   it('says a digest nobody issued is unknown, and refuses input that carries no digest', async () => {
     // SHA-256 of "abc" (FIPS 180-2, appendix B.1): a well-formed digest that no proof here has.
     const abc = sha256Hex('abc');

@@ -28,6 +28,19 @@ describe.each(BACKENDS)('repair orders over HTTP on the %s database', (backend) 
     expect(res.body.number).toMatch(/^RO-\d{5}$/);
   });
 
+  it('records a high-voltage system on the vehicle, off unless said, and never unmarks it from a later order', async () => {
+    // 9ZZEV12K7R0000017: an invented VIN with a valid 49 CFR 565 check digit (7, computed).
+    const plain = await open({ vehicle: newVehicle({ vin: '9ZZEV12K7R0000017' }), complaint: 'MAP code' });
+    expect(plain.body.vehicle.highVoltageSystem).toBe(false);
+    const hv = await open({ vehicle: newVehicle({ vin: '9ZZEV12K7R0000017', highVoltageSystem: true }), complaint: 'Same car, now known to be a hybrid' });
+    expect(hv.body.vehicle).toMatchObject({ id: plain.body.vehicle.id, highVoltageSystem: true });
+    const later = await open({ vehicle: newVehicle({ vin: '9ZZEV12K7R0000017' }), complaint: 'Back again' });
+    expect(later.body.vehicle.highVoltageSystem).toBe(true);
+    const bad = await open({ vehicle: newVehicle({ highVoltageSystem: 'yes' }), complaint: 'x' });
+    expect(bad.status).toBe(400);
+    expect(bad.body.error.findings[0].path).toBe('body.vehicle.highVoltageSystem');
+  });
+
   it('gives twenty-four orders opened at the same moment twenty-four different numbers', async () => {
     const opened = await Promise.all(Array.from({ length: 24 }, (_, i) => open({ vehicle: newVehicle(), complaint: `Opened at once ${i}` })));
     expect(opened.map((r) => r.status)).toEqual(Array(24).fill(201));

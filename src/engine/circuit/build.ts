@@ -55,6 +55,10 @@ function buildModule(netlist: Netlist, circuit: CircuitSpec, conditions: Conditi
   const reg = module.regulator;
   const battery = batteryVolts(circuit, conditions);
   netlist.add({ id: 'module_ground_r', kind: 'resistor', nodes: [MODULE_GROUND_NODE, GROUND_NODE], value: module.groundOhms });
+  if (conditions.key === 'on' && module.supplyAmps) {
+    // The module's own draw from battery positive back through its ground strap.
+    netlist.add({ id: 'module_supply_r', kind: 'resistor', nodes: [BATTERY_POSITIVE_NODE, MODULE_GROUND_NODE], value: battery / module.supplyAmps });
+  }
   if (conditions.key === 'on') {
     // Regulates while the battery stays above its drop-out; cranking at ~10 V still gives 5 V.
     const regulating = battery >= reg.minInputVolts;

@@ -4,7 +4,7 @@
  * with it sits on the sensor side of the break.
  */
 import { checkFinite, checkResistance, describe, finding, joinPath, type Finding } from '../calc/findings';
-import { BATTERY_POSITIVE_NODE, CHASSIS_NODE, ADC_NODE, MODULE_GROUND_NODE, wireHalfId, wireNode } from './build';
+import { BATTERY_POSITIVE_NODE, CHASSIS_NODE, ADC_NODE, MODULE_GROUND_NODE, contactId, wireHalfId, wireNode } from './build';
 import { Netlist } from './netlist';
 import { sensorBehaviour } from './sensors';
 import {
@@ -107,6 +107,28 @@ const FAULT_BEHAVIOURS: { [K in FaultKind]: FaultBehaviour<Extract<FaultSpec, { 
       return f.value === undefined ? [] : checkFinite(f.value, joinPath(path, 'value'), 'Fault value');
     },
     apply: (netlist, f, c, path) => sensorBehaviour(c.sensor)!.applyInternal(netlist, c.sensor, f, path),
+  },
+  module_ground_resistance: {
+    validate: (f, _c, path) => checkResistance(f.ohms, joinPath(path, 'ohms'), 'Module ground resistance', true),
+    apply(netlist, f) {
+      const r = netlist.get('module_ground_r');
+      if (r) r.value = f.ohms;
+      return [];
+    },
+  },
+  poor_terminal: {
+    validate(f, c, path) {
+      const where = ['sensor_connector', 'module_connector'].includes(f.connector)
+        ? []
+        : [finding('fault.unknown_connector', joinPath(path, 'connector'), `Expected sensor_connector or module_connector, got ${describe(f.connector)}.`)];
+      return [...where, ...checkWire(f.wire, c, joinPath(path, 'wire')), ...checkResistance(f.ohms, joinPath(path, 'ohms'), 'Terminal resistance', true)];
+    },
+    // Applied before the connector state: an unplugged connector removes the terminal pair with its fault.
+    apply(netlist, f) {
+      const pair = netlist.get(contactId[f.connector](f.wire));
+      if (pair) pair.value = f.ohms;
+      return [];
+    },
   },
   module_internal: {
     validate(f, _c, path) {

@@ -11,7 +11,7 @@ export const GROUND_NODE = 'bn';
 /** Every node also has this resistance to ground so no node floats (SPICE sees the same resistors). */
 export const LEAK_OHMS = 1e12;
 
-export type ElementKind = 'resistor' | 'vsource' | 'vcvs';
+export type ElementKind = 'resistor' | 'vsource' | 'vcvs' | 'isource';
 
 /**
  * `resistor` nodes [a, b], value Ω. `vsource` nodes [plus, minus], value V. `vcvs` nodes [plus, minus,
@@ -65,6 +65,18 @@ const ELEMENT_BEHAVIOURS: Record<ElementKind, ElementBehaviour> = {
       b[k] = b[k]! + volts;
     },
     spicePrefix: 'V',
+    spiceValue: (v) => `DC ${fmt(v)}`,
+  },
+  // Current `value` A flows from nodes[0] through the source into nodes[1] (SPICE's I element).
+  isource: {
+    branches: 0,
+    stamp(_a, b, _n, idx, amps) {
+      const p = idx[0]!;
+      const q = idx[1]!;
+      if (p >= 0) b[p] = b[p]! - amps;
+      if (q >= 0) b[q] = b[q]! + amps;
+    },
+    spicePrefix: 'I',
     spiceValue: (v) => `DC ${fmt(v)}`,
   },
   vcvs: {

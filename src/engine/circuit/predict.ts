@@ -4,12 +4,12 @@
  */
 import type { MeasurementRequest } from '../vocabulary';
 import { finding, type Finding, type Result } from '../calc/findings';
-import { buildNetlist, contactId } from './build';
+import { buildNetlist, contactId, MODULE_GROUND_NODE, MODULE_PIN } from './build';
 import { DEFAULT_METER } from './defaults';
 import { applyFaults, validateFaults } from './faults';
 import { attachJumpers } from './jumpers';
 import { QUANTITY_BEHAVIOURS, pointNode, type Evaluator, type Leads } from './measure';
-import { CompiledNetlist, Netlist } from './netlist';
+import { CompiledNetlist, Netlist, solveNodeVoltages } from './netlist';
 import type { CircuitSpec, FaultSpec, MeterSpec, ReadingUnit } from './types';
 import { validateCircuit, validateMeter, validateRequest } from './validate';
 
@@ -41,14 +41,37 @@ export function prepareReading(
   const netlist = buildNetlist(circuit, request);
   found.push(...applyFaults(netlist, faults, circuit));
   if (found.length) return { ok: false, findings: found };
-  if (request.connector === 'unplugged') {
-    for (const wire of circuit.wires) netlist.remove(contactId[request.location](wire.role));
+  const other = request.location === 'sensor_connector' ? 'module_connector' : 'sensor_connector';
+  for (const [location, state] of [[request.location, request.connector], [other, request.otherConnector]] as const) {
+    if (state === 'unplugged') for (const wire of circuit.wires) netlist.remove(contactId[location](wire.role));
   }
   attachJumpers(netlist, request.jumpers, request.location);
-  const leads = quantity.needsLeads ? { at: pointNode(request.at, request.location), against: pointNode(request.against!, request.location) } : undefined;
+  const leads = quantity.needsLeads
+    ? { at: pointNode(request.at, request.location), against: pointNode(request.against!, request.againstLocation ?? request.location) }
+    : undefined;
   quantity.attach(netlist, leads, meter);
   netlist.addLeaks(leads ? [leads.at, leads.against] : []);
+  limitRegulatorCurrent(netlist, circuit);
   return { ok: true, value: { netlist, unit: quantity.unit, leads, meter, request } };
+}
+
+/**
+ * The 5 V output's current limit: solved once as a voltage source behind its output resistance; when that draws
+ * more than the limit, the output becomes a current source of the limit (it sags until the load takes no more).
+ * Decided at nominal values.
+ */
+function limitRegulatorCurrent(netlist: Netlist, circuit: CircuitSpec): void {
+  const limit = circuit.module.regulator.currentLimitAmps;
+  const source = netlist.get('regulator');
+  const series = netlist.get('regulator_r');
+  if (limit === undefined || !source || !series) return;
+  const volts = solveNodeVoltages(netlist);
+  if (!volts) return;
+  const amps = (volts.get(series.nodes[0]!)! - volts.get(series.nodes[1]!)!) / series.value;
+  if (amps <= limit) return;
+  netlist.remove('regulator');
+  netlist.remove('regulator_r');
+  netlist.add({ id: 'regulator_limited', kind: 'isource', nodes: [MODULE_GROUND_NODE, MODULE_PIN.reference], value: limit });
 }
 
 /** The fast evaluator of a prepared reading on its compiled netlist, after the checks that need a solution. */

@@ -71,6 +71,14 @@ const potentiometer: SensorBehaviour<PotentiometerSpec> = {
         setFixed(netlist, 'track_low', low);
         return [];
       },
+      skewed: () => {
+        const found = fault.value === undefined ? [] : checkRange(fault.value, joinPath(path, 'value'), 'Wiper position skew', -1, 1);
+        if (found.length) return found;
+        const [high, low] = potSegments(s.trackOhms, clamp(s.position + (fault.value ?? 0.1), 0, 1));
+        setFixed(netlist, 'track_high', high);
+        setFixed(netlist, 'track_low', low);
+        return [];
+      },
     };
     return variants[fault.variant]?.() ?? notApplicable('potentiometer', fault, path);
   },
@@ -122,6 +130,11 @@ const pressure: SensorBehaviour<PressureSpec> = {
       stuck: () => {
         const found = fault.value === undefined ? [] : checkRange(fault.value, joinPath(path, 'value'), 'Stuck output fraction', 0, 1);
         if (!found.length) setFixed(netlist, 'sensor_output', fault.value ?? 0.5);
+        return found;
+      },
+      skewed: () => {
+        const found = fault.value === undefined ? [] : checkRange(fault.value, joinPath(path, 'value'), 'Output fraction skew', -1, 1);
+        if (!found.length) setFixed(netlist, 'sensor_output', clamp(pressureFraction(_s) + (fault.value ?? 0.1), 0.02, 0.98));
         return found;
       },
       shorted: () => {
@@ -179,6 +192,12 @@ const thermistor: SensorBehaviour<ThermistorSpec> = {
       stuck: () => {
         const ohms = thermistorOhms(s.model, fault.value ?? 40);
         if (ohms === undefined) return [finding('fault.stuck_temperature_invalid', joinPath(path, 'value'), 'The stuck temperature is outside the thermistor model.')];
+        setFixed(netlist, 'sensor_ntc', ohms);
+        return [];
+      },
+      skewed: () => {
+        const ohms = thermistorOhms(s.model, s.temperatureC + (fault.value ?? 20));
+        if (ohms === undefined) return [finding('fault.skewed_temperature_invalid', joinPath(path, 'value'), 'The skewed temperature is outside the thermistor model.')];
         setFixed(netlist, 'sensor_ntc', ohms);
         return [];
       },

@@ -33,6 +33,8 @@ export interface RegulatorSpec {
   offOhms: number;
   /** Below this battery voltage the regulator drops out (output follows the battery minus 1 V). */
   minInputVolts: number;
+  /** Most current the 5 V output delivers; above it the output sags to hold this current, A (absent: no limit). */
+  currentLimitAmps?: number;
 }
 
 export interface ModuleSpec {
@@ -44,6 +46,8 @@ export interface ModuleSpec {
   groundOhms: number;
   /** Inside the module, between its ground and its sensor-ground pin, Ω. */
   sensorGroundOhms: number;
+  /** What the module itself draws with the key on, through its own ground (a resistive ground shows as an offset), A. */
+  supplyAmps?: number;
 }
 
 /** Three-wire position sensor: resistive track between reference and ground, wiper on the signal pin. */
@@ -102,7 +106,11 @@ export type FaultSpec =
   | { kind: 'short_between'; wires: [WireRole, WireRole]; ohms?: number }
   | { kind: 'high_resistance'; wire: WireRole; ohms: number }
   | { kind: 'sensor_internal'; variant: SensorInternalVariant; value?: number }
-  | { kind: 'module_internal'; variant: ModuleInternalVariant; ohms?: number };
+  | { kind: 'module_internal'; variant: ModuleInternalVariant; ohms?: number }
+  /** The module's own ground strap or splice resistive: its ground, and every reading against it, rises by I × R. */
+  | { kind: 'module_ground_resistance'; ohms: number }
+  /** A terminal of one wire at one connector with poor fit or corrosion: its contact resistance rises to `ohms`. */
+  | { kind: 'poor_terminal'; connector: 'sensor_connector' | 'module_connector'; wire: WireRole; ohms: number };
 export type FaultKind = FaultSpec['kind'];
 
 /**
@@ -110,8 +118,9 @@ export type FaultKind = FaultSpec['kind'];
  * position (`value` = contact resistance, default 1 MΩ). `stuck`: the output no longer follows the measurand
  * (`value` = wiper position 0…1, default 0.5; output fraction 0…1, default 0.5; or thermistor temperature °C,
  * default 40). `shorted` (pressure, thermistor): output/element shorted to the ground pin (`value` Ω, default 1).
+ * `skewed`: reads in range but wrong by `value` (wiper position or output fraction +0.1, or thermistor +20 °C, by default).
  */
-export const SENSOR_INTERNAL_VARIANTS = ['open_track', 'worn_spot', 'stuck', 'shorted'] as const;
+export const SENSOR_INTERNAL_VARIANTS = ['open_track', 'worn_spot', 'stuck', 'shorted', 'skewed'] as const;
 export type SensorInternalVariant = (typeof SENSOR_INTERNAL_VARIANTS)[number];
 
 /**

@@ -14,7 +14,7 @@ import {
   type MeasurementRequest,
   type Point,
 } from '../vocabulary';
-import { checkFinite, checkResistance, describe, finding, joinPath, type Finding } from '../calc/findings';
+import { checkFinite, checkRange, checkResistance, describe, finding, joinPath, type Finding } from '../calc/findings';
 import { validateJumperVia } from './jumpers';
 import { sensorBehaviour } from './sensors';
 import { WIRE_ROLES, type CircuitSpec, type MeterSpec, type SensorKind, type WireRole } from './types';
@@ -70,6 +70,8 @@ export function validateCircuit(circuit: CircuitSpec): Finding[] {
     ...checkResistance(m?.inputFilterOhms, 'circuit.module.inputFilterOhms', 'Input filter resistance', true),
     ...checkResistance(m?.groundOhms, 'circuit.module.groundOhms', 'Module ground resistance', true),
     ...checkResistance(m?.sensorGroundOhms, 'circuit.module.sensorGroundOhms', 'Sensor-ground resistance', true),
+    ...(m?.supplyAmps === undefined ? [] : checkRange(m.supplyAmps, 'circuit.module.supplyAmps', 'Module supply current', 0, 20)),
+    ...(reg?.currentLimitAmps === undefined ? [] : checkRange(reg.currentLimitAmps, 'circuit.module.regulator.currentLimitAmps', 'Regulator current limit', 1e-3, 5)),
     ...checkResistance(circuit.contactOhms, 'circuit.contactOhms', 'Contact resistance', true),
     ...checkResistance(circuit.chassisGroundOhms, 'circuit.chassisGroundOhms', 'Chassis ground resistance', true),
   ];
@@ -126,6 +128,8 @@ export function validateRequest(request: MeasurementRequest, circuit: CircuitSpe
     ...oneOf(request.quantity, QUANTITIES, joinPath(path, 'quantity'), 'request.unknown_quantity'),
     ...oneOf(request.location, LOCATIONS, joinPath(path, 'location'), 'request.unknown_location'),
     ...oneOf(request.connector, CONNECTOR_STATES, joinPath(path, 'connector'), 'request.unknown_connector_state'),
+    ...(request.againstLocation === undefined ? [] : oneOf(request.againstLocation, LOCATIONS, joinPath(path, 'againstLocation'), 'request.unknown_location')),
+    ...(request.otherConnector === undefined ? [] : oneOf(request.otherConnector, CONNECTOR_STATES, joinPath(path, 'otherConnector'), 'request.unknown_connector_state')),
     ...oneOf(request.key, KEY_STATES, joinPath(path, 'key'), 'request.unknown_key_state'),
     ...oneOf(request.engine, ENGINE_STATES, joinPath(path, 'engine'), 'request.unknown_engine_state'),
   ];
@@ -135,7 +139,7 @@ export function validateRequest(request: MeasurementRequest, circuit: CircuitSpe
   if (request.quantity !== 'scan_value' && QUANTITIES.includes(request.quantity)) {
     found.push(...validatePoint(request.at, circuit, joinPath(path, 'at')));
     found.push(...validatePoint(request.against, circuit, joinPath(path, 'against')));
-    if (request.at !== undefined && request.at === request.against) {
+    if (request.at !== undefined && request.at === request.against && (request.againstLocation ?? request.location) === request.location) {
       found.push(finding('request.same_point_twice', joinPath(path, 'against'), 'The two leads must be on different points.'));
     }
   }

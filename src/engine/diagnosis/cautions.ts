@@ -1,19 +1,32 @@
 /**
  * Safety cautions as tagged data: each entry says in plain words what to watch for and decides itself whether a
- * measurement request needs it. Tree loading adds any caution a test's request needs but the tree forgot.
- * Wording is our own; always defer to the manufacturer's service information.
+ * measurement request needs it, on its own or on the vehicle and sensor at hand (the work context). Tree loading
+ * adds any caution a test's request needs but the tree forgot; the test screen and the proof add the ones the
+ * work context calls for. Wording is our own; always defer to the manufacturer's service information.
  */
-import type { MeasurementRequest } from '../vocabulary';
+import { sensorTerm } from '../sensors';
+import type { MeasurementRequest, Point } from '../vocabulary';
+
+/** What the bay knows about the work beyond the request: the sensor under test and the vehicle. */
+export interface WorkContext {
+  /** The circuit's sensor name (an SAE J1930 term first, e.g. "FTP"). */
+  sensor?: string;
+  /** The vehicle has a high-voltage system (hybrid or electric). */
+  highVoltageSystem?: boolean;
+}
 
 export interface CautionKind {
   id: string;
   text: string;
-  /** True when a test with this request must show the caution. */
-  appliesTo(request: MeasurementRequest): boolean;
+  /** True when a test with this request, in this work context, must show the caution. */
+  appliesTo(request: MeasurementRequest, context: WorkContext): boolean;
 }
 
 const touchesReference = (request: MeasurementRequest) =>
   request.jumpers.some((j) => j.from === 'reference' || j.to === 'reference');
+const GROUND_POINTS: readonly Point[] = ['ground', 'battery_negative', 'chassis_ground'];
+const BATTERY_POSTS: readonly Point[] = ['battery_positive', 'battery_negative'];
+const leadsOf = (r: MeasurementRequest): Point[] => [r.at, ...(r.against ? [r.against] : [])];
 
 export const CAUTION_KINDS: readonly CautionKind[] = [
   {
@@ -25,8 +38,40 @@ export const CAUTION_KINDS: readonly CautionKind[] = [
   },
   {
     id: 'fused_jumper_only',
-    text: 'Use a fused jumper lead only; never bridge with bare wire.',
+    text: 'Use a fused jumper lead (or the resistor the test names) only; never bridge with bare wire.',
     appliesTo: (r) => r.jumpers.length > 0,
+  },
+  {
+    id: 'signal_cavity_only',
+    text:
+      'Clip the jumper to the signal cavity only, checked against the wiring diagram: never join the 5 V reference to ' +
+      'ground, it shorts the module\'s supply. Use a fused jumper or a resistor of 1 kΩ or more.',
+    appliesTo: (r) => r.jumpers.some((j) => (j.from === 'signal' && GROUND_POINTS.includes(j.to)) || (j.to === 'signal' && GROUND_POINTS.includes(j.from))),
+  },
+  {
+    id: 'no_sparks_at_battery',
+    text:
+      'A battery can give off explosive hydrogen: make and break clips at the battery posts with everything switched ' +
+      'off, never bridge the posts, and keep sparks and flames away from the battery.',
+    appliesTo: (r) =>
+      leadsOf(r).includes('battery_positive') ||
+      r.jumpers.some((j) => BATTERY_POSTS.includes(j.from) || BATTERY_POSTS.includes(j.to)) ||
+      (r.quantity === 'amps' && leadsOf(r).some((p) => BATTERY_POSTS.includes(p))),
+  },
+  {
+    id: 'fuel_vapour',
+    text:
+      'Fuel vapour at the tank: work with the engine off, away from sparks and flames, with the area ventilated and ' +
+      'the filler cap on; unplug and plug the sensor without arcing and wipe up any spilled fuel.',
+    appliesTo: (r, c) => r.sensor === 'tank' || (c.sensor !== undefined && (sensorTerm(c.sensor)?.term === 'FTP' || /fuel[\s_-]*tank/i.test(c.sensor))),
+  },
+  {
+    id: 'high_voltage_system',
+    text:
+      'This vehicle has a high-voltage system (hybrid or electric): only people qualified for it may work on it. Follow ' +
+      "the service information's procedure to disable the high-voltage system before any test, and never touch the " +
+      'orange high-voltage cables or their connectors.',
+    appliesTo: (_r, c) => c.highVoltageSystem === true,
   },
   {
     id: 'no_battery_on_reference',
@@ -63,7 +108,17 @@ export function cautionKind(id: string): CautionKind | undefined {
   return BY_ID.get(id);
 }
 
-/** Ids of the catalogue cautions a request needs, in catalogue order. */
-export function requiredCautions(request: MeasurementRequest): string[] {
-  return CAUTION_KINDS.filter((c) => c.appliesTo(request)).map((c) => c.id);
+/** Ids of the catalogue cautions a request needs (in this work context), in catalogue order. */
+export function requiredCautions(request: MeasurementRequest, context: WorkContext = {}): string[] {
+  return CAUTION_KINDS.filter((c) => c.appliesTo(request, context)).map((c) => c.id);
+}
+
+/** A test's cautions plus those the work context adds (the high-voltage caution first: it comes before any test). */
+export function cautionsInContext<C extends { id: string; text: string }>(cautions: readonly C[], request: MeasurementRequest, context: WorkContext): Array<C | { id: string; text: string }> {
+  const have = new Set(cautions.map((c) => c.id));
+  const added = requiredCautions(request, context)
+    .filter((id) => !have.has(id))
+    .map((id) => ({ id, text: BY_ID.get(id)!.text }));
+  const hv = added.filter((c) => c.id === 'high_voltage_system');
+  return [...hv, ...cautions, ...added.filter((c) => c.id !== 'high_voltage_system')];
 }

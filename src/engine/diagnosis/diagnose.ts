@@ -7,6 +7,7 @@ import { decidingReadings, posterior, type Evidence } from './posterior';
 import { planningBudget, DEFAULT_PLANNING_BUDGET_MS } from './planning-budget';
 import { argmax, type PolicyModel, type PolicyState } from './policy';
 import { checkReadingShapes, checkRepairs, verdictOf, type CheckedReading, type ReadingContext } from './reading-checks';
+import { jumperSafety } from './safety-rules';
 import { decide, type ResolvedOptions, type TestProgress } from './status-rules';
 import type { Tree } from './tree-model';
 import type { Diagnosis, DiagnosisOptions, NextTest, PathEntry, Reading, Repair } from './index';
@@ -124,10 +125,13 @@ export async function runDiagnosis(tree: Tree, readings: readonly Reading[], rep
       findings.push(finding('diagnosis.test_unresolved', `tests[${i}]`, `"${tree.tests[i]!.label}" stayed in a guard band after ${p.indeterminate.length} attempts; it is set aside`, 'warning'));
     }
   });
+  const safety = jumperSafety(tree, ctx.readings, ctx.repairs, done);
+  for (const t of safety.closed) if (done[t] === -1) done[t] = -2;
+  findings.push(...safety.findings);
   const state: PolicyState = { p: post.p, done, paid };
   const replacements = new Set(ctx.readings.flatMap((r) => (r.supersededBy && ctx.byId.has(r.supersededBy) ? [r.supersededBy] : [])));
   const readingIndex = new Map(ctx.readings.map((r) => [r.id, r.inputIndex]));
-  const decision = decide({ tree, options: resolved, evidence, posterior: post, progress, replacements, readingIndex, model, state });
+  const decision = decide({ tree, options: resolved, evidence, posterior: post, progress, replacements, readingIndex, model, state, blocked: safety.blocked });
 
   const ranked = tree.hypotheses
     .map((h) => ({ id: h.id, label: h.label, part: h.part, probability: post.p[h.index]! }))

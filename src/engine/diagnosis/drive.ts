@@ -8,6 +8,7 @@ import { posterior } from './posterior';
 import { exactQ, newExactMemo, type ExactMemo, type PolicyState } from './policy';
 import { arbitraryReading, simulateReading, type SimulatedCase } from './simulate';
 import { requestKey, type TreeRequest } from './request-key';
+import { jumperViolations } from './safety-rules';
 import type { Test, Tree } from './tree-model';
 
 /** Picks the next test while the engine's status is "testing"; undefined keeps the engine's choice. */
@@ -18,6 +19,8 @@ export interface DriveResult {
   status: Diagnosis['status'];
   minutes: number;
   readings: Reading[];
+  /** Every next test the engine asked for, in order (including the ones a baseline chooser overrode). */
+  asked: NonNullable<Diagnosis['nextTest']>[];
   /** Milliseconds per `diagnose` call. */
   latencies: number[];
   last: Diagnosis;
@@ -32,13 +35,22 @@ export function settledTests(tree: Tree, d: Diagnosis, maxAttempts = 2): Set<str
   return done;
 }
 
+/** True when taking `test` now keeps the jumper safety rule, given the readings in the diagnosis path (baselines obey it too). */
+export function safeNow(tree: Tree, d: Diagnosis, test: Test): boolean {
+  const taken = d.path.flatMap((e) => {
+    const t = tree.tests.find((x) => x.id === e.testId);
+    return t && (typeof e.value === 'number' || e.value === 'overload') ? [{ id: e.readingId, request: t.request, value: e.value as number | 'overload' }] : [];
+  });
+  return jumperViolations([...taken, { id: '#next', request: test.request, value: 0 }]).every((v) => v.readingId !== '#next');
+}
+
 const PART_ORDER = ['reference', 'signal', 'ground', 'sensor', 'module'];
 
 /** The fixed checklist: reference tests, then signal, ground, sensor, module; tree order within a part. */
 export const checklistChooser: TestChooser = (tree, d) => {
   const done = settledTests(tree, d);
   const rank = (t: Test) => Math.min(...(t.parts ?? tree.hypotheses.map((h) => h.part)).map((p) => (PART_ORDER.includes(p) ? PART_ORDER.indexOf(p) : PART_ORDER.length)));
-  return [...tree.tests].sort((a, b) => rank(a) - rank(b) || a.index - b.index).find((t) => !done.has(t.id));
+  return [...tree.tests].sort((a, b) => rank(a) - rank(b) || a.index - b.index).find((t) => !done.has(t.id) && safeNow(tree, d, t));
 };
 
 /** The exact optimal policy (V by dynamic programming), with a memo shared across cases of one tree. */
@@ -58,7 +70,7 @@ export function exactChooser(options: DiagnosisOptions = {}, memo: ExactMemo = n
     const state: PolicyState = { p: posterior(tree, evidence).p, done, paid };
     let best: { t: number; q: number } | undefined;
     for (let t = 0; t < done.length; t++) {
-      if (done[t] !== -1) continue;
+      if (done[t] !== -1 || !safeNow(tree, d, tree.tests[t]!)) continue;
       const q = exactQ(model, state, t, memo);
       if (!best || q < best.q - 1e-9) best = { t, q };
     }
@@ -68,6 +80,7 @@ export function exactChooser(options: DiagnosisOptions = {}, memo: ExactMemo = n
 
 export async function driveToEnd(tree: Tree, c: SimulatedCase, opts: { options?: DiagnosisOptions; choose?: TestChooser; maxSteps?: number } = {}): Promise<DriveResult> {
   const readings: Reading[] = [];
+  const asked: DriveResult['asked'] = [];
   const latencies: number[] = [];
   const attempts = new Map<string, number>();
   const start = Date.parse('2025-01-06T08:00:00Z');
@@ -78,7 +91,8 @@ export async function driveToEnd(tree: Tree, c: SimulatedCase, opts: { options?:
     const d = await diagnose(tree, readings, [], opts.options ?? {});
     latencies.push(performance.now() - t0);
     if (d.status === 'concluded' || d.status === 'exhausted' || !d.nextTest || step >= (opts.maxSteps ?? 60))
-      return { conclusion: d.conclusion?.hypothesisId ?? null, status: d.status, minutes, readings, latencies, last: d };
+      return { conclusion: d.conclusion?.hypothesisId ?? null, status: d.status, minutes, readings, asked, latencies, last: d };
+    asked.push(d.nextTest);
     const override = d.status === 'testing' && opts.choose ? opts.choose(tree, d) : undefined;
     const test = override ?? tree.tests.find((t) => t.id === d.nextTest!.id)!;
     const request: TreeRequest = override ? test.request : d.nextTest.request;

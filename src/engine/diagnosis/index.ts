@@ -13,7 +13,7 @@
 import type { Phase } from '../vocabulary';
 import { runDiagnosis } from './diagnose';
 import type { Finding } from './findings';
-import { loadTree as load, type LoadResult } from './load-tree';
+import { loadTree as load, type LoadOptions, type LoadResult } from './load-tree';
 import type { TreeRequest } from './request-key';
 import type { DiagnosisStatus, NextTestReason } from './status-rules';
 import type { Caution, Tree } from './tree-model';
@@ -29,13 +29,13 @@ export type { TreeDocument } from './tree-schema';
 export type { TreeRequest } from './request-key';
 export type { DiagnosisStatus, NextTestReason } from './status-rules';
 export type { Verdict } from './reading-checks';
-export type { LoadResult } from './load-tree';
+export type { LoadOptions, LoadResult } from './load-tree';
 export { TREE_FORMAT } from './tree-schema';
 export { TREE_LIMITS, checkTreeLimits, jsonDepth, treeLimitsTable, type TreeLimitName } from './tree-limits';
 export { requestKey } from './request-key';
 export { healthyOutcome, type HealthyOutcome } from './healthy-outcome';
 export { retestsStillNeeded, type Retest } from './retests';
-export { CAUTION_KINDS } from './cautions';
+export { CAUTION_KINDS, cautionsInContext, requiredCautions, type WorkContext } from './cautions';
 export {
   expectedCostOfRepair,
   optimalRepairOrder,
@@ -163,8 +163,8 @@ export interface Diagnosis {
 }
 
 /** Validates and normalises a tree document (parsed JSON): a loaded tree with a content-hash version, or findings. */
-export function loadTree(json: unknown): LoadResult {
-  return load(json);
+export function loadTree(json: unknown, options: LoadOptions = {}): LoadResult {
+  return load(json, options);
 }
 
 let builtIns: Record<string, Tree> | undefined;

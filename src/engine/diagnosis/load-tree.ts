@@ -7,6 +7,7 @@ import { finding, hasErrors, joinPath, type Finding } from './findings';
 import { cautionKind, requiredCautions } from './cautions';
 import { compileOutcomes, conditionInterval } from './outcome-rules';
 import { canonicalJson, requestKey, withConditions } from './request-key';
+import { preconditionText, requirementsOf } from './safety-rules';
 import { TREE_CHECKS } from './tree-checks';
 import { checkTreeLimits } from './tree-limits';
 import { parseTreeDocument, type TestDocument, type TreeDocument } from './tree-schema';
@@ -14,6 +15,11 @@ import type { Caution, Hypothesis, Setup, Test, Tree } from './tree-model';
 
 export const DEFAULT_LIKELIHOOD_FLOOR = 0.02;
 export const DEFAULT_CONCLUDE_AT = 0.95;
+
+export interface LoadOptions {
+  /** A document stored before the current safety checks: their findings become warnings (the engine still enforces them). */
+  stored?: boolean;
+}
 
 export type LoadResult = { ok: true; tree: Tree; findings: Finding[] } | { ok: false; findings: Finding[] };
 
@@ -47,6 +53,8 @@ function compileTest(t: TestDocument, index: number, doc: TreeDocument, setups: 
     row.forEach((p, o) => (like[hi * nO + o] = p));
   });
   const mine = setups.filter((s) => t.setups.includes(s.id));
+  const requires = requirementsOf(t);
+  const safety = preconditionText(requires, t.request.location);
   const crankable = t.request.quantity === 'scan_value' && t.request.key === 'on' && t.request.engine === 'off';
   const crankRequest = crankable ? withConditions(t.request, { engine: 'cranking' }) : undefined;
   return {
@@ -58,7 +66,8 @@ function compileTest(t: TestDocument, index: number, doc: TreeDocument, setups: 
     crankRequest,
     setups: mine,
     setupMask: mine.reduce((m, s) => m | (1 << s.index), 0),
-    preconditions: t.preconditions,
+    preconditions: safety && !t.preconditions.includes(safety) ? [safety, ...t.preconditions] : t.preconditions,
+    requires,
     cautions: toCautions(t.cautions),
     crankCautions: crankRequest ? toCautions([...new Set([...t.cautions, ...requiredCautions(crankRequest)])]) : [],
     minutes: t.minutes,
@@ -75,12 +84,14 @@ function compileTest(t: TestDocument, index: number, doc: TreeDocument, setups: 
  * Validates and normalises a tree document (parsed JSON). Returns the loaded tree, or the findings that stop it
  * (each with a JSON path and a reason). Warnings (e.g. an added caution) come back with a loaded tree too.
  */
-export function loadTree(json: unknown): LoadResult {
+export function loadTree(json: unknown, options: LoadOptions = {}): LoadResult {
   const limits = checkTreeLimits(json);
   if (limits.length > 0) return { ok: false, findings: limits };
   const parsed = parseTreeDocument(json);
   if (!parsed.document) return { ok: false, findings: parsed.findings };
-  const findings = TREE_CHECKS.flatMap((check) => check.run(parsed.document!));
+  const findings = TREE_CHECKS.flatMap((check) =>
+    check.run(parsed.document!).map((f) => (options.stored && check.relaxedWhenStored && f.severity === 'error' ? { ...f, severity: 'warning' as const } : f)),
+  );
   if (hasErrors(findings)) return { ok: false, findings };
   const doc = addRequiredCautions(parsed.document, findings);
   const floor = doc.settings.likelihoodFloor ?? DEFAULT_LIKELIHOOD_FLOOR;
@@ -98,6 +109,7 @@ export function loadTree(json: unknown): LoadResult {
   const setups: Setup[] = doc.setups.map((s, index) => ({ index, ...s }));
   const tests = doc.tests.map((t, i) => compileTest(t, i, doc, setups, floor));
   const testByRequest = new Map<string, Test>(tests.map((t) => [requestKey(t.request), t]));
+  doc.tests.forEach((t, i) => (t.alsoAnswers ?? []).forEach((r) => testByRequest.has(requestKey(r)) || testByRequest.set(requestKey(r), tests[i]!)));
   for (const t of tests) {
     if (!t.crankRequest) continue;
     const key = requestKey(t.crankRequest);

@@ -28,6 +28,8 @@ export function requestKey(request: TreeRequest): string {
     against: request.against,
     location: request.location,
     connector: request.connector,
+    againstLocation: request.againstLocation,
+    otherConnector: request.otherConnector,
     key: request.key,
     engine: request.engine,
     jumpers: [...(request.jumpers ?? [])].map(jumperKey).sort(),
@@ -43,5 +45,5 @@ export function withConditions(request: TreeRequest, change: Partial<TreeRequest
 
 /** The signal-changing part of a request: connector state and jumpers. */
 export function signalSetupKey(request: TreeRequest): string {
-  return canonicalJson({ connector: request.connector, sensor: request.sensor, jumpers: [...request.jumpers].map(jumperKey).sort() });
+  return canonicalJson({ connector: request.connector, otherConnector: request.otherConnector, sensor: request.sensor, jumpers: [...request.jumpers].map(jumperKey).sort() });
 }

@@ -59,6 +59,8 @@ export interface RuleContext {
   readingIndex: Map<string, number>;
   model: PolicyModel;
   state: PolicyState;
+  /** Tests that may not be proposed now (the jumper safety rule, safety-rules.ts). */
+  blocked?: ReadonlySet<number>;
 }
 
 export interface Choice {
@@ -87,7 +89,7 @@ interface StatusRule {
 
 function rankTests(ctx: RuleContext): Choice | undefined {
   const { model, state, options, tree } = ctx;
-  const open = openTests(state);
+  const open = openTests(state).filter((t) => !ctx.blocked?.has(t));
   if (open.length === 0) return undefined;
   const useExact = options.strategy === 'exact' || (options.strategy === 'auto' && stateSpaceSize(model, state) <= options.exactStateBudget);
   const memo = newExactMemo();
@@ -182,6 +184,7 @@ export function decide(ctx: RuleContext): Decision {
   for (const rule of STATUS_RULES) {
     const d = rule.decide(ctx);
     if (!d) continue;
+    if (!Array.isArray(d) && d.choice && ctx.blocked?.has(d.choice.test.index)) continue;
     if (Array.isArray(d)) {
       carried.push(...d);
       continue;

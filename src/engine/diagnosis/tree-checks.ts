@@ -6,11 +6,14 @@ import { finding, joinPath, type Finding } from './findings';
 import { checkCondition, conditionInterval } from './outcome-rules';
 import { cautionKind } from './cautions';
 import { requestKey } from './request-key';
+import { checkJumperSafety } from './safety-rules';
 import type { TreeDocument } from './tree-schema';
 
 interface TreeCheck {
   name: string;
   run(doc: TreeDocument): Finding[];
+  /** Checks added after trees were first stored: a stored document only warns (the engine enforces them anyway). */
+  relaxedWhenStored?: boolean;
 }
 
 function duplicates(ids: string[]): Array<[string, number]> {
@@ -108,6 +111,7 @@ export const TREE_CHECKS: readonly TreeCheck[] = [
       });
     },
   },
+  { name: 'jumper safety', run: checkJumperSafety, relaxedWhenStored: true },
   {
     name: 'parts named by repairs',
     run: (doc) => {

@@ -1,5 +1,6 @@
 /** The loaded (validated, normalised) form of a fault tree that the inference and policy code work on. */
 import type { TreeRequest } from './request-key';
+import type { VoltsRequirement } from './safety-rules';
 import type { OutcomeClassifier, Interval } from './outcome-rules';
 import type { BandsDocument, RuleCondition, TreeDocument } from './tree-schema';
 
@@ -49,6 +50,8 @@ export interface Test {
   /** Bit i set when the test needs setup i. */
   setupMask: number;
   preconditions: string[];
+  /** Wires that must have read at most the given volts, key on, before the test is proposed (declared and implied). */
+  requires: VoltsRequirement[];
   cautions: Caution[];
   crankCautions: Caution[];
   minutes: number;

@@ -3,7 +3,7 @@
  * path; cross-references (ids, guard bands, likelihood rows) are checked afterwards in `load-tree.ts`.
  */
 import { z } from 'zod';
-import { issueCode, MeasurementRequestSchema } from '../request-schema';
+import { issueCode, MeasurementRequestSchema, PointSchema } from '../request-schema';
 import type { TreeRequest } from './request-key';
 import { finding, type Finding } from './findings';
 import { TREE_LIMITS } from './tree-limits';
@@ -46,8 +46,12 @@ const testSchema = z.strictObject({
   label: text,
   procedure: z.array(text).min(1),
   request: requestSchema,
+  /** Earlier forms of the request (e.g. a fused jumper where a resistor jumper is asked for now) whose readings still answer the test. */
+  alsoAnswers: z.array(requestSchema).max(4).optional(),
   setups: z.array(id).default([]),
   preconditions: z.array(text).default([]),
+  /** Wires that must have read at most `atMostVolts` (DC volts, key on) before the test is proposed (safety-rules.ts). */
+  requires: z.array(z.strictObject({ measured: PointSchema, atMostVolts: z.number().positive().max(60) })).max(6).optional(),
   cautions: z.array(id).default([]),
   minutes: z.number().nonnegative(),
   /** Circuit parts whose repair makes an earlier reading of this test stale; absent = every part. */

@@ -131,7 +131,7 @@ export class FaultTreeCatalog implements OnModuleDestroy {
   private load(document: unknown, version: string): Tree {
     const cached = this.builtInByVersion.get(version) ?? this.cache.get(version);
     if (cached) return cached;
-    const result = loadTree(document);
+    const result = loadTree(document, { stored: true });
     if (!result.ok && result.findings.some((f) => f.code.startsWith('tree.limit.'))) {
       // Stored before the limits existed: refused rather than let one diagnosis hold up the whole service.
       throw new DomainException(

@@ -29,6 +29,8 @@ export class MeasurementsRepository extends PrismaRepository {
         against: true,
         location: true,
         connector: true,
+        againstLocation: true,
+        otherConnector: true,
         key: true,
         engine: true,
         pid: true,
@@ -82,13 +84,13 @@ export class MeasurementsRepository extends PrismaRepository {
       )
       INSERT INTO "Measurement" ("id", "repairOrderId", "circuitId", "quantity", "at", "against", "location", "connector", "key",
         "engine", "jumpers", "pid", "sensor", "valueEntered", "unitEntered", "valueSi", "overload", "siUnit", "meterOhms", "phase",
-        "note", "supersedesId", "clientKey", "takenById", "takenAt")
+        "note", "supersedesId", "clientKey", "takenById", "takenAt", "againstLocation", "otherConnector")
       SELECT ${id}::uuid, still."id", ${data.circuitId}::uuid, ${data.quantity}::"Quantity", ${data.at}::"ProbePoint",
         ${data.against}::"ProbePoint", ${data.location}::"ProbeLocation", ${data.connector}::"ConnectorState", ${data.key}::"KeyState",
         ${data.engine}::"EngineState", ${JSON.stringify(data.jumpers)}::jsonb, ${data.pid}::varchar, ${data.sensor}::varchar,
         ${data.valueEntered}::float8, ${data.unitEntered}::varchar, ${data.valueSi}::float8, ${data.overload}::boolean,
         ${data.siUnit}::varchar, ${data.meterOhms}::float8, ${data.phase}::"Phase", ${data.note}::text, NULL, ${data.clientKey}::varchar,
-        ${data.takenById}::uuid, ${data.takenAt}::timestamptz
+        ${data.takenById}::uuid, ${data.takenAt}::timestamptz, ${data.againstLocation}::"ProbeLocation", ${data.otherConnector}::"ConnectorState"
       FROM still
       RETURNING "seq", "jumpers"`;
     const row = rows[0];

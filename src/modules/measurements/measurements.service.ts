@@ -37,6 +37,8 @@ function rowFor(m: MeasurementInput, repairOrderId: string, takenById: string, n
     against: m.against ?? null,
     location: m.location,
     connector: m.connector,
+    againstLocation: m.againstLocation ?? null,
+    otherConnector: m.otherConnector ?? null,
     key: m.key,
     engine: m.engine,
     jumpers: m.jumpers,

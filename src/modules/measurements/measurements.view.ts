@@ -8,6 +8,8 @@ export function requestOf(m: MeasurementRow): MeasurementRequest {
     ...(m.against ? { against: m.against } : {}),
     location: m.location,
     connector: m.connector,
+    ...(m.againstLocation ? { againstLocation: m.againstLocation } : {}),
+    ...(m.otherConnector ? { otherConnector: m.otherConnector } : {}),
     key: m.key,
     engine: m.engine,
     jumpers: m.jumpers as unknown as Jumper[],

@@ -39,6 +39,7 @@ export function newOrderPage(actor: Actor): SafeHtml {
         <p id="vin-state" class="field-state" aria-live="polite">17 characters; the 9th is a check digit.</p>
       </div>
       <label class="check"><input type="checkbox" name="builtOutsideNorthAmerica" id="outside"> Built for a market outside North America (no check digit)</label>
+      <label class="check"><input type="checkbox" name="highVoltageSystem" id="high-voltage"> Hybrid or electric: has a high-voltage system (qualified people only)</label>
       <div class="row">
         <div class="field"><label for="year">Model year</label><input id="year" name="year" inputmode="numeric" required min="1981" max="${year + 2}" aria-describedby="year-state"></div>
         <div class="field"><label for="make">Make</label><input id="make" name="make" required maxlength="60"></div>

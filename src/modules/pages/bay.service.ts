@@ -1,6 +1,6 @@
 import { Injectable } from '@nestjs/common';
 import { NotFoundException } from '../../common/errors/domain.exception';
-import { requestKey, type Caution, type Diagnosis, type Tree } from '../../engine/diagnosis';
+import { requestKey, type Caution, type Diagnosis, type Tree, type WorkContext } from '../../engine/diagnosis';
 import type { MeasurementRequest } from '../../engine/vocabulary';
 import { DiagnosisService } from '../diagnosis/diagnosis.service';
 import { diagnosisView } from '../diagnosis/diagnosis.view';
@@ -33,6 +33,8 @@ export interface CircuitDiagnosis {
   verification: VerificationItem[];
   /** How to take each reading the tree knows, by request key (for corrections and verification). */
   howTo: Map<string, HowTo>;
+  /** The sensor and vehicle, for the cautions they add to every test (fuel vapour, high voltage). */
+  context: WorkContext;
 }
 
 export interface HowTo {
@@ -111,6 +113,7 @@ export class BayService {
       atRepair,
       verification: verificationItems(diagnosis, readings),
       howTo: howToByRequest(tree),
+      context: { sensor: found.sensor, highVoltageSystem: order.vehicle.highVoltageSystem },
     };
   }
 

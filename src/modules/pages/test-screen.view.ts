@@ -1,5 +1,5 @@
 /** The test screen: what to measure next and how, the number pad, the causes, and the path so far. */
-import type { NextTest } from '../../engine/diagnosis';
+import { cautionsInContext, type NextTest } from '../../engine/diagnosis';
 import type { Actor } from '../identity/actor';
 import { CIRCUIT_PARTS } from '../repairs/repairs.dto';
 import type { CircuitDiagnosis, Entry, OrderDetail } from './bay.service';
@@ -26,7 +26,7 @@ function instructions(entry: Entry, c: CircuitDiagnosis, next: NextTest | null):
   const useNext = next && entry.mode !== 'correct' && entry.mode !== 'verify' ? next : null;
   // Corrections and verification readings repeat a test of the tree: show its own steps and cautions.
   const known = useNext ?? c.howTo.get(requestKey(entry.request)) ?? null;
-  const cautions = known?.cautions ?? [];
+  const cautions = cautionsInContext(known?.cautions ?? [], entry.request, c.context);
   const specific = cautions.filter((x) => !GENERAL_CAUTIONS.has(x.id));
   const general = cautions.filter((x) => GENERAL_CAUTIONS.has(x.id));
   return html`${useNext && REASON_WORDS[useNext.reason] ? html`<p class="notice">${ICON.flag} ${REASON_WORDS[useNext.reason]}</p>` : ''}

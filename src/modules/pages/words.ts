@@ -79,6 +79,14 @@ export function leads(request: MeasurementRequest, cavities: Record<string, stri
   if (request.quantity === 'scan_value') {
     return { red: `Scan tool: read ${(request.pid ?? 'the parameter').replace(/_/g, ' ')} (the ${POINT_WORDS[request.at]})`, black: null, where: SCAN_WHERE };
   }
+  const far = request.againstLocation && request.againstLocation !== request.location ? request.againstLocation : null;
+  if (far && request.against)
+    // A lead at each end of the harness: name both ends (the cavity map is the sensor connector's).
+    return {
+      red: `${request.location === 'sensor_connector' ? pointWords(request.at, cavities) : POINT_WORDS[request.at]} ${where}`,
+      black: `${far === 'sensor_connector' ? pointWords(request.against, cavities) : POINT_WORDS[request.against]} ${LOCATION_WORDS[far]}`,
+      where: 'A lead at each end of the harness: use a long test lead.',
+    };
   return { red: pointWords(request.at, cavities), black: request.against ? pointWords(request.against, cavities) : null, where };
 }
 
@@ -94,6 +102,11 @@ export function conditions(request: MeasurementRequest): ConditionWords[] {
     { label: 'Engine', value: ENGINE_WORDS[request.engine] },
     { label: 'Connector', value: CONNECTOR_WORDS[request.connector] },
   ];
+  if (request.otherConnector) {
+    const other = request.location === 'sensor_connector' ? 'Module connector' : 'Sensor connector';
+    out[3] = { label: request.location === 'sensor_connector' ? 'Sensor connector' : 'Module connector', value: CONNECTOR_WORDS[request.connector] };
+    out.push({ label: other, value: CONNECTOR_WORDS[request.otherConnector] });
+  }
   for (const j of request.jumpers) {
     const via = j.via.kind === 'fused_jumper' ? 'fused jumper' : j.via.kind === 'resistor' ? `${formatSi(j.via.ohms, 'Ω')} resistor` : `${j.via.volts} V source`;
     out.push({ label: 'Jumper', value: `${POINT_WORDS[j.from]} to ${POINT_WORDS[j.to]} with a ${via}` });

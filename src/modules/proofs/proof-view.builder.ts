@@ -209,7 +209,7 @@ export function buildProofView(e: ProofEvidence): ProofView {
     },
     cautions: [],
   };
-  view.cautions = cautionsFor(view);
+  view.cautions = cautionsFor(view, order.vehicle.highVoltageSystem);
   // The foreman has signed only an approval of exactly this evidence; an older one is stale.
   if (latest?.decision === 'approved' && latest.evidenceDigest === evidenceDigest(view)) view.signOff.foremanSignedAt = time(latest.at);
   return view;
@@ -259,11 +259,12 @@ function technicianOf(e: ProofEvidence): ProofView['technician'] {
 }
 
 /**
- * The cautions the work called for: those the readings' conditions imply, and the airbag caution wherever an
- * ohmmeter was used. (High-voltage systems are not recorded on the vehicle yet, so that caution is not implied.)
+ * The cautions the work called for: those the readings' conditions imply, the airbag caution wherever an ohmmeter
+ * was used, and the high-voltage caution on a vehicle marked as having a high-voltage system.
  */
-function cautionsFor(view: ProofView): CautionCode[] {
+function cautionsFor(view: ProofView, highVoltageSystem: boolean): CautionCode[] {
   const ohmmeter = [...view.diagnosis.map((s) => s.request), ...view.verification.map((c) => c.request)].some((r) => r.quantity === 'ohms');
   const implied = requiredCautions(view);
-  return [...new Set<CautionCode>([...implied, ...(ohmmeter ? (['no_ohmmeter_on_airbag'] as const) : [])])];
+  const extra: CautionCode[] = [...(ohmmeter ? (['no_ohmmeter_on_airbag'] as const) : []), ...(highVoltageSystem ? (['high_voltage_system'] as const) : [])];
+  return [...new Set<CautionCode>([...implied, ...extra])];
 }

@@ -16,6 +16,10 @@ export const NewVehicle = z
   .strictObject({
     vin: z.string().max(40, 'a VIN is 17 characters'),
     builtOutsideNorthAmerica: z.boolean().default(false),
+    highVoltageSystem: z
+      .boolean()
+      .default(false)
+      .describe('true for a hybrid or electric vehicle: every test then shows the high-voltage caution; on a vehicle already on file, true marks it (never unmarks)'),
     year: typedInteger(1981, thisYear + 2, '2019'),
     make: lineText(T.vehicleMake),
     model: lineText(T.vehicleModel),

@@ -108,7 +108,11 @@ export class RepairOrdersRepository extends PrismaRepository {
   }
 
   vehicleByVin(shopId: string, vin: string, db: Db) {
-    return db.vehicle.findUnique({ where: { shopId_vin: { shopId, vin } }, select: { id: true, year: true, make: true, model: true } });
+    return db.vehicle.findUnique({ where: { shopId_vin: { shopId, vin } }, select: { id: true, year: true, make: true, model: true, highVoltageSystem: true } });
+  }
+
+  markHighVoltage(id: string, db: Db) {
+    return db.vehicle.update({ where: { id }, data: { highVoltageSystem: true }, select: { id: true } });
   }
 
   createVehicle(db: Db, data: Prisma.VehicleUncheckedCreateInput) {

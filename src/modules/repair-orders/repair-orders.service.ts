@@ -197,11 +197,14 @@ export class RepairOrdersService {
     const v = input.vehicle!;
     const existing = await this.orders.vehicleByVin(actor.shopId, v.vin, tx);
     const warnings = vehicleWarnings(v, existing);
+    // A high-voltage system once reported stays marked: the caution is never dropped by a later order.
+    if (existing && v.highVoltageSystem && !existing.highVoltageSystem) await this.orders.markHighVoltage(existing.id, tx);
     if (existing) return { id: existing.id, warnings };
     const created = await this.orders.createVehicle(tx, {
       shopId: actor.shopId,
       vin: v.vin,
       outsideNorthAmerica: v.builtOutsideNorthAmerica,
+      highVoltageSystem: v.highVoltageSystem,
       year: v.year,
       make: v.make,
       model: v.model,

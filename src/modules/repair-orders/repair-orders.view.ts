@@ -28,6 +28,7 @@ export function toDetailView(order: RepairOrderDetail) {
       vin: order.vehicle.vin,
       checkDigit: vin.ok ? vin.checkDigit : 'invalid',
       builtOutsideNorthAmerica: order.vehicle.outsideNorthAmerica,
+      highVoltageSystem: order.vehicle.highVoltageSystem,
       year: order.vehicle.year,
       make: order.vehicle.make,
       model: order.vehicle.model,

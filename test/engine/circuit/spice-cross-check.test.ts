@@ -19,12 +19,14 @@ import {
   mulberry32,
   parseSpiceNodeVoltages,
   solveNodeVoltages,
+  predictReading,
   toSpice,
   type FaultSpec,
   type Random,
   type WireRole,
 } from '../../../src/engine/circuit';
 import type { MeasurementRequest, Point } from '../../../src/engine/vocabulary';
+import { pointNode } from '../../../src/engine/circuit/measure';
 import type { Result } from '../../../src/engine/calc';
 
 const RELATIVE = 1e-6;
@@ -130,6 +132,42 @@ describe('node voltages agree with ngspice (.op, batch mode) within 1e-6 relativ
   it.each(Array.from({ length: CIRCUITS }, (_, i) => [1000 + i]))('agrees with ngspice on seeded random circuit %i', (seed) => {
     const c = randomCase(seed);
     crossCheck(`case-${seed}`, circuitNetlist(c.circuit, c.faults, c.request, meterWith({ inputOhms: c.meterOhms })));
+  });
+
+  // The trade's requests and the newer model parts: a lead at each end, the other connector unplugged, the module's
+  // own draw through a resistive ground, the regulator in its current limit, a poor terminal, a skewed sensor.
+  const drawing = (): ReturnType<typeof defaultCircuit> => ({ ...defaultCircuit('three_wire_5v'), module: { ...defaultCircuit('three_wire_5v').module, supplyAmps: 0.5 } });
+  const keyOn: MeasurementRequest = { quantity: 'dc_volts', at: 'signal', against: 'battery_negative', location: 'sensor_connector', connector: 'backprobed', key: 'on', engine: 'off', jumpers: [] };
+  it.each<[string, Partial<MeasurementRequest>, FaultSpec[]]>([
+    ['a loaded drop along the sensor ground, sensor pin to module pin', { at: 'ground', against: 'ground', againstLocation: 'module_connector', otherConnector: 'backprobed' }, faultsFor('ground_high_resistance')],
+    ['a ground offset from the module’s own draw', { at: 'ground' }, [{ kind: 'module_ground_resistance', ohms: 0.8 }]],
+    ['the reference in current limit under a 33 Ω load', { at: 'reference', connector: 'unplugged', jumpers: [{ from: 'reference', to: 'ground', via: { kind: 'resistor', ohms: 33 } }] }, []],
+    ['a corroded ground terminal at the sensor', {}, [{ kind: 'poor_terminal', connector: 'sensor_connector', wire: 'ground', ohms: 150 }]],
+    ['a skewed sensor with the module unplugged at the far end', { otherConnector: 'unplugged' }, [{ kind: 'sensor_internal', variant: 'skewed', value: 0.2 }]],
+  ])('agrees with ngspice on %s', (name, change, faults) => {
+    crossCheck(`trade-${name.replace(/[^a-z0-9]+/gi, '-')}`, circuitNetlist(drawing(), faults, { ...keyOn, ...change }));
+  });
+
+  // Ohms: the ohmmeter's test current as a SPICE current source between the leads; V/I must be our reading.
+  it.each<[string, Partial<MeasurementRequest>, FaultSpec[]]>([
+    ['end-to-end continuity of a signal wire with 10 kΩ in it', { at: 'signal', against: 'signal', againstLocation: 'module_connector' }, faultsFor('signal_high_resistance')],
+    ['a wire-to-wire short, both connectors unplugged', { at: 'signal', against: 'reference' }, [{ kind: 'short_between', wires: ['signal', 'reference'], ohms: 2000 }]],
+  ])('agrees with ngspice on the ohms reading of %s', (name, change, faults) => {
+    const request: MeasurementRequest = { ...keyOn, quantity: 'ohms', key: 'off', connector: 'unplugged', otherConnector: 'unplugged', ...change };
+    const built = circuitNetlist(defaultCircuit('three_wire_5v'), faults, request);
+    if (!built.ok) throw new Error(JSON.stringify(built.findings));
+    const at = pointNode(request.at, request.location);
+    const against = pointNode(request.against!, request.againstLocation ?? request.location);
+    built.value.add({ id: 'ohmmeter', kind: 'isource', nodes: [against, at], value: 1e-4 });
+    // The unplugged harness floats on leak resistors (ngspice adds its own gmin), so compare what the meter shows:
+    // the voltage between the leads over the test current.
+    const deck = join(workdir, `ohms-${name.replace(/[^a-z0-9]+/gi, '-')}.cir`);
+    writeFileSync(deck, toSpice(built.value, { title: name, printNodeVoltages: true }));
+    const spice = parseSpiceNodeVoltages(execFileSync('ngspice', ['-b', deck], { encoding: 'utf8', stdio: ['ignore', 'pipe', 'pipe'] }));
+    const theirs = (spice.get(at.toLowerCase())! - spice.get(against.toLowerCase())!) / 1e-4;
+    const predicted = predictReading(defaultCircuit('three_wire_5v'), faults, request);
+    expect(predicted.ok).toBe(true);
+    if (predicted.ok) expect(Math.abs(predicted.value - theirs)).toBeLessThanOrEqual(RELATIVE * Math.abs(theirs) + 1e-6);
   });
 
   // Every hypothesis's faults once, so each fault kind and variant meets ngspice at least once.

@@ -143,14 +143,22 @@ describe('diagnosing the three-wire 5 V tree', () => {
 describe('scan values that do not refresh with the engine stopped (common practice, no source)', () => {
   const baseline = () => reading('s1', 'scan_signal_unplugged', 4.98);
   it('asks to crank and read again when a key-on scan value stays put after a jumper changed the signal', async () => {
+    // The jumper's wires read safe first (the jumper safety rule): signal 4.87 V unplugged, ground drop 0.01 V.
+    const safe = [reading('v1', 'signal_unplugged', 4.87), reading('v2', 'ground_drop_backprobed', 0.01)];
     const first = baseline();
     const frozen = reading('s2', 'jumper_signal_to_ground', 4.98);
-    const d = await diagnose(tree, [first, frozen]);
+    const d = await diagnose(tree, [...safe, first, frozen]);
     expect(d.status).toBe('crank_and_reread');
     expect(d.nextTest!.id).toBe('jumper_signal_to_ground');
     expect(d.nextTest!.request.engine).toBe('cranking');
     expect(d.nextTest!.cautions.map((c) => c.id)).toContain('engine_turning');
-    expect(d.path[1]!.verdict).toBe('frozen_scan');
+    expect(d.path[3]!.verdict).toBe('frozen_scan');
+  });
+
+  it('does not ask to crank with a jumper fitted before the wires it joins were measured', async () => {
+    const d = await diagnose(tree, [baseline(), reading('s2', 'jumper_signal_to_ground', 4.98)]);
+    expect(d.status).not.toBe('crank_and_reread');
+    expect(d.nextTest?.id).not.toBe('jumper_signal_to_ground');
   });
 
   it('does not blame the circuit for the frozen value: the posterior ignores it', async () => {

@@ -1,0 +1,2 @@
+-- AlterTable
+ALTER TABLE "Vehicle" ADD COLUMN     "highVoltageSystem" BOOLEAN NOT NULL DEFAULT false;

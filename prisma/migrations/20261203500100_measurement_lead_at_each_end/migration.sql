@@ -1,0 +1,3 @@
+-- AlterTable
+ALTER TABLE "Measurement" ADD COLUMN     "againstLocation" "ProbeLocation",
+ADD COLUMN     "otherConnector" "ConnectorState";
