@@ -42,9 +42,9 @@ describe.each(BACKENDS)('the cost of a reading on the %s database', (backend) =>
     expect(sent.length, sent.join('\n---\n')).toBeLessThanOrEqual(MOST_STATEMENTS);
     const order = await api.call('GET', `/api/repair-orders/${job.roId}`, { user: TECH_A });
     expect(order.body.status).toBe('diagnosing');
-    expect(order.body.statusLog.map((s: { toStatus: string; reason: string }) => [s.toStatus, s.reason])).toEqual([
-      ['open', expect.any(String)],
-      ['diagnosing', 'first reading recorded'],
+    expect(order.body.statusLog.map((s: { from: string | null; to: string; reason: string }) => [s.from, s.to, s.reason])).toEqual([
+      [null, 'open', expect.any(String)],
+      ['open', 'diagnosing', 'first reading recorded'],
     ]);
   });
 
