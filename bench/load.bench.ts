@@ -171,6 +171,10 @@ export default async (): Promise<BenchResult> => {
         'Service, load generator and PostgreSQL share the 2-core machine; the raw run uses the same machine right after. "Per core of service CPU" is 1000 ÷ the service CPU ms per reading: what one core given to the service alone would log.',
       ],
     };
+  } catch (error) {
+    // What the service said before it stopped answering.
+    if (service) console.error(service.output());
+    throw error;
   } finally {
     await service?.kill('SIGKILL');
     await admin(`DROP DATABASE IF EXISTS "${database}" WITH (FORCE)`).catch(() => {});
