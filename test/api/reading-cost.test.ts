@@ -85,6 +85,23 @@ describe.each(BACKENDS)('the cost of a reading on the %s database', (backend) =>
       expect(readings.body.items).toHaveLength(1);
     });
 
+    it('counts readings let through on a cached sign-in against the write budget: an invalid one too, and the fourth is refused with 429', async () => {
+      const limited = await startInstance(api, { TRACEBAY_WRITE_LIMIT: '3', TRACEBAY_WRITE_WINDOW_SECONDS: '3599' });
+      try {
+        const job = await newJob(ADMIN_A);
+        const body = (value: unknown) => ({ circuitId: job.circuitId, ...job.next.request, value, unit: 'V' });
+        const send = (value: unknown) => limited.call('POST', `/api/repair-orders/${job.roId}/measurements?diagnosis=true`, { user: ADMIN_A, body: body(value) });
+        const statuses = [(await send(4.98)).status, (await send(4.97)).status, (await send('five volts')).status];
+        expect(statuses).toEqual([201, 201, 400]);
+        const refused = await send(4.96);
+        expect(refused.status).toBe(429);
+        expect(refused.body.error).toMatchObject({ code: 'rate_limit.writes' });
+        expect(Number(refused.headers.get('retry-after'))).toBeGreaterThanOrEqual(1);
+      } finally {
+        await limited.close();
+      }
+    });
+
     it('refuses a reading on one instance at once after the person was deactivated on the other', async () => {
       const job = await newJob(TECH_A2);
       const body = (value: number) => ({ circuitId: job.circuitId, ...job.next.request, value, unit: 'V' });
