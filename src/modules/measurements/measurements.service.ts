@@ -11,7 +11,7 @@ import { measurementView, requestOf } from './measurements.view';
 import { requestKey } from '../../engine/diagnosis';
 import { setContextActor } from '../../common/logging/request-context';
 import { AuthService } from '../auth/auth.service';
-import type { PendingSession } from '../auth/session-cache';
+import { sessionEnded, type PendingSession } from '../auth/session-cache';
 import { bucketOf, RateLimitsInterceptor, refuseOver } from '../rate-limits/rate-limits.interceptor';
 import { ReadingRepository, type StoredReading } from './reading.repository';
 
@@ -131,8 +131,11 @@ export class MeasurementsService {
   private async context(caller: Actor, signIn: SignInOfRequest, repairOrderId: string) {
     // A sign-in the guard looked up just now was counted by the rate limit already.
     const budget = signIn.pending ? this.limits.writeBudget(caller) : undefined;
+    if (budget) this.limits.housekeep();
     const found = await this.reading.context(signIn.signInId, new Date(), budget && { bucket: bucketOf(budget), windowSeconds: budget.windowSeconds }, repairOrderId);
-    const actor = signIn.pending ? this.auth.settled(signIn.pending, found.actor, signIn.path) : (found.actor ?? caller);
+    const actor = signIn.pending ? this.auth.settled(signIn.pending, found.actor, signIn.path) : found.actor;
+    // Signed out between the guard's look and this statement: the same answer as a moment later.
+    if (!actor) throw sessionEnded(signIn.path);
     if (budget && found.writes) refuseOver(budget, found.writes.hits, found.writes.resetSeconds);
     if (actor.role !== caller.role || actor.name !== caller.name || actor.shopId !== caller.shopId) setContextActor(actor);
     return { actor, order: found.order };

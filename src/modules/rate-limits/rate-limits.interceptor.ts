@@ -39,12 +39,17 @@ export class RateLimitsInterceptor implements NestInterceptor {
     if (!WRITE_METHODS.has(req.method) || req.pendingSession) return next.handle();
     const budgets = this.budgetsFor(req).filter((b) => b.limit > 0);
     if (budgets.length === 0) return next.handle();
-    if (Math.random() < 0.005) void this.counters.purgeOld().catch(() => {});
+    this.housekeep();
     for (const budget of budgets) {
       const { hits, resetSeconds } = await this.counters.hit(bucketOf(budget), budget.windowSeconds);
       refuseOver(budget, hits, resetSeconds);
     }
     return next.handle();
+  }
+
+  /** Now and then, on a counted request: drops windows long over. */
+  housekeep(): void {
+    if (Math.random() < 0.005) void this.counters.purgeOld().catch(() => {});
   }
 
   /** The write budget of a person, or undefined when writes are not limited. */
@@ -58,7 +63,7 @@ export class RateLimitsInterceptor implements NestInterceptor {
   async countWrite(actor: Actor): Promise<void> {
     const budget = this.writeBudget(actor);
     if (!budget) return;
-    if (Math.random() < 0.005) void this.counters.purgeOld().catch(() => {});
+    this.housekeep();
     const { hits, resetSeconds } = await this.counters.hit(bucketOf(budget), budget.windowSeconds);
     refuseOver(budget, hits, resetSeconds);
   }
