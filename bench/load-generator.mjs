@@ -34,7 +34,7 @@ function summary(times) {
   return { n: sorted.length, p50: percentile(sorted, 0.5), p99: percentile(sorted, 0.99), max: sorted[sorted.length - 1] ?? NaN };
 }
 
-function request(agent, url, method, path, headers, body) {
+function request(agent, url, method, path, headers, body, retried = false) {
   return new Promise((resolve, reject) => {
     const req = http.request(url + path, { method, agent, headers: { ...headers, ...(body ? { 'content-type': 'application/json', 'content-length': Buffer.byteLength(body) } : {}) } }, (res) => {
       const chunks = [];
@@ -42,7 +42,12 @@ function request(agent, url, method, path, headers, body) {
       res.on('end', () => resolve({ status: res.statusCode, text: Buffer.concat(chunks).toString() }));
     });
     req.setTimeout(30_000, () => req.destroy(new Error('timeout')));
-    req.on('error', reject);
+    req.on('error', (error) => {
+      // A kept-alive connection the server closed after idling (5 s) just as this request went out: send it again
+      // once on a new one (readings carry a client key, so a repeat is stored once).
+      if (!retried && req.reusedSocket && error.code === 'ECONNRESET') resolve(request(agent, url, method, path, headers, body, true));
+      else reject(error);
+    });
     req.end(body);
   });
 }
