@@ -79,6 +79,8 @@ describe.each(BACKENDS)('the cost of a reading on the %s database', (backend) =>
       // The other instance has seen the token: it answered a reading with it.
       expect((await other.call('POST', `/api/repair-orders/${job.roId}/measurements?diagnosis=true`, { headers, body: body(4.98) })).status).toBe(201);
       expect((await api.call('POST', '/api/auth/sign-out', { headers })).status).toBe(200);
+      // A request its route's pipes would refuse before the handler runs gets the 401 too, not a 400.
+      expect((await other.call('POST', `/api/repair-orders/${job.roId}/measurements?diagnosis=yes`, { headers, body: body(4.97) })).status).toBe(401);
       const after = await other.call('POST', `/api/repair-orders/${job.roId}/measurements?diagnosis=true`, { headers, body: body(4.97) });
       expect(after.status).toBe(401);
       const readings = await api.call('GET', `/api/repair-orders/${job.roId}/measurements`, { user: TECH_A });

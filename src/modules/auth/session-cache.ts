@@ -26,9 +26,11 @@ export const CHECKS_SESSION_ITSELF = Symbol('checks-session-itself');
 /**
  * Marks a route whose handler reads the sign-in's liveness in its own first statement, so the guard may let a
  * cached sign-in through without a lookup of its own. A sign-out or deactivation on any instance is still seen
- * by that statement: the cache only spares the round trip, never the check.
+ * by that statement: the cache only spares the round trip, never the check. `reachesHandler` tells whether the
+ * request's parameters pass the route's pipes: a request refused before the handler runs is looked up first, so
+ * that an ended sign-in gets its 401 rather than a 400.
  */
-export const ChecksSessionItself = () => SetMetadata(CHECKS_SESSION_ITSELF, true);
+export const ChecksSessionItself = (reachesHandler: (req: Request) => boolean) => SetMetadata(CHECKS_SESSION_ITSELF, reachesHandler);
 
 /** The one answer to a credential that is unknown, expired, signed out, or whose person was deactivated. */
 export function sessionEnded(path: string): DomainException {

@@ -49,7 +49,8 @@ export class ActorGuard implements CanActivate {
     }
     // A route that reads the sign-in in its own first statement takes it from the cache here; a write sent with an
     // Idempotency-Key does not, since its key is claimed (written) before the handler runs.
-    const itself = this.reflector.getAllAndOverride<boolean>(CHECKS_SESSION_ITSELF, [context.getHandler(), context.getClass()]) && request.header('idempotency-key') === undefined;
+    const reachesHandler = this.reflector.getAllAndOverride<((req: RequestWithCredential) => boolean) | undefined>(CHECKS_SESSION_ITSELF, [context.getHandler(), context.getClass()]);
+    const itself = reachesHandler !== undefined && request.header('idempotency-key') === undefined && reachesHandler(request);
     const cached = itself ? this.auth.cached(secret) : undefined;
     const found = cached ?? (await this.auth.actorFor(secret));
     if (!found) throw sessionEnded(bearer || !session ? 'headers.authorization' : `cookies.${SESSION_COOKIE}`);

@@ -1,5 +1,6 @@
 import { Body, Controller, forwardRef, Get, Inject, Post, Req, Res } from '@nestjs/common';
 import type { Response } from 'express';
+import { z } from 'zod';
 import { ApiBody, ApiOperation, ApiSecurity, ApiTags } from '@nestjs/swagger';
 import { openApiSchema, UuidParam, ZQuery } from '../../common/validation/zod-input';
 import { CurrentActor, type Actor } from '../identity/actor';
@@ -10,6 +11,9 @@ import { DiagnosisService } from '../diagnosis/diagnosis.service';
 import { diagnosisView } from '../diagnosis/diagnosis.view';
 import { ListMeasurements, MeasurementBody, RecordOptions } from './measurements.dto';
 import { MeasurementsService } from './measurements.service';
+
+/** The route's own parameter pipes, asked beforehand (see ChecksSessionItself). */
+const reachesHandler = (req: { params: Record<string, unknown>; query: unknown }) => z.uuid().safeParse(req.params.id).success && RecordOptions.safeParse(req.query).success;
 
 @ApiTags('measurements')
 @ApiSecurity('user')
@@ -31,7 +35,7 @@ export class MeasurementsController {
       'the readings are kept, and re-sending them with the same `clientKey` answers with them and the diagnosis.',
   })
   @ApiBody({ schema: openApiSchema(MeasurementBody) })
-  @ChecksSessionItself()
+  @ChecksSessionItself(reachesHandler)
   async record(
     @CurrentActor() caller: Actor,
     @UuidParam('id') id: string,
