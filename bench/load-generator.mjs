@@ -8,9 +8,18 @@
 //                   diagnosis recomputed from every reading), until the diagnosis concludes. Keep-alive HTTP/1.1 on
 //                   loopback, one connection per tablet; flat out (the next reading as soon as the last is answered)
 //                   or paced (one reading every paceMs per tablet, latency counted from when it was due).
+//                   With jobsPerTablet, the jobs are opened before the measured window and the window ends when the
+//                   first tablet has worked through its own: only readings are measured.
+//   mode "calibrate": one tablet alone works `jobs` jobs one request at a time and reads the service's statements and
+//                   CPU around each request: the cost of an order's first reading, of a follow-up, of opening a job.
 //   mode "raw":     each client loops: one INSERT of the same row shape (job.reading) straight into PostgreSQL with pg.
+//
+// With job.servicePid and job.statsFile (the service preloaded with bench/service-stats.cjs) a measured window also
+// reports the service's CPU time and SQL statements; with job.databaseUrl, the CPU time of the PostgreSQL backends
+// serving that database (Linux /proc).
 import http from 'node:http';
 import { randomUUID } from 'node:crypto';
+import { readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 
 const job = JSON.parse(process.argv[2]);
@@ -25,7 +34,7 @@ function summary(times) {
   return { n: sorted.length, p50: percentile(sorted, 0.5), p99: percentile(sorted, 0.99), max: sorted[sorted.length - 1] ?? NaN };
 }
 
-function request(agent, url, method, path, headers, body) {
+function request(agent, url, method, path, headers, body, retried = false) {
   return new Promise((resolve, reject) => {
     const req = http.request(url + path, { method, agent, headers: { ...headers, ...(body ? { 'content-type': 'application/json', 'content-length': Buffer.byteLength(body) } : {}) } }, (res) => {
       const chunks = [];
@@ -33,13 +42,74 @@ function request(agent, url, method, path, headers, body) {
       res.on('end', () => resolve({ status: res.statusCode, text: Buffer.concat(chunks).toString() }));
     });
     req.setTimeout(30_000, () => req.destroy(new Error('timeout')));
-    req.on('error', reject);
+    req.on('error', (error) => {
+      // A kept-alive connection the server closed after idling (5 s) just as this request went out: send it again
+      // once on a new one (readings carry a client key, so a repeat is stored once).
+      if (!retried && req.reusedSocket && error.code === 'ECONNRESET') resolve(request(agent, url, method, path, headers, body, true));
+      else reject(error);
+    });
     req.end(body);
   });
 }
 
-// The circuit model (built into dist/ by the benchmark before it starts the service) gives each job's readings.
 const require = createRequire(import.meta.url);
+const CLOCK_TICKS_PER_MS = 100 / 1000; // USER_HZ, 100 on Linux
+
+/** CPU ms used so far by the PostgreSQL backends connected to the job's database (not counting our own). */
+async function backendCpuMs(client) {
+  const { rows } = await client.query('SELECT pid FROM pg_stat_activity WHERE datname = current_database() AND pid <> pg_backend_pid()');
+  let ticks = 0;
+  for (const { pid } of rows) {
+    try {
+      const fields = readFileSync(`/proc/${pid}/stat`, 'utf8').split(') ')[1].split(' ');
+      ticks += Number(fields[11]) + Number(fields[12]); // utime, stime
+    } catch {
+      /* the backend ended meanwhile */
+    }
+  }
+  return { ms: ticks / CLOCK_TICKS_PER_MS, backends: rows.length };
+}
+
+let statsClient;
+/** The service's statements and CPU so far (and PostgreSQL's), or undefined without the stats preload. */
+async function snapshot() {
+  if (!job.servicePid || !job.statsFile) return undefined;
+  const before = (() => {
+    try {
+      return JSON.parse(readFileSync(job.statsFile, 'utf8')).seq;
+    } catch {
+      return 0;
+    }
+  })();
+  process.kill(job.servicePid, 'SIGUSR2');
+  let stats;
+  for (let i = 0; i < 400; i++) {
+    try {
+      stats = JSON.parse(readFileSync(job.statsFile, 'utf8'));
+      if (stats.seq > before) break;
+    } catch {
+      /* being written */
+    }
+    await new Promise((r) => setTimeout(r, 5));
+  }
+  let pgCpu;
+  if (job.databaseUrl) {
+    if (!statsClient) {
+      const { Client } = require('pg');
+      statsClient = new Client({ connectionString: job.databaseUrl });
+      await statsClient.connect();
+    }
+    pgCpu = await backendCpuMs(statsClient);
+  }
+  return { statements: stats.statements, cpuMs: stats.cpuMs, pgCpuMs: pgCpu?.ms };
+}
+
+function delta(a, b) {
+  if (!a || !b) return undefined;
+  return { statements: b.statements - a.statements, cpuMs: b.cpuMs - a.cpuMs, pgCpuMs: a.pgCpuMs === undefined ? undefined : b.pgCpuMs - a.pgCpuMs };
+}
+
+// The circuit model (built into dist/ by the benchmark before it starts the service) gives each job's readings.
 const { defaultCircuit, faultsFor, predictReading } = require('../dist/engine/circuit/index.js');
 const FAULTS = ['reference_open', 'reference_short_ground', 'signal_open', 'signal_short_ground', 'signal_short_voltage', 'ground_open', 'ground_high_resistance', 'sensor_internal'];
 const UNIT = { V: 'V', ohm: 'ohm', A: 'A' };
@@ -96,33 +166,69 @@ async function runService() {
     if (measuring) jobs++;
     return { roId: ro.body.id, circuitId: circuit.body.id, fault: FAULTS[(index * 7 + n) % FAULTS.length], diagnosis: first.body, readings: 0 };
   };
+  /** The next reading a job's diagnosis asks for, as the tablet posts it. */
+  const readingFor = (work, index, i) => {
+    const next = work.diagnosis.nextTest;
+    return {
+      circuitId: work.circuitId,
+      ...next.request,
+      ...modelled(work.fault, next.request),
+      ...(next.recheckOf ? { supersedes: next.recheckOf } : {}),
+      clientKey: `load-${index}-${String(i).padStart(7, '0')}-${job.runTag}`,
+    };
+  };
+  const finished = (work) => !work || work.diagnosis.status === 'concluded' || !work.diagnosis.nextTest || work.readings >= 25;
+  // With jobsPerTablet: every job opened first, then only readings, measured until the first tablet runs out.
+  const queues = job.jobsPerTablet
+    ? await Promise.all(
+        job.tablets.map(async (_t, index) => {
+          const queue = [];
+          for (let n = 0; n < job.jobsPerTablet; n++) {
+            const opened = await newJob(index, n);
+            if (opened) queue.push(opened);
+          }
+          return queue;
+        }),
+      )
+    : undefined;
+  let start;
+  let end;
+  let t0;
+  let t1;
+  const stopMeasuring = async () => {
+    if (!measuring) return;
+    measuring = false;
+    t1 = performance.now();
+    end = await snapshot();
+  };
   const tablet = async (_t, index) => {
     let i = 0;
-    let n = 0;
+    let n = queues ? job.jobsPerTablet : 0;
     let work;
     // Paced tablets start spread over one period, then keep to a schedule of their own.
     let due = performance.now() + (job.paceMs ? (index / job.tablets.length) * job.paceMs : 0);
     while (!stop) {
       // A job ends when the diagnosis concludes (or gives up); setting up the next one is service work too,
       // but not a reading, so it is neither counted nor timed.
-      if (!work || work.diagnosis.status === 'concluded' || !work.diagnosis.nextTest || work.readings >= 25) {
+      if (finished(work)) {
         if (work && work.diagnosis.status === 'concluded' && measuring) concluded++;
-        const setupStarted = performance.now();
-        work = await newJob(index, n++);
-        if (work && measuring) setups.push(performance.now() - setupStarted);
-        if (!work) continue;
+        if (queues) {
+          work = queues[index].shift();
+          if (!work) {
+            await stopMeasuring();
+            break;
+          }
+        } else {
+          const setupStarted = performance.now();
+          work = await newJob(index, n++);
+          if (work && measuring) setups.push(performance.now() - setupStarted);
+          if (!work) continue;
+        }
         if (job.paceMs) due = Math.max(due, performance.now());
       }
       if (job.paceMs) await sleep(due - performance.now());
       if (stop) break;
-      const next = work.diagnosis.nextTest;
-      const body = {
-        circuitId: work.circuitId,
-        ...next.request,
-        ...modelled(work.fault, next.request),
-        ...(next.recheckOf ? { supersedes: next.recheckOf } : {}),
-        clientKey: `load-${index}-${String(i).padStart(7, '0')}-${job.runTag}`,
-      };
+      const body = readingFor(work, index, i);
       // Paced: latency counts from when the reading was due, so a late start counts against the service too.
       const started = job.paceMs ? due : performance.now();
       const post = await json('POST', `/api/repair-orders/${work.roId}/measurements?diagnosis=true`, body);
@@ -139,17 +245,63 @@ async function runService() {
       times.push(done - started);
     }
   };
-  const all = Promise.all(job.tablets.map(tablet));
-  await sleep(job.warmupMs);
-  measuring = true;
-  const t0 = performance.now();
-  await sleep(job.durationMs);
-  measuring = false;
-  const seconds = (performance.now() - t0) / 1000;
-  stop = true;
-  await all;
+  if (queues) {
+    start = await snapshot();
+    measuring = true;
+    t0 = performance.now();
+    stop = false;
+    await Promise.all(job.tablets.map(tablet));
+    await stopMeasuring();
+  } else {
+    const all = Promise.all(job.tablets.map(tablet));
+    await sleep(job.warmupMs);
+    start = await snapshot();
+    measuring = true;
+    t0 = performance.now();
+    await sleep(job.durationMs);
+    await stopMeasuring();
+    stop = true;
+    await all;
+  }
+  const seconds = (t1 - t0) / 1000;
   agent.destroy();
-  return { readings, seconds, perSecond: readings / seconds, post: summary(times), setup: summary(setups), errors, jobs, concluded };
+  return { readings, seconds, perSecond: readings / seconds, post: summary(times), setup: summary(setups), errors, jobs, concluded, cost: delta(start, end) };
+}
+
+/** One tablet alone, one request at a time: what each kind of request costs the service and PostgreSQL. */
+async function runCalibrate() {
+  const agent = new http.Agent({ keepAlive: true, maxSockets: 1 });
+  const json = async (method, path, body) => {
+    const res = await request(agent, job.url, method, path, job.headers, body === undefined ? undefined : JSON.stringify(body));
+    return { status: res.status, body: JSON.parse(res.text || '{}') };
+  };
+  const kinds = { setup: [], first: [], followUp: [] };
+  for (let n = 0; n < job.jobs; n++) {
+    let before = await snapshot();
+    const ro = await json('POST', '/api/repair-orders', { vehicle: vehicle(job.runTag, 999, n), complaint: 'MAP sensor voltage low code, intermittent', codes: ['P0107'] });
+    const circuit = await json('POST', `/api/repair-orders/${ro.body.id}/circuits`, { kind: 'three_wire_5v', sensor: 'MAP', label: 'MAP sensor' });
+    let diagnosis = (await json('GET', `/api/repair-orders/${ro.body.id}/circuits/${circuit.body.id}/diagnosis`)).body;
+    let after = await snapshot();
+    kinds.setup.push(delta(before, after));
+    const fault = FAULTS[n % FAULTS.length];
+    for (let i = 0; diagnosis.nextTest && diagnosis.status !== 'concluded' && i < 25; i++) {
+      const next = diagnosis.nextTest;
+      const body = { circuitId: circuit.body.id, ...next.request, ...modelled(fault, next.request), ...(next.recheckOf ? { supersedes: next.recheckOf } : {}) };
+      before = await snapshot();
+      const post = await json('POST', `/api/repair-orders/${ro.body.id}/measurements?diagnosis=true`, body);
+      after = await snapshot();
+      if (post.status !== 201) throw new Error(`calibration reading answered ${post.status}: ${JSON.stringify(post.body)}`);
+      (i === 0 ? kinds.first : kinds.followUp).push(delta(before, after));
+      diagnosis = post.body.diagnoses[0];
+    }
+  }
+  agent.destroy();
+  const mean = (list, field) => list.reduce((a, c) => a + c[field], 0) / list.length;
+  const out = {};
+  for (const [kind, list] of Object.entries(kinds)) {
+    out[kind] = { n: list.length, statements: mean(list, 'statements'), cpuMs: mean(list, 'cpuMs'), pgCpuMs: list[0]?.pgCpuMs === undefined ? undefined : mean(list, 'pgCpuMs') };
+  }
+  return out;
 }
 
 async function runRaw() {
@@ -186,16 +338,29 @@ async function runRaw() {
   };
   const all = Promise.all(clients.map(loop));
   await new Promise((r) => setTimeout(r, job.warmupMs));
+  const pgBefore = await backendCpuMs(clients[0]);
+  const ownBefore = process.cpuUsage();
   measuring = true;
   const t0 = performance.now();
   await new Promise((r) => setTimeout(r, job.durationMs));
   measuring = false;
   const seconds = (performance.now() - t0) / 1000;
+  const own = process.cpuUsage(ownBefore);
+  // The client used for the look counts itself out; its own insert loop is a backend like the others.
+  const pgAfter = await backendCpuMs(clients[0]);
   stop = true;
   await all;
   await Promise.all(clients.map((c) => c.end()));
-  return { inserted, seconds, perSecond: inserted / seconds, insert: summary(times) };
+  return {
+    inserted,
+    seconds,
+    perSecond: inserted / seconds,
+    insert: summary(times),
+    pgCpuMsPerInsert: (pgAfter.ms - pgBefore.ms) / inserted,
+    clientCpuMsPerInsert: (own.user + own.system) / 1000 / inserted,
+  };
 }
 
-const result = job.mode === 'raw' ? await runRaw() : await runService();
+const result = job.mode === 'raw' ? await runRaw() : job.mode === 'calibrate' ? await runCalibrate() : await runService();
+await statsClient?.end();
 process.stdout.write(JSON.stringify(result) + '\n');

@@ -53,9 +53,29 @@ function securityHeaders(config: AppConfig) {
     upgradeInsecureRequests: null,
   };
   const hsts = config.secureCookies ? { maxAge: 31_536_000, includeSubDomains: true } : false;
-  const pages = helmet({ hsts, contentSecurityPolicy: { useDefaults: false, directives: { ...common, styleSrc: ["'self'"], styleSrcAttr: ["'unsafe-inline'"] } } });
-  const docs = helmet({ hsts, contentSecurityPolicy: { useDefaults: false, directives: { ...common, styleSrc: ["'self'", "'unsafe-inline'"] } } });
-  return (req: Request, res: Response, next: NextFunction) => (req.path.startsWith('/api/docs') ? docs : pages)(req, res, next);
+  const pages = fixedHeaders(helmet({ hsts, contentSecurityPolicy: { useDefaults: false, directives: { ...common, styleSrc: ["'self'"], styleSrcAttr: ["'unsafe-inline'"] } } }));
+  const docs = fixedHeaders(helmet({ hsts, contentSecurityPolicy: { useDefaults: false, directives: { ...common, styleSrc: ["'self'", "'unsafe-inline'"] } } }));
+  return (req: Request, res: Response, next: NextFunction) => {
+    (req.path.startsWith('/api/docs') ? docs : pages)(res);
+    next();
+  };
+}
+
+/**
+ * The headers a helmet middleware sets, worked out once: with every directive fixed they are the same on every
+ * answer, and helmet would otherwise rebuild the policy text per request.
+ */
+function fixedHeaders(middleware: ReturnType<typeof helmet>): (res: Response) => void {
+  const set: Array<[string, string]> = [];
+  const removed: string[] = [];
+  const recorder = { setHeader: (name: string, value: unknown) => set.push([name, String(value)]), removeHeader: (name: string) => removed.push(name) };
+  let failed: unknown;
+  middleware({} as Request, recorder as unknown as Response, (error?: unknown) => (failed = error));
+  if (failed) throw failed;
+  return (res) => {
+    for (const name of removed) res.removeHeader(name);
+    for (const [name, value] of set) res.setHeader(name, value);
+  };
 }
 
 /** Builds the application (used by `main.ts` and by the HTTP tests), ready for `listen` or `init`. */

@@ -5,6 +5,7 @@ import { join } from 'node:path';
 import type { PGlite } from '@electric-sql/pglite';
 import { PrismaPg } from '@prisma/adapter-pg';
 import { PrismaClient } from '../generated/prisma/client';
+import type { RawSql } from '../common/database/database.tokens';
 import { lockDataDir } from './data-dir-lock';
 import { DatabaseError, describeDriverError } from './errors';
 import { PgliteMigrationRunner, PgMigrationRunner, type DatabaseKind, type MigrationRunner } from './migration-runner';
@@ -37,6 +38,8 @@ export interface OpenDatabaseOptions {
 
 export interface Database {
   readonly prisma: PrismaClient;
+  /** One parameterised statement through the driver, without Prisma (see RawSql). */
+  readonly sql: RawSql;
   readonly kind: DatabaseKind;
   /** What opening applied; null when opened with `applyMigrations: false`. */
   readonly migrationReport: MigrationReport | null;
@@ -77,7 +80,8 @@ async function openServer(options: OpenDatabaseOptions, databaseUrl: string): Pr
     throw error;
   }
   const prisma = new PrismaClient({ adapter: new PrismaPg(pool, target.schema ? { schema: target.schema } : undefined) });
-  return handle('postgresql', prisma, report, {
+  const sql: RawSql = async <T>(text: string, params: readonly unknown[]) => (await pool.query(text, params as unknown[])).rows as T[];
+  return handle('postgresql', prisma, sql, report, {
     state: async () => {
       const client = await connect(pool, target);
       try {
@@ -124,7 +128,8 @@ async function openEmbedded(options: OpenDatabaseOptions): Promise<Database> {
     const { PrismaPGlite } = await import('pglite-prisma-adapter');
     const prisma = new PrismaClient({ adapter: new PrismaPGlite(db) });
     const opened = db;
-    return handle('embedded', prisma, report, {
+    const sql: RawSql = async <T>(text: string, params: readonly unknown[]) => (await opened.query<T>(text, params as unknown[])).rows;
+    return handle('embedded', prisma, sql, report, {
       state: () => readMigrationState(runner, options.migrationsDir),
       close: async () => {
         try {
@@ -144,12 +149,14 @@ async function openEmbedded(options: OpenDatabaseOptions): Promise<Database> {
 function handle(
   kind: DatabaseKind,
   prisma: PrismaClient,
+  sql: RawSql,
   migrationReport: MigrationReport | null,
   ops: { state(): Promise<MigrationState>; close(): Promise<void> },
 ): Database {
   let closing: Promise<void> | undefined;
   return {
     prisma,
+    sql,
     kind,
     migrationReport,
     migrationState: () => ops.state(),

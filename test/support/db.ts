@@ -37,6 +37,7 @@ export async function testDatabase(backend: Backend): Promise<TestDatabase> {
   const db = await scratch.open();
   return {
     prisma: db.prisma,
+    sql: db.sql,
     kind: db.kind,
     migrationReport: db.migrationReport,
     migrationState: () => db.migrationState(),

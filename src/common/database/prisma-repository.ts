@@ -1,7 +1,7 @@
 import { Inject } from '@nestjs/common';
 import type { Prisma, PrismaClient } from '../../generated/prisma/client';
 import { currentWriteContext } from '../logging/request-context';
-import { DATABASE, type OpenDatabase } from './database.tokens';
+import { DATABASE, type OpenDatabase, type RawSql } from './database.tokens';
 
 /**
  * Base of every repository: the client of the opened database, and transactions whose client the service passes
@@ -9,9 +9,13 @@ import { DATABASE, type OpenDatabase } from './database.tokens';
  */
 export abstract class PrismaRepository {
   readonly prisma: PrismaClient;
+  /** One statement through the driver itself, for the hot paths (see RawSql). */
+  readonly sql: RawSql;
 
   constructor(@Inject(DATABASE) database: OpenDatabase) {
     this.prisma = database.prisma;
+    const prisma = database.prisma;
+    this.sql = database.sql ?? (<T>(text: string, params: readonly unknown[]) => prisma.$queryRawUnsafe<T[]>(text, ...params));
   }
 
   /**

@@ -37,9 +37,17 @@ export class AuthRepository extends PrismaRepository {
   async actorFor(secretHash: string, now: Date) {
     const found = await this.prisma.signIn.findFirst({
       where: { secretHash, revokedAt: null, expiresAt: { gt: now }, user: { active: true } },
-      select: { id: true, kind: true, user: { select: ACTOR_FIELDS } },
+      select: { id: true, kind: true, expiresAt: true, user: { select: ACTOR_FIELDS } },
     });
     return found ?? null;
+  }
+
+  /** The person behind a sign-in known by id, while it is live and they are active; null otherwise. */
+  liveSignIn(signInId: string, now: Date) {
+    return this.prisma.user.findFirst({
+      where: { active: true, signIns: { some: { id: signInId, revokedAt: null, expiresAt: { gt: now } } } },
+      select: ACTOR_FIELDS,
+    });
   }
 
   revoke(secretHash: string, now: Date) {

@@ -4,6 +4,7 @@ import { DomainException } from '../../common/errors/domain.exception';
 import type { Actor } from '../identity/actor';
 import { AuthRepository } from './auth.repository';
 import { newSecret, secretHash, verifyPassword } from './secrets';
+import { SessionCache, sessionEnded, type CachedSignIn, type PendingSession } from './session-cache';
 
 /**
  * Lock-out: NIST SP 800-63B §5.2.2 ("Rate Limiting") requires a verifier to allow no more than 100 consecutive
@@ -27,6 +28,7 @@ export class AuthService {
   constructor(
     private readonly repo: AuthRepository,
     @Inject(APP_CONFIG) private readonly config: AppConfig,
+    private readonly sessions: SessionCache,
   ) {}
 
   async signIn(email: string, password: string, kind: 'page' | 'api', client: string, now = new Date()): Promise<SignedIn> {
@@ -47,14 +49,45 @@ export class AuthService {
   }
 
   /** The caller behind a session or token secret, or null when it is unknown, expired or revoked. */
-  async actorFor(secret: string, now = new Date()): Promise<{ actor: Actor; kind: 'page' | 'api' } | null> {
-    const found = await this.repo.actorFor(secretHash(secret), now);
-    if (!found) return null;
+  async actorFor(secret: string, now = new Date()): Promise<{ actor: Actor; kind: 'page' | 'api'; signInId: string } | null> {
+    const hash = secretHash(secret);
+    const found = await this.repo.actorFor(hash, now);
+    if (!found) {
+      this.sessions.forget(hash);
+      return null;
+    }
     const u = found.user;
-    return { kind: found.kind, actor: { userId: u.id, shopId: u.shopId, name: u.name, role: u.role } };
+    const actor: Actor = { userId: u.id, shopId: u.shopId, name: u.name, role: u.role };
+    this.sessions.set(hash, { signInId: found.id, kind: found.kind, actor, expiresAt: found.expiresAt });
+    return { kind: found.kind, actor, signInId: found.id };
+  }
+
+  /** The sign-in as this instance last found it live, not read again: only for routes that check it themselves. */
+  cached(secret: string, now = new Date()): (CachedSignIn & { secretHash: string }) | undefined {
+    const hash = secretHash(secret);
+    const entry = this.sessions.get(hash, now);
+    return entry && { ...entry, actor: { ...entry.actor }, secretHash: hash };
+  }
+
+  /** Reads a pending sign-in (see PendingSession): the person as they are now, or 401 when it ended meanwhile. */
+  async confirm(pending: PendingSession, path: string, now = new Date()): Promise<Actor> {
+    const u = await this.repo.liveSignIn(pending.signInId, now);
+    return this.settled(pending, u && { userId: u.id, shopId: u.shopId, name: u.name, role: u.role }, path);
+  }
+
+  /** What a pending sign-in's check found (the live person, or null), applied to the cache; 401 when it ended. */
+  settled(pending: PendingSession, actor: Actor | null, path: string): Actor {
+    if (!actor) {
+      this.sessions.forget(pending.secretHash);
+      throw sessionEnded(path);
+    }
+    this.sessions.refresh(pending.secretHash, actor);
+    return actor;
   }
 
   async signOut(secret: string, now = new Date()): Promise<void> {
-    await this.repo.revoke(secretHash(secret), now);
+    const hash = secretHash(secret);
+    this.sessions.forget(hash);
+    await this.repo.revoke(hash, now);
   }
 }

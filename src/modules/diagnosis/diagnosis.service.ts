@@ -8,7 +8,7 @@ import { FaultTreeCatalog } from '../fault-trees/fault-tree-catalog.service';
 import { MeasurementsRepository, type MeasurementRow } from '../measurements/measurements.repository';
 import { requestOf } from '../measurements/measurements.view';
 import { RepairOrdersRepository } from '../repair-orders/repair-orders.repository';
-import { RepairsRepository } from '../repairs/repairs.repository';
+import { RepairsRepository, type RepairRow } from '../repairs/repairs.repository';
 
 export function engineReading(m: MeasurementRow): Reading {
   return {
@@ -61,15 +61,16 @@ export class DiagnosisService {
     repairOrderId: string,
     circuit: { id: string; kind: CircuitKind; faultTreeId: string | null },
     options: { asDiagnosed?: boolean } = {},
+    /** The circuit's readings (corrected ones included) and the order's repairs, when the caller read them already. */
+    read?: { readings: MeasurementRow[]; repairs: Array<Pick<RepairRow, 'id' | 'part' | 'at' | 'circuitId'>> },
   ): Promise<{ tree: Tree; diagnosis: Diagnosis; readings: MeasurementRow[] }> {
     const circuitId = circuit.id;
     const tree = circuit.faultTreeId
       ? await this.trees.byStoredId(actor, circuit.faultTreeId)
       : (await this.measurements.transaction((tx) => this.trees.bindForCircuit(actor, circuit.kind, undefined, tx))).tree;
-    const [readings, repairs] = await Promise.all([
-      this.measurements.list(repairOrderId, { circuitId, includeSuperseded: true }),
-      this.repairs.listForOrder(repairOrderId),
-    ]);
+    const [readings, repairs] = read
+      ? [read.readings, read.repairs]
+      : await Promise.all([this.measurements.list(repairOrderId, { circuitId, includeSuperseded: true }), this.repairs.listForOrder(repairOrderId)]);
     const engineRepairs: Repair[] = options.asDiagnosed
       ? []
       : repairs.filter((r) => r.circuitId === null || r.circuitId === circuitId).map((r) => ({ id: r.id, part: r.part, at: r.at.toISOString() }));

@@ -7,13 +7,18 @@ import { DomainException } from '../../common/errors/domain.exception';
 import { AuthService } from '../auth/auth.service';
 import { bearerToken, CSRF_FIELD, CSRF_HEADER, readCookie, SESSION_COOKIE } from '../auth/credentials';
 import { csrfTokenFor, sameToken } from '../auth/secrets';
+import { CHECKS_SESSION_ITSELF, sessionEnded, type PendingSession } from '../auth/session-cache';
 import type { RequestWithActor } from './actor';
 
 const PUBLIC = Symbol('public-route');
 /** Marks a route that needs no actor (health, documentation, sign-in). */
 export const PublicRoute = () => SetMetadata(PUBLIC, true);
 
-export type RequestWithCredential = RequestWithActor & { credential?: { via: 'bearer' | 'session'; secret: string } };
+export type RequestWithCredential = RequestWithActor & {
+  credential?: { via: 'bearer' | 'session'; secret: string; signInId: string };
+  /** Set when the sign-in came from the cache unread (see ChecksSessionItself). */
+  pendingSession?: PendingSession;
+};
 
 const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
 
@@ -50,8 +55,13 @@ export class ActorGuard implements CanActivate {
       if (request.header('authorization')) throw unauthenticated('The Authorization header must be “Bearer <token>” with a token from POST /api/auth/sign-in.');
       throw unauthenticated('Sign in first: send “Authorization: Bearer <token>” (from POST /api/auth/sign-in), or sign in on the pages.');
     }
-    const found = await this.auth.actorFor(secret);
-    if (!found) throw unauthenticated('The token or session is unknown, expired or signed out: sign in again.');
+    // A route that reads the sign-in in its own first statement takes it from the cache here; a write sent with an
+    // Idempotency-Key does not, since its key is claimed (written) before the handler runs.
+    const reachesHandler = this.reflector.getAllAndOverride<((req: RequestWithCredential) => boolean) | undefined>(CHECKS_SESSION_ITSELF, [context.getHandler(), context.getClass()]);
+    const itself = reachesHandler !== undefined && request.header('idempotency-key') === undefined && reachesHandler(request);
+    const cached = itself ? this.auth.cached(secret) : undefined;
+    const found = cached ?? (await this.auth.actorFor(secret));
+    if (!found) throw sessionEnded(bearer || !session ? 'headers.authorization' : `cookies.${SESSION_COOKIE}`);
     // Only now, with the caller known, is the body read.
     await readBody(request, response, this.config.bodyLimit);
     if (session && !SAFE_METHODS.has(request.method)) {
@@ -64,7 +74,8 @@ export class ActorGuard implements CanActivate {
       }
     }
     request.actor = found.actor;
-    request.credential = { via: bearer ? 'bearer' : 'session', secret };
+    request.credential = { via: bearer ? 'bearer' : 'session', secret, signInId: found.signInId };
+    if (cached) request.pendingSession = { signInId: cached.signInId, secretHash: cached.secretHash };
     return true;
   }
 }

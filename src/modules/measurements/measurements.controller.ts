@@ -1,13 +1,20 @@
-import { Body, Controller, forwardRef, Get, Inject, Post, Res } from '@nestjs/common';
+import { Body, Controller, forwardRef, Get, Inject, Post, Req, Res } from '@nestjs/common';
 import type { Response } from 'express';
+import { z } from 'zod';
 import { ApiBody, ApiOperation, ApiSecurity, ApiTags } from '@nestjs/swagger';
 import { openApiSchema, UuidParam, ZQuery } from '../../common/validation/zod-input';
 import { CurrentActor, type Actor } from '../identity/actor';
+import type { RequestWithCredential } from '../identity/actor.guard';
+import { ChecksSessionItself } from '../auth/session-cache';
+import { SESSION_COOKIE } from '../auth/credentials';
 import { DiagnosisService } from '../diagnosis/diagnosis.service';
 import { apiDiagnosisView } from '../diagnosis/diagnosis.view';
 import { ListMeasurements, MeasurementBody, RecordOptions } from './measurements.dto';
 import { MeasurementsService } from './measurements.service';
 import { MeasurementAnswer, MeasurementList, ZResponse } from '../../common/openapi/responses';
+
+/** The route's own parameter pipes, asked beforehand (see ChecksSessionItself). */
+const reachesHandler = (req: { params: Record<string, unknown>; query: unknown }) => z.uuid().safeParse(req.params.id).success && RecordOptions.safeParse(req.query).success;
 
 @ApiTags('measurements')
 @ApiSecurity('user')
@@ -30,20 +37,24 @@ export class MeasurementsController {
       'the readings are kept, and re-sending them with the same `clientKey` answers with them and the diagnosis.',
   })
   @ApiBody({ schema: openApiSchema(MeasurementBody) })
+  @ChecksSessionItself(reachesHandler)
   async record(
-    @CurrentActor() actor: Actor,
+    @CurrentActor() caller: Actor,
     @UuidParam('id') id: string,
     @ZQuery(RecordOptions) options: RecordOptions,
     @Body() body: unknown,
+    @Req() req: RequestWithCredential,
     @Res({ passthrough: true }) res: Response,
   ) {
-    const { replayed, result, circuits } = await this.service.record(actor, id, body);
+    const credential = req.credential!;
+    const signIn = { signInId: credential.signInId, pending: req.pendingSession, path: credential.via === 'bearer' ? 'headers.authorization' : `cookies.${SESSION_COOKIE}` };
+    const { replayed, result, circuits, actor, history } = await this.service.record(caller, id, body, signIn, options.diagnosis);
     // A re-sent reading (same clientKey) is answered with what was stored, as 200 rather than 201.
     if (replayed) res.status(200);
     if (!options.diagnosis) return result;
     const diagnoses = [];
     for (const circuit of circuits) {
-      const { tree, diagnosis } = await this.diagnoses.ofCircuit(actor, id, circuit);
+      const { tree, diagnosis } = await this.diagnoses.ofCircuit(actor, id, circuit, {}, history ?? undefined);
       diagnoses.push({ circuitId: circuit.id, ...apiDiagnosisView(tree, diagnosis) });
     }
     return { ...(result as object), diagnoses };

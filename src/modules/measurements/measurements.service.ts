@@ -9,6 +9,11 @@ import { MeasurementBatch, MeasurementInput, type ListMeasurements } from './mea
 import { MeasurementsRepository, type MeasurementRow } from './measurements.repository';
 import { measurementView, requestOf } from './measurements.view';
 import { requestKey } from '../../engine/diagnosis';
+import { setContextActor } from '../../common/logging/request-context';
+import { AuthService } from '../auth/auth.service';
+import { sessionEnded, type PendingSession } from '../auth/session-cache';
+import { bucketOf, RateLimitsInterceptor, refuseOver } from '../rate-limits/rate-limits.interceptor';
+import { ReadingRepository, type StoredReading } from './reading.repository';
 
 /**
  * What a correction must share with the reading it replaces: the same test. The engine state may differ, since a
@@ -17,6 +22,8 @@ import { requestKey } from '../../engine/diagnosis';
 function sameTest(m: Parameters<typeof requestOf>[0] | Record<string, unknown>): string {
   return requestKey({ ...requestOf(m as Parameters<typeof requestOf>[0]), engine: 'off' });
 }
+
+type ReadingContextOrder = Awaited<ReturnType<ReadingRepository['context']>>['order'];
 
 /** Which phase of reading each status accepts. */
 const PHASES_BY_STATUS: Record<RepairOrderStatus, ReadonlyArray<'diagnosis' | 'verification'>> = {
@@ -64,6 +71,18 @@ export interface Recorded {
   replayed: boolean;
   result: unknown;
   circuits: CircuitOfOrder[];
+  /** The caller as the database has them now (their sign-in checked by this request). */
+  actor: Actor;
+  /** Read by the write itself: the circuit's readings and the order's repairs, for the diagnosis after it. */
+  history?: StoredReading['history'];
+}
+
+/** The caller's sign-in: which one, and (when the guard took it from the cache) that it is still to be checked. */
+export interface SignInOfRequest {
+  signInId: string;
+  pending?: PendingSession;
+  /** Where the credential came from, for the 401 when it ended. */
+  path: string;
 }
 
 @Injectable()
@@ -74,20 +93,32 @@ export class MeasurementsService {
   constructor(
     private readonly measurements: MeasurementsRepository,
     private readonly orders: RepairOrdersRepository,
+    private readonly reading: ReadingRepository,
+    private readonly auth: AuthService,
+    private readonly limits: RateLimitsInterceptor,
   ) {}
 
   /**
    * One reading or a batch; a batch is stored all-or-nothing. Readings whose `clientKey` is already stored are
-   * not stored again: the stored reading comes back instead (`replayed`), so a tablet may safely re-send.
+   * not stored again: the stored reading comes back instead (`replayed`), so a tablet may safely re-send. With
+   * `history`, the answer carries what the diagnosis after it needs, when the write could read it.
    */
-  async record(actor: Actor, repairOrderId: string, body: unknown): Promise<Recorded> {
+  async record(caller: Actor, repairOrderId: string, body: unknown, signIn?: SignInOfRequest, history = false): Promise<Recorded> {
     const batch = Array.isArray(body);
+    // The common case (one new reading, not a correction) reads the sign-in, the budget and the order in one
+    // statement, before the body is judged, as the guard and the rate limit would have.
+    const alone = !batch && typeof body === 'object' && body !== null && (body as { supersedes?: unknown }).supersedes == null && this.measurements.canInsertAlone();
+    const context = signIn && alone ? await this.context(caller, signIn, repairOrderId) : undefined;
+    const actor = context?.actor ?? (signIn?.pending ? await this.confirmed(signIn) : caller);
     const inputs = batch ? this.many.transform(body) : [this.one.transform(body)];
     const at = (i: number, field: string) => (batch ? `body.${i}.${field}` : `body.${field}`);
     const keyed = inputs.some((m) => m.clientKey);
     try {
       // Nearly every reading is new: store it straight away, and look for an earlier copy only when that fails.
-      return (await this.storeAlone(actor, repairOrderId, inputs, batch, at)) ?? (await this.store(actor, repairOrderId, inputs, batch, at, false));
+      return (
+        (context && (await this.storeAlone(actor, repairOrderId, context.order, inputs[0]!, history))) ??
+        (await this.store(actor, repairOrderId, inputs, batch, at, false))
+      );
     } catch (error) {
       if (keyed && (isUniqueViolation(error, 'clientKey') || error instanceof DomainException)) {
         // A re-sent reading (or one that arrived twice at once): answer with the stored copy, which also holds
@@ -96,6 +127,28 @@ export class MeasurementsService {
       }
       throw this.mapped(error);
     }
+  }
+
+  /** The sign-in checked, the write counted and the order read, in one statement (see ReadingRepository.context). */
+  private async context(caller: Actor, signIn: SignInOfRequest, repairOrderId: string) {
+    // A sign-in the guard looked up just now was counted by the rate limit already.
+    const budget = signIn.pending ? this.limits.writeBudget(caller) : undefined;
+    if (budget) this.limits.housekeep();
+    const found = await this.reading.context(signIn.signInId, new Date(), budget && { bucket: bucketOf(budget), windowSeconds: budget.windowSeconds }, repairOrderId);
+    const actor = signIn.pending ? this.auth.settled(signIn.pending, found.actor, signIn.path) : found.actor;
+    // Signed out between the guard's look and this statement: the same answer as a moment later.
+    if (!actor) throw sessionEnded(signIn.path);
+    if (budget && found.writes) refuseOver(budget, found.writes.hits, found.writes.resetSeconds);
+    if (actor.role !== caller.role || actor.name !== caller.name || actor.shopId !== caller.shopId) setContextActor(actor);
+    return { actor, order: found.order };
+  }
+
+  /** A pending sign-in checked and the write counted, when the one-statement path does not apply. */
+  private async confirmed(signIn: SignInOfRequest): Promise<Actor> {
+    const actor = await this.auth.confirm(signIn.pending!, signIn.path);
+    setContextActor(actor);
+    await this.limits.countWrite(actor);
+    return actor;
   }
 
   private async retryWithReplays(actor: Actor, repairOrderId: string, inputs: MeasurementInput[], batch: boolean, at: (i: number, field: string) => string) {
@@ -118,24 +171,20 @@ export class MeasurementsService {
   }
 
   /**
-   * The common case in one write: a single new reading, not a correction, on an order already under diagnosis or
-   * repaired. The order is read and the reading checked as `store` does; the reading is then stored only while the
-   * order still has the status it was checked against. Undefined when the case is another one, or the order moved
-   * on in between: `store` then does it all in one transaction.
+   * The common case in one write: a single new reading, not a correction, without an Idempotency-Key. The order
+   * was read with the sign-in (`context`) and the reading is checked as `store` does; it is then stored only while
+   * the order still has the status it was checked against (an open order moving to diagnosing in the same
+   * statement). Undefined when the order moved on in between: `store` then does it all in one transaction.
    */
-  private async storeAlone(actor: Actor, repairOrderId: string, inputs: MeasurementInput[], batch: boolean, at: (i: number, field: string) => string) {
-    const m = inputs[0]!;
-    if (batch || m.supersedes || !this.measurements.canInsertAlone()) return undefined;
-    const order = await this.orders.findHeaderWithCircuits(orderScope(actor), repairOrderId);
+  private async storeAlone(actor: Actor, repairOrderId: string, order: ReadingContextOrder, m: MeasurementInput, history: boolean): Promise<Recorded | undefined> {
     if (!order) throw new NotFoundException('repair_order', repairOrderId);
-    // The first reading moves an open order to diagnosing, which `store` records.
-    if (order.status === 'open') return undefined;
-    this.requirePhases(order, inputs);
-    this.requireTimes(order, inputs, at);
-    await this.requireReferences(repairOrderId, order.circuits, inputs, at, this.measurements.prisma);
-    const row = await this.measurements.insertWhileStatus(order.status, { id: actor.userId, name: actor.name }, rowFor(m, repairOrderId, actor.userId, Date.now()));
-    if (!row) return undefined;
-    return { replayed: false, result: measurementView(row), circuits: order.circuits.filter((c) => c.id === m.circuitId) } satisfies Recorded;
+    const at = (_: number, field: string) => `body.${field}`;
+    this.requirePhases(order, [m]);
+    this.requireTimes(order, [m], at);
+    await this.requireReferences(repairOrderId, order.circuits, [m], at, this.measurements.prisma);
+    const stored = await this.reading.store(order, { id: actor.userId, name: actor.name }, rowFor(m, repairOrderId, actor.userId, Date.now()), history);
+    if (!stored) return undefined;
+    return { replayed: false, result: measurementView(stored.row), circuits: order.circuits.filter((c) => c.id === m.circuitId), actor, history: stored.history };
   }
 
   private async store(
@@ -173,7 +222,7 @@ export class MeasurementsService {
       return { rows: inputs.map((m) => byInput.get(m) ?? stored.get(m.clientKey!)!), replayed: false, circuits: touched };
     });
     const views = rows.map(measurementView);
-    return { replayed, result: batch ? { items: views } : views[0], circuits };
+    return { replayed, result: batch ? { items: views } : views[0], circuits, actor };
   }
 
   private requireDistinctKeys(inputs: MeasurementInput[], at: (i: number, field: string) => string): void {

@@ -3,7 +3,8 @@ import { WRITE_METHODS } from '../../common/http-methods';
 import type { Observable } from 'rxjs';
 import { APP_CONFIG, type AppConfig } from '../../config/config';
 import { TooManyRequestsException } from '../../common/errors/domain.exception';
-import type { RequestWithActor } from '../identity/actor';
+import type { Actor, RequestWithActor } from '../identity/actor';
+import type { PendingSession } from '../auth/session-cache';
 import { RateLimitsRepository } from './rate-limits.repository';
 
 /**
@@ -12,7 +13,7 @@ import { RateLimitsRepository } from './rate-limits.repository';
  */
 export const SIGN_IN_PATHS: ReadonlySet<string> = new Set(['/api/auth/sign-in', '/sign-in']);
 
-interface Budget {
+export interface Budget {
   bucket: string;
   limit: number;
   windowSeconds: number;
@@ -33,24 +34,38 @@ export class RateLimitsInterceptor implements NestInterceptor {
 
   async intercept(context: ExecutionContext, next: CallHandler): Promise<Observable<unknown>> {
     if (context.getType() !== 'http') return next.handle();
-    const req = context.switchToHttp().getRequest<RequestWithActor>();
-    if (!WRITE_METHODS.has(req.method)) return next.handle();
+    const req = context.switchToHttp().getRequest<RequestWithActor & { pendingSession?: PendingSession }>();
+    // A caller let through on a cached sign-in is counted by the handler, in the statement that checks the sign-in.
+    if (!WRITE_METHODS.has(req.method) || req.pendingSession) return next.handle();
     const budgets = this.budgetsFor(req).filter((b) => b.limit > 0);
     if (budgets.length === 0) return next.handle();
-    if (Math.random() < 0.005) void this.counters.purgeOld().catch(() => {});
+    this.housekeep();
     for (const budget of budgets) {
-      // The window length is part of the bucket: instances configured alike share it, others keep apart.
-      const { hits, resetSeconds } = await this.counters.hit(`${budget.bucket}/${budget.windowSeconds}s`, budget.windowSeconds);
-      if (hits > budget.limit) {
-        const wait = Math.max(1, Math.ceil(resetSeconds));
-        throw new TooManyRequestsException(
-          budget.code,
-          `Too many ${budget.what}: at most ${budget.limit} in ${budget.windowSeconds} s. Try again in ${wait < 120 ? `${wait} s` : `${Math.ceil(wait / 60)} min`}.`,
-          wait,
-        );
-      }
+      const { hits, resetSeconds } = await this.counters.hit(bucketOf(budget), budget.windowSeconds);
+      refuseOver(budget, hits, resetSeconds);
     }
     return next.handle();
+  }
+
+  /** Now and then, on a counted request: drops windows long over. */
+  housekeep(): void {
+    if (Math.random() < 0.005) void this.counters.purgeOld().catch(() => {});
+  }
+
+  /** The write budget of a person, or undefined when writes are not limited. */
+  writeBudget(actor: Actor): Budget | undefined {
+    const limits = this.config.rateLimits;
+    const budget = { bucket: `write:user:${actor.userId}`, limit: limits.writesPerUser, windowSeconds: limits.writeWindowSeconds, code: 'rate_limit.writes', what: 'writes by this user' };
+    return budget.limit > 0 ? budget : undefined;
+  }
+
+  /** Counts one write of a caller the interceptor let through uncounted (see above); 429 when over budget. */
+  async countWrite(actor: Actor): Promise<void> {
+    const budget = this.writeBudget(actor);
+    if (!budget) return;
+    this.housekeep();
+    const { hits, resetSeconds } = await this.counters.hit(bucketOf(budget), budget.windowSeconds);
+    refuseOver(budget, hits, resetSeconds);
   }
 
   private budgetsFor(req: RequestWithActor): Budget[] {
@@ -67,8 +82,23 @@ export class RateLimitsInterceptor implements NestInterceptor {
       ];
     }
     if (!req.actor) return [];
-    return [
-      { bucket: `write:user:${req.actor.userId}`, limit: limits.writesPerUser, windowSeconds: limits.writeWindowSeconds, code: 'rate_limit.writes', what: 'writes by this user' },
-    ];
+    const write = this.writeBudget(req.actor);
+    return write ? [write] : [];
   }
+}
+
+/** The window length is part of the bucket: instances configured alike share it, others keep apart. */
+export function bucketOf(budget: Budget): string {
+  return `${budget.bucket}/${budget.windowSeconds}s`;
+}
+
+/** 429 with `Retry-After` once a budget's count passed its limit. */
+export function refuseOver(budget: Budget, hits: number, resetSeconds: number): void {
+  if (hits <= budget.limit) return;
+  const wait = Math.max(1, Math.ceil(resetSeconds));
+  throw new TooManyRequestsException(
+    budget.code,
+    `Too many ${budget.what}: at most ${budget.limit} in ${budget.windowSeconds} s. Try again in ${wait < 120 ? `${wait} s` : `${Math.ceil(wait / 60)} min`}.`,
+    wait,
+  );
 }
