@@ -20,7 +20,7 @@ export class OrderNumberingService {
       const { number, used } = await this.numbering.take(shopId, db);
       if (!used) return number;
     }
-    throw new DomainException('unavailable', 'repair_order.numbering_exhausted', `The next ${MAX_SKIPS} automatic numbers are all taken by typed ones; set the numbering further on (PUT /api/shop/order-numbering).`);
+    throw new DomainException('conflict', 'repair_order.numbering_exhausted', `The next ${MAX_SKIPS} automatic numbers are all taken by typed ones; set the numbering further on (PUT /api/shop/order-numbering).`);
   }
 
   async get(actor: Actor) {
