@@ -78,6 +78,10 @@ const AMBIGUOUS: Readonly<Record<string, string>> = {
   k: `'k' alone is a prefix, not a unit; expected one of ${UNITS.join(', ')} (kilohms: kΩ or kohm)`,
 };
 
+function own<T>(table: Readonly<Record<string, T>>, key: string): T | undefined {
+  return Object.hasOwn(table, key) ? table[key] : undefined;
+}
+
 export type ParseUnitResult = { ok: true; unit: Unit } | { ok: false; findings: Finding[] };
 
 /** Turns typed unit text ("kohm", "degF", "inHg", "Ω") into a canonical unit, or explains why it cannot. */
@@ -87,11 +91,13 @@ export function parseUnit(text: string, path = 'unit'): ParseUnitResult {
   }
   // NFKC folds the ohm sign U+2126 into Greek omega and ℃/℉ into °C/°F.
   const cleaned = text.normalize('NFKC').trim().replace(/\s+/g, ' ');
-  const exact = EXACT[cleaned];
+  // Own keys only: typed text such as "valueOf" or "constructor" must not find Object.prototype's members.
+  const exact = own(EXACT, cleaned);
   if (exact) return { ok: true, unit: exact };
   const lower = cleaned.toLowerCase();
-  if (lower in AMBIGUOUS) return { ok: false, findings: [{ code: 'units.ambiguous', path, message: AMBIGUOUS[lower] }] };
-  const folded = FOLDED[lower];
+  const ambiguous = own(AMBIGUOUS, lower);
+  if (ambiguous) return { ok: false, findings: [{ code: 'units.ambiguous', path, message: ambiguous }] };
+  const folded = own(FOLDED, lower);
   if (folded) return { ok: true, unit: folded };
   return {
     ok: false,

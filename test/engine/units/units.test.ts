@@ -43,6 +43,11 @@ describe('parseUnit', () => {
     ['MA', 'units.unknown', 'unknown unit "MA"'],
     ['volts?', 'units.unknown', 'unknown unit'],
     ['', 'units.unknown', 'unit is empty'],
+    // Names of Object.prototype's members are text like any other (the fuzz test found "valueOf" giving a 500).
+    ['valueOf', 'units.unknown', 'unknown unit "valueOf"'],
+    ['constructor', 'units.unknown', 'unknown unit "constructor"'],
+    ['__proto__', 'units.unknown', 'unknown unit "__proto__"'],
+    ['toString', 'units.unknown', 'unknown unit "toString"'],
   ])('refuses %j with %s explaining "%s"', (text, code, message) => {
     const result = parseUnit(text, 'readings[2].unit');
     expect(result).toMatchObject({ ok: false, findings: [{ code, path: 'readings[2].unit' }] });
