@@ -42,9 +42,13 @@ export const checklistChooser: TestChooser = (tree, d) => {
   return [...tree.tests].sort((a, b) => rank(a) - rank(b) || a.index - b.index).find((t) => !done.has(t.id));
 };
 
-/** The exact optimal policy (V by dynamic programming), with a memo shared across cases of one tree. */
-export function exactChooser(options: DiagnosisOptions = {}, memo: ExactMemo = newExactMemo()): TestChooser {
+/**
+ * The exact optimal policy (V by dynamic programming) on the planning tables of the evidence so far. The tables
+ * depend on the posterior over circuit classes, so each call solves afresh; `onSolved` sees each call's memo.
+ */
+export function exactChooser(options: DiagnosisOptions = {}, minPathProbability = 0, onSolved?: (memo: ExactMemo) => void): TestChooser {
   return (tree, d) => {
+    const memo = newExactMemo(minPathProbability);
     const done = new Int16Array(tree.tests.length).fill(-1);
     const evidence = groupEvidence(
       d.path.flatMap((e) => {
@@ -66,6 +70,7 @@ export function exactChooser(options: DiagnosisOptions = {}, memo: ExactMemo = n
       const q = exactQ(model, state, t, memo);
       if (!best || q < best.q - 1e-9) best = { t, q };
     }
+    onSolved?.(memo);
     return best && tree.tests[best.t];
   };
 }
