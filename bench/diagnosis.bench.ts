@@ -12,6 +12,7 @@ import { mulberry32 } from '../src/engine/circuit';
 import { builtInTrees } from '../src/engine/diagnosis';
 import { checklistChooser, driveToEnd, exactChooser, type TestChooser } from '../src/engine/diagnosis/drive';
 import { drawCase } from '../src/engine/diagnosis/simulate';
+import { newExactMemo } from '../src/engine/diagnosis/policy';
 import type { BenchResult } from './run';
 
 /** Cases per tree; DIAGNOSIS_BENCH_SCALE (e.g. 0.1) shortens a run on a busy machine. */
@@ -38,12 +39,11 @@ export default async (): Promise<BenchResult[]> => {
     const tree = trees[treeId]!;
     const random = mulberry32(SEED);
     const cases = Array.from({ length: n }, () => drawCase(tree, random));
-    let states = 0;
-    let solves = 0;
+    const memo = newExactMemo(PRUNE[treeId]);
     const policies: Array<[string, TestChooser | undefined]> = [
       ['engine (auto: exact when small, else Q2)', undefined],
       ['fixed checklist', checklistChooser],
-      [PRUNE[treeId] ? `near-optimal DP (pruned below ${PRUNE[treeId]})` : 'exact optimal policy', exactChooser({}, PRUNE[treeId], (m) => ((states += m.values.size), solves++))],
+      [PRUNE[treeId] ? `near-optimal DP (pruned below ${PRUNE[treeId]})` : 'exact optimal policy', exactChooser({}, memo)],
     ];
     // Warm up the JIT so latency reflects steady state.
     for (const c of cases.slice(0, 20)) await driveToEnd(tree, c);
@@ -91,7 +91,7 @@ export default async (): Promise<BenchResult[]> => {
     const checklist = summary[policies[1]![0]]!;
     const optimum = summary[policies[2]![0]]!;
     notes.push(
-      `${treeId}: engine minutes = ${(engine.minutes / checklist.minutes).toFixed(2)} × checklist (target ≤ 0.70), ${(engine.minutes / optimum.minutes).toFixed(2)} × optimum (target ≤ 1.10); the DP solved ${solves} times, ${(states / Math.max(1, solves)).toFixed(0)} evidence states on average.`,
+      `${treeId}: engine minutes = ${(engine.minutes / checklist.minutes).toFixed(2)} × checklist (target ≤ 0.70), ${(engine.minutes / optimum.minutes).toFixed(2)} × optimum (target ≤ 1.10); DP memo held ${memo.values.size} evidence states${memo.minPathProbability ? `, pruned branch mass (summed over visits) ${memo.prunedMass.toFixed(1)}` : ''}.`,
     );
   }
   return [

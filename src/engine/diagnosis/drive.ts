@@ -43,12 +43,13 @@ export const checklistChooser: TestChooser = (tree, d) => {
 };
 
 /**
- * The exact optimal policy (V by dynamic programming) on the planning tables of the evidence so far. The tables
- * depend on the posterior over circuit classes, so each call solves afresh; `onSolved` sees each call's memo.
+ * The exact optimal policy (V by dynamic programming), with a memo shared across cases of one tree. It plans on the
+ * outcome tables averaged over the circuit classes by their prior (fixed tables, so the memo stays valid); the
+ * engine's own tables follow the class posterior.
  */
-export function exactChooser(options: DiagnosisOptions = {}, minPathProbability = 0, onSolved?: (memo: ExactMemo) => void): TestChooser {
+export function exactChooser(options: DiagnosisOptions = {}, memo: ExactMemo = newExactMemo()): TestChooser {
+  const fixed = new WeakMap<Tree, ReturnType<typeof policyModel>>();
   return (tree, d) => {
-    const memo = newExactMemo(minPathProbability);
     const done = new Int16Array(tree.tests.length).fill(-1);
     const evidence = groupEvidence(
       d.path.flatMap((e) => {
@@ -58,7 +59,8 @@ export function exactChooser(options: DiagnosisOptions = {}, minPathProbability 
       }),
     );
     const post = posterior(tree, evidence);
-    const model = policyModel(tree, resolve(tree, options).resolved, planningLikelihoods(tree, post));
+    let model = fixed.get(tree);
+    if (!model) fixed.set(tree, (model = policyModel(tree, resolve(tree, options).resolved, planningLikelihoods(tree))));
     for (const e of evidence) done[e.test] = e.outcome;
     const settled = settledTests(tree, d);
     tree.tests.forEach((t) => done[t.index] === -1 && settled.has(t.id) && (done[t.index] = -2));
@@ -70,7 +72,6 @@ export function exactChooser(options: DiagnosisOptions = {}, minPathProbability 
       const q = exactQ(model, state, t, memo);
       if (!best || q < best.q - 1e-9) best = { t, q };
     }
-    onSolved?.(memo);
     return best && tree.tests[best.t];
   };
 }
