@@ -100,11 +100,12 @@ function diagnosis(over: Partial<Diagnosis>): Diagnosis {
     nextTest: null,
     path: [],
     conclusion: null,
+    undecided: null,
     logZ: 0,
     logEvidenceVsChance: 0,
     findings: [],
     ...over,
-  };
+  } as Diagnosis;
 }
 
 describe('what the pages claim about a diagnosis', () => {

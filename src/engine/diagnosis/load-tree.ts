@@ -11,10 +11,17 @@ import { preconditionText, requirementsOf } from './safety-rules';
 import { TREE_CHECKS } from './tree-checks';
 import { checkTreeLimits } from './tree-limits';
 import { parseTreeDocument, type TestDocument, type TreeDocument } from './tree-schema';
-import type { Caution, Hypothesis, Setup, Test, Tree } from './tree-model';
+import type { Caution, Hypothesis, LatentClass, Setup, Test, Tree } from './tree-model';
+import { compilePredictive } from './compile-predictive';
+import { classesOf } from './derive-likelihoods';
 
 export const DEFAULT_LIKELIHOOD_FLOOR = 0.02;
 export const DEFAULT_CONCLUDE_AT = 0.95;
+/** The cause that stands for "the circuit tests good now" (its readings are the healthy circuit's). */
+export const HEALTHY_CAUSE = 'no_fault_now';
+const WIRES: readonly string[] = ['reference', 'signal', 'ground'];
+/** A reading of the working circuit: connector mated, key on (a weak supply or a partial short shows under load). */
+export const isLoaded = (t: Test) => t.request.connector !== 'unplugged' && t.request.key === 'on';
 
 export interface LoadOptions {
   /** A document stored before the current safety checks: their findings become warnings (the engine still enforces them). */
@@ -43,7 +50,7 @@ function addRequiredCautions(doc: TreeDocument, findings: Finding[]): TreeDocume
 
 const toCautions = (ids: string[]): Caution[] => ids.map((id) => ({ id, text: cautionKind(id)!.text }));
 
-function compileTest(t: TestDocument, index: number, doc: TreeDocument, setups: Setup[], floor: number): Test {
+function compileTest(t: TestDocument, index: number, doc: TreeDocument, setups: Setup[], floor: number, latent: LatentClass[], nClasses: number): Test {
   const nO = t.outcomes.length;
   const nH = doc.hypotheses.length;
   const like = new Float64Array(nH * nO);
@@ -55,6 +62,8 @@ function compileTest(t: TestDocument, index: number, doc: TreeDocument, setups: 
   const mine = setups.filter((s) => t.setups.includes(s.id));
   const requires = requirementsOf(t);
   const safety = preconditionText(requires, t.request.location);
+  const intervals = t.outcomes.map((o) => conditionInterval(o.condition));
+  const predictive = t.predictive && intervals.every((r) => r) ? compilePredictive(t.predictive, t, doc, latent, nClasses, intervals.map((r) => r!)) : undefined;
   const crankable = t.request.quantity === 'scan_value' && t.request.key === 'on' && t.request.engine === 'off';
   const crankRequest = crankable ? withConditions(t.request, { engine: 'cranking' }) : undefined;
   return {
@@ -72,11 +81,13 @@ function compileTest(t: TestDocument, index: number, doc: TreeDocument, setups: 
     crankCautions: crankRequest ? toCautions([...new Set([...t.cautions, ...requiredCautions(crankRequest)])]) : [],
     minutes: t.minutes,
     parts: t.parts,
-    outcomes: t.outcomes.map((o, oi) => ({ index: oi, id: o.id, label: o.label, condition: o.condition, interval: conditionInterval(o.condition) })),
+    outcomes: t.outcomes.map((o, oi) => ({ index: oi, id: o.id, label: o.label, condition: o.condition, interval: intervals[oi] })),
     like,
     logLike: like.map(Math.log),
     bands: new Map(Object.entries(t.bands ?? {})),
     classifier: compileOutcomes(t.outcomes),
+    predictive,
+    unit: t.unit ?? (t.request.quantity === 'scan_value' ? 'V' : undefined),
   };
 }
 
@@ -107,7 +118,21 @@ export function loadTree(json: unknown, options: LoadOptions = {}): LoadResult {
     unknown: h.unknown === true,
   }));
   const setups: Setup[] = doc.setups.map((s, index) => ({ index, ...s }));
-  const tests = doc.tests.map((t, i) => compileTest(t, i, doc, setups, floor));
+  const predictiveTree = doc.tests.some((t) => t.predictive);
+  const classDocs = predictiveTree ? classesOf(doc) : [{ id: 'any', weight: 1 }];
+  const classWeight = classDocs.reduce((a, c) => a + c.weight, 0);
+  const alternatives = (predictiveTree && doc.derivation?.alternatives) || {};
+  const slots = Math.max(1, ...Object.values(alternatives).map((w) => w.length));
+  const classes: LatentClass[] = Array.from({ length: slots }, (_, a) =>
+    classDocs.map((c, k) => ({ index: a * classDocs.length + k, id: slots > 1 ? `${a}:${c.id}` : c.id, weight: c.weight / classWeight, alternative: a, klass: k })),
+  ).flat();
+  const logLatentPrior = new Float64Array(doc.hypotheses.length * classes.length);
+  doc.hypotheses.forEach((h, hi) => {
+    const w = alternatives[h.id] ?? [1];
+    const sum = w.reduce((x, y) => x + y, 0);
+    for (const l of classes) logLatentPrior[hi * classes.length + l.index] = l.alternative < w.length ? Math.log((w[l.alternative]! / sum) * l.weight) : -Infinity;
+  });
+  const tests = doc.tests.map((t, i) => compileTest(t, i, doc, setups, floor, classes, classDocs.length));
   const testByRequest = new Map<string, Test>(tests.map((t) => [requestKey(t.request), t]));
   doc.tests.forEach((t, i) => (t.alsoAnswers ?? []).forEach((r) => testByRequest.has(requestKey(r)) || testByRequest.set(requestKey(r), tests[i]!)));
   for (const t of tests) {
@@ -127,7 +152,11 @@ export function loadTree(json: unknown, options: LoadOptions = {}): LoadResult {
     likelihoodFloor: floor,
     hypotheses,
     unknownIndex: hypotheses.findIndex((h) => h.unknown),
+    healthyIndex: hypotheses.findIndex((h) => h.id === HEALTHY_CAUSE),
+    wires: [...new Set(tests.filter(isLoaded).map((t) => t.request.at).filter((at) => WIRES.includes(at)))],
     logPrior: Float64Array.from(hypotheses, (h) => Math.log(h.prior)),
+    classes,
+    logLatentPrior,
     setups,
     tests,
     testByRequest,

@@ -22,9 +22,13 @@ import { budgetSpent, scoreWithin } from './planning-budget';
 import type { CheckedReading } from './reading-checks';
 import type { TreeRequest } from './request-key';
 import type { Test, Tree } from './tree-model';
+import { isLoaded } from './load-tree';
 
 export type DiagnosisStatus = 'testing' | 'concluded' | 'recheck' | 'crank_and_reread' | 'exhausted';
-export type NextTestReason = 'lowest_expected_cost' | 'recheck_indeterminate' | 'recheck_contradiction' | 'crank_and_reread';
+export type NextTestReason = 'lowest_expected_cost' | 'recheck_indeterminate' | 'recheck_contradiction' | 'crank_and_reread' | 'wiggle_test';
+
+/** Readings of a test that flipped are followed by a wiggle test until the test has this many readings. */
+const WIGGLE_READINGS = 5;
 
 export interface TestProgress {
   counted: number;
@@ -61,6 +65,8 @@ export interface RuleContext {
   state: PolicyState;
   /** Tests that may not be proposed now (the jumper safety rule, safety-rules.ts). */
   blocked?: ReadonlySet<number>;
+  /** Counted readings the leading cause cannot explain (beyond its predicted spread). */
+  leaderContradictedBy: string[];
 }
 
 export interface Choice {
@@ -110,6 +116,26 @@ function rankTests(ctx: RuleContext): Choice | undefined {
   };
 }
 
+/**
+ * "No fault now" is not concluded while a wire of the working circuit (connector mated, key on) has not been read:
+ * a fault the tree does not model well (a partial short, a supply that sags only under load) can hide there. The
+ * cheapest open test on such a wire comes first.
+ */
+function wireStillToRead(ctx: RuleContext): Decision | undefined {
+  const loaded = (t: number) => isLoaded(ctx.tree.tests[t]!);
+  const read = new Set<string>(ctx.evidence.filter((e) => loaded(e.test)).map((e) => ctx.tree.tests[e.test]!.request.at));
+  const missing = ctx.tree.wires.filter((w) => !read.has(w));
+  const candidates = openTests(ctx.state).filter((t) => loaded(t) && missing.includes(ctx.tree.tests[t]!.request.at));
+  if (!candidates.length) return undefined;
+  const t = candidates.reduce((a, b) => (testCost(ctx.model, ctx.state, b) < testCost(ctx.model, ctx.state, a) ? b : a));
+  const test = ctx.tree.tests[t]!;
+  return {
+    status: 'testing',
+    choice: { test, reason: 'lowest_expected_cost', request: test.request, expectedMinutes: testCost(ctx.model, ctx.state, t) },
+    findings: [finding('diagnosis.wire_not_read', 'tests', `the circuit reads good so far, but the ${missing.join(' and ')} wire has not been read with the circuit working: one more test before "no fault now"`, 'info')],
+  };
+}
+
 export const STATUS_RULES: readonly StatusRule[] = [
   {
     name: 'indeterminate reading',
@@ -138,13 +164,29 @@ export const STATUS_RULES: readonly StatusRule[] = [
     },
   },
   {
+    name: 'intermittent',
+    decide: (ctx) => {
+      const flips = ctx.evidence.filter((e) => e.intermittent);
+      if (!flips.length) return undefined;
+      const notes = flips.map((e) => {
+        const test = ctx.tree.tests[e.test]!;
+        const values = e.clusters.map((c) => (Number.isFinite(c.y) && test.predictive ? c.y.toPrecision(3) : test.predictive ? 'overload' : test.outcomes[c.y]!.label)).join(' / ');
+        return finding('diagnosis.intermittent', `tests[${e.test}]`, `"${test.label}" read ${values} under the same conditions: more than the instrument's error, so the circuit changed between readings (an intermittent)`, 'warning');
+      });
+      const open = flips.find((e) => e.readingIds.length < WIGGLE_READINGS);
+      if (!open) return notes;
+      const test = ctx.tree.tests[open.test]!;
+      return { status: 'testing', choice: { test, reason: 'wiggle_test', request: test.request }, findings: notes };
+    },
+  },
+  {
     name: 'contradiction',
     decide: (ctx) => {
       if (ctx.posterior.logEvidenceVsChance >= ctx.options.contradictionThreshold) return undefined;
       const doubtful = mostDoubtfulReading(ctx.tree, ctx.evidence);
-      const ev = doubtful && ctx.evidence.find((e) => e.readingId === doubtful.readingId)!;
+      const ev = doubtful && ctx.evidence.find((e) => e.test === doubtful.test)!;
       const message = `the readings together are improbable under every modelled cause (log evidence ${ctx.posterior.logEvidenceVsChance.toFixed(2)} against chance)`;
-      if (!doubtful || !ev || ctx.replacements.has(doubtful.readingId) || ctx.progress[ev.test]!.counted > 1)
+      if (!doubtful || !ev || ctx.replacements.has(doubtful.readingId) || ev.readingIds.length > 1)
         return [finding('diagnosis.contradiction_persists', 'readings', `${message}; the doubtful reading was already repeated, so the "not modelled" cause is weighed instead`, 'warning')];
       const test = ctx.tree.tests[ev.test]!;
       const inputIndex = ctx.readingIndex.get(doubtful.readingId) ?? -1;
@@ -157,7 +199,15 @@ export const STATUS_RULES: readonly StatusRule[] = [
   },
   {
     name: 'concluded',
-    decide: (ctx) => (ctx.posterior.p[argmax(ctx.posterior.p)]! >= ctx.options.concludeAt ? { status: 'concluded', findings: [] } : undefined),
+    decide: (ctx) => {
+      const leader = argmax(ctx.posterior.p);
+      if (ctx.posterior.p[leader]! < ctx.options.concludeAt) return undefined;
+      const unread = leader === ctx.tree.healthyIndex ? wireStillToRead(ctx) : undefined;
+      if (unread) return unread;
+      if (!ctx.leaderContradictedBy.length) return { status: 'concluded', findings: [] };
+      const h = ctx.tree.hypotheses[leader]!;
+      return [finding('diagnosis.leader_contradicted', 'readings', `"${h.label}" leads but reading(s) ${ctx.leaderContradictedBy.join(', ')} fall outside what it predicts: not concluded`, 'warning')];
+    },
   },
   {
     name: 'exhausted',
@@ -165,7 +215,7 @@ export const STATUS_RULES: readonly StatusRule[] = [
       if (openTests(ctx.state).length > 0 && canChangeConclusion(ctx.model, ctx.state)) return undefined;
       return {
         status: 'exhausted',
-        findings: [finding('diagnosis.no_test_can_change_conclusion', 'tests', `no remaining test can change the leading cause or settle it at ${ctx.options.concludeAt}; concluding with the leading cause`, 'warning')],
+        findings: [finding('diagnosis.no_test_can_change_conclusion', 'tests', `no remaining test can change the leading cause or settle it at ${ctx.options.concludeAt}: not proven, no repair offered`, 'warning')],
       };
     },
   },

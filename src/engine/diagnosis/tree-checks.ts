@@ -7,6 +7,7 @@ import { checkCondition, conditionInterval } from './outcome-rules';
 import { cautionKind } from './cautions';
 import { requestKey } from './request-key';
 import { checkJumperSafety } from './safety-rules';
+import { QUANTILE_LEVELS } from './predictive';
 import type { TreeDocument } from './tree-schema';
 
 interface TreeCheck {
@@ -112,6 +113,30 @@ export const TREE_CHECKS: readonly TreeCheck[] = [
     },
   },
   { name: 'jumper safety', run: checkJumperSafety, relaxedWhenStored: true },
+  {
+    name: 'predictive cells',
+    run: (doc) => {
+      const nClasses = doc.derivation?.classes?.length ?? doc.derivation?.variants?.length ?? 1;
+      const hyps = new Set(doc.hypotheses.map((h) => h.id));
+      return doc.tests.flatMap((t, i) => {
+        if (!t.predictive) return [];
+        const path = joinPath('tests', i, 'predictive');
+        const { cells, index } = t.predictive;
+        const bad = cells.flatMap((c, k) =>
+          (c.q.length === QUANTILE_LEVELS.length || (c.q.length === 0 && c.overload === 1)) && c.q.every((x, j) => j === 0 || x >= c.q[j - 1]!)
+            ? []
+            : [finding('tree.predictive_cell_invalid', joinPath(path, 'cells', k, 'q'), `expected ${QUANTILE_LEVELS.length} non-decreasing quantiles (or none with overload 1)`)],
+        );
+        for (const [hid, row] of Object.entries(index)) {
+          if (!hyps.has(hid)) bad.push(finding('tree.predictive_unknown_hypothesis', joinPath(path, 'index', hid), `no hypothesis with id "${hid}"`));
+          else if (row.length !== nClasses * (doc.derivation?.alternatives?.[hid]?.length ?? 1))
+            bad.push(finding('tree.predictive_classes_mismatch', joinPath(path, 'index', hid), `expected one cell per class (${nClasses}) and alternative of the cause, got ${row.length}`));
+          else if (row.some((k) => k >= cells.length)) bad.push(finding('tree.predictive_cell_missing', joinPath(path, 'index', hid), `a cell index beyond the ${cells.length} cells`));
+        }
+        return bad;
+      });
+    },
+  },
   {
     name: 'parts named by repairs',
     run: (doc) => {
