@@ -1,0 +1,228 @@
+/**
+ * Out-of-model cases: a second population of circuits, drawn independently of the circuit model the trees'
+ * likelihoods were derived from (src/engine/circuit is not used). Each case is a true cause (a tree hypothesis id,
+ * or `no_fault_now` for a healthy circuit, or `reference_supply_failed` for a dead or weak module 5 V supply), a
+ * concrete circuit with its part values, fault severity and location, and the technician's instruments.
+ *
+ * Part ranges are common practice, no source, unless marked: supply 4.75–5.10 V, bias 47 kΩ–1 MΩ pull-up or
+ * pull-down on a three-wire input (1.5–10 kΩ pull-up on a thermistor input), harness wire with its terminals
+ * 0.02–0.4 Ω, sensor anywhere in its travel (thermistor −30…120 °C on a generic Steinhart–Hart curve).
+ * Faults cover hard and partial severities (ground resistance 200 Ω–5 kΩ, partial shorts 200 Ω–2 kΩ).
+ */
+import { mulberry32, type Random } from '../../../src/engine/circuit/prng';
+import type { MeasurementRequest } from '../../../src/engine/vocabulary';
+import type { CircuitCase, Fault, Sensor, Wire } from './circuits';
+import { instrumentReading, trueValue, type Instruments } from './instruments';
+import { NTC_CURVES } from './ntc';
+
+export type OomTreeId = 'three-wire-5v' | 'two-wire-thermistor';
+
+export interface OomCase {
+  tree: OomTreeId;
+  /** The true cause, as the trees name their hypotheses. */
+  cause: string;
+  /** Which form of the cause (e.g. "partial 640 Ω"), for reading failures. */
+  variant: string;
+  circuit: CircuitCase;
+  instruments: Instruments;
+  noiseSeed: number;
+  /** The module input misreads: its ADC reports this value whatever the circuit does. */
+  adcStuck?: number;
+}
+
+/** Causes per tree, in report order: every modelled hypothesis (not `unknown`) plus the two new ones. */
+export const OOM_CAUSES: Record<OomTreeId, readonly string[]> = {
+  'three-wire-5v': [
+    'no_fault_now',
+    'reference_open',
+    'reference_short_ground',
+    'reference_short_voltage',
+    'reference_supply_failed',
+    'signal_open',
+    'signal_short_ground',
+    'signal_short_voltage',
+    'signal_short_reference',
+    'ground_open',
+    'ground_high_resistance',
+    'sensor_internal',
+    'module_internal',
+  ],
+  'two-wire-thermistor': [
+    'no_fault_now',
+    'reference_supply_failed',
+    'signal_open',
+    'signal_short_ground',
+    'signal_short_voltage',
+    'ground_open',
+    'ground_high_resistance',
+    'sensor_internal',
+    'sensor_internal_shorted',
+    'module_internal',
+  ],
+};
+
+const KEY_ON_PLUGGED: MeasurementRequest = { quantity: 'scan_value', at: 'signal', location: 'sensor_connector', connector: 'plugged', key: 'on', engine: 'off', jumpers: [], pid: 'signal_volts' };
+const REFERENCE_AT_SENSOR: MeasurementRequest = { quantity: 'dc_volts', at: 'reference', against: 'battery_negative', location: 'sensor_connector', connector: 'backprobed', key: 'on', engine: 'off', jumpers: [] };
+
+const u = (random: Random, lo: number, hi: number) => lo + (hi - lo) * random();
+const logU = (random: Random, lo: number, hi: number) => Math.exp(u(random, Math.log(lo), Math.log(hi)));
+const pick = <T>(random: Random, items: readonly T[]): T => items[Math.floor(random() * items.length)]!;
+
+function hash(s: string): number {
+  let h = 2166136261;
+  for (let i = 0; i < s.length; i++) h = Math.imul(h ^ s.charCodeAt(i), 16777619);
+  return h >>> 0;
+}
+
+function healthyCircuit(tree: OomTreeId, random: Random): CircuitCase {
+  const three = tree === 'three-wire-5v';
+  const keyOff = u(random, 12.2, 12.8);
+  const wire = () => ({ ohms: u(random, 0.02, 0.4), faultAt: u(random, 0.1, 0.9) });
+  const sensor: Sensor = !three
+    ? { kind: 'ntc', curve: pick(random, NTC_CURVES), celsius: u(random, -30, 120) }
+    : random() < 0.5
+      ? { kind: 'potentiometer', ohms: u(random, 2_000, 10_000), position: u(random, 0.08, 0.92), wiperOhms: u(random, 50, 1_000) }
+      : { kind: 'active', supplyOhms: u(random, 500, 1_000), ratio: u(random, 0.08, 0.92), outOhms: u(random, 20, 500) };
+  return {
+    kind: three ? 'three_wire_5v' : 'two_wire_thermistor',
+    supply: { volts: u(random, 4.75, 5.1), outOhms: u(random, 0.05, 0.5), limitAmps: u(random, 0.06, 0.2) },
+    railLoadOhms: u(random, 50, 500),
+    railOffOhms: u(random, 2_000, 50_000),
+    bias: three ? { direction: random() < 0.5 ? 'pull_up' : 'pull_down', ohms: logU(random, 47e3, 1e6) } : { direction: 'pull_up', ohms: u(random, 1_500, 10_000) },
+    adcInputOhms: u(random, 5e6, 50e6),
+    moduleGroundOhms: u(random, 0.005, 0.03),
+    moduleAmps: u(random, 0.1, 0.8),
+    battery: { keyOff, keyOn: keyOff - u(random, 0.1, 0.4), cranking: u(random, 9.6, 11), running: u(random, 13.6, 14.6), internalOhms: u(random, 0.005, 0.02) },
+    strapOhms: u(random, 0.002, 0.02),
+    wires: { reference: wire(), signal: wire(), ground: wire() },
+    terminalOhms: u(random, 0.002, 0.02),
+    feed: { batteryFed: random() < 0.5, feedOhms: u(random, 0.05, 0.5), loadOhms: u(random, 2, 50) },
+    sensor,
+    jumperOhms: u(random, 0.02, 0.1),
+    faults: [],
+  };
+}
+
+function instruments(random: Random): Instruments {
+  return {
+    meterInputOhms: (random() < 0.8 ? 10e6 : 11e6) * u(random, 0.99, 1.01),
+    voltsGain: u(random, -0.004, 0.004),
+    ohmsGain: u(random, -0.009, 0.009),
+    leadOhms: u(random, 0.1, 0.3),
+    adcBits: 10,
+    adcFullScale: 5,
+    scanNeedsEngineSpeed: random() < 0.2,
+  };
+}
+
+const OPEN = (random: Random) => logU(random, 1e9, 1e11);
+const HARD = (random: Random) => u(random, 0.05, 5);
+const PARTIAL = (random: Random) => u(random, 200, 2_000);
+
+type Draw = { faults: Fault[]; variant: string; supply?: Partial<CircuitCase['supply']>; adcStuck?: number };
+
+/** The fault of a cause at a drawn severity (and, for a failed supply, the supply it leaves). */
+function drawFault(cause: string, c: CircuitCase, random: Random): Draw {
+  const hardOrPartial = (wire: Wire, to: 'chassis' | Wire): Draw => {
+    const hard = random() < 0.6;
+    const ohms = hard ? HARD(random) : PARTIAL(random);
+    return { faults: [{ kind: 'shunt', wire, to, ohms }], variant: hard ? 'hard short' : `partial ${Math.round(ohms)} Ω` };
+  };
+  const three = c.kind === 'three_wire_5v';
+  switch (cause) {
+    case 'no_fault_now':
+      return { faults: [], variant: 'healthy' };
+    case 'reference_open': {
+      if (random() < 0.65) return { faults: [{ kind: 'series', wire: 'reference', ohms: OPEN(random) }], variant: 'open' };
+      const ohms = logU(random, 1_000, 200_000);
+      return { faults: [{ kind: 'series', wire: 'reference', ohms }], variant: `high resistance ${Math.round(ohms)} Ω` };
+    }
+    case 'reference_short_ground': {
+      const hard = random() < 0.7;
+      const ohms = hard ? HARD(random) : u(random, 5, 30);
+      return { faults: [{ kind: 'shunt', wire: 'reference', to: 'chassis', ohms }], variant: hard ? 'hard short' : `partial ${ohms.toFixed(0)} Ω` };
+    }
+    case 'reference_short_voltage':
+      return { faults: [{ kind: 'shunt', wire: 'reference', to: 'feed', ohms: HARD(random) }], variant: c.feed.batteryFed ? 'battery-fed circuit' : 'ignition-fed circuit' };
+    case 'signal_open': {
+      if (!three || random() < 0.65) return { faults: [{ kind: 'series', wire: 'signal', ohms: OPEN(random) }], variant: 'open' };
+      const ohms = logU(random, 0.5 * c.bias.ohms, 5 * c.bias.ohms);
+      return { faults: [{ kind: 'series', wire: 'signal', ohms }], variant: `high resistance ${Math.round(ohms / 1000)} kΩ` };
+    }
+    case 'signal_short_ground':
+      return hardOrPartial('signal', 'chassis');
+    case 'signal_short_voltage':
+      return { faults: [{ kind: 'shunt', wire: 'signal', to: 'feed', ohms: HARD(random) }], variant: c.feed.batteryFed ? 'battery-fed circuit' : 'ignition-fed circuit' };
+    case 'signal_short_reference':
+      return hardOrPartial('signal', 'reference');
+    case 'ground_open':
+      return { faults: [{ kind: 'series', wire: 'ground', ohms: OPEN(random) }], variant: 'open' };
+    case 'ground_high_resistance': {
+      const ohms = logU(random, 200, 5_000);
+      return { faults: [{ kind: 'series', wire: 'ground', ohms }], variant: `${Math.round(ohms)} Ω` };
+    }
+    case 'sensor_internal': {
+      if (!three) return { faults: [{ kind: 'sensor', variant: 'ntc_open', ohms: OPEN(random) }], variant: 'thermistor open' };
+      const variants = c.sensor.kind === 'potentiometer'
+        ? (['element_open', 'wiper_open', 'output_to_reference', 'output_to_ground'] as const)
+        : (['output_dead', 'output_high', 'wiper_open', 'output_to_ground'] as const);
+      const variant = pick(random, variants);
+      const ohms = variant === 'wiper_open' || variant === 'element_open' ? OPEN(random) : u(random, 1, 50);
+      return { faults: [{ kind: 'sensor', variant, ohms }], variant: `${c.sensor.kind} ${variant.replaceAll('_', ' ')}` };
+    }
+    case 'sensor_internal_shorted':
+      return { faults: [{ kind: 'sensor', variant: 'ntc_shorted', ohms: u(random, 0.5, 20) }], variant: 'thermistor shorted' };
+    case 'module_internal': {
+      const form = pick(random, ['reads 0', 'reads full scale', 'reads a fixed value'] as const);
+      const adcStuck = form === 'reads 0' ? 0 : form === 'reads full scale' ? 5 : u(random, 0.3, 4.7);
+      return { faults: [], variant: `input ${form}`, adcStuck };
+    }
+    case 'reference_supply_failed': {
+      const form = pick(random, ['dead', 'low set point', 'sags under load'] as const);
+      if (form === 'dead') return { faults: [], variant: 'dead', supply: { volts: u(random, 0, 0.3) } };
+      if (form === 'low set point') return { faults: [], variant: 'low set point', supply: { volts: u(random, 3.5, 4.5) } };
+      return { faults: [], variant: 'sags under load', supply: { outOhms: u(random, 15, 60) } };
+    }
+    default:
+      throw new Error(`no out-of-model fault for cause "${cause}"`);
+  }
+}
+
+/** One case of a cause; `index` and `seed` fix it completely. */
+export function drawOomCase(tree: OomTreeId, cause: string, index: number, seed: number): OomCase {
+  const random = mulberry32(seed ^ hash(`${tree}/${cause}/${index}`));
+  for (let attempt = 0; ; attempt++) {
+    const circuit = healthyCircuit(tree, random);
+    const inst = instruments(random);
+    const drawn = drawFault(cause, circuit, random);
+    circuit.faults = drawn.faults;
+    circuit.supply = { ...circuit.supply, ...drawn.supply };
+    const c: OomCase = { tree, cause, variant: drawn.variant, circuit, instruments: inst, noiseSeed: Math.floor(random() * 2 ** 31), adcStuck: drawn.adcStuck };
+    if (attempt < 20 && !showsItself(c)) continue;
+    return c;
+  }
+}
+
+/**
+ * Redraws faults that leave no trace a tree test could see: a "weak" supply must sag below 4.6 V where the
+ * sensor takes its supply, and a module input that misreads must misread by more than 0.5 V.
+ */
+function showsItself(c: OomCase): boolean {
+  if (c.cause === 'reference_supply_failed' && c.circuit.supply.volts > 1) {
+    const probe = c.circuit.kind === 'three_wire_5v' ? REFERENCE_AT_SENSOR : { ...REFERENCE_AT_SENSOR, at: 'signal' as const, connector: 'unplugged' as const };
+    return trueValue(c.circuit, c.instruments, probe) < 4.6;
+  }
+  if (c.adcStuck !== undefined) return Math.abs(Math.min(5, trueValue(c.circuit, c.instruments, KEY_ON_PLUGGED)) - c.adcStuck) > 0.5;
+  return true;
+}
+
+/** A stratified set: `perCause` cases of every cause of the tree. */
+export function oomCases(tree: OomTreeId, perCause: number, seed: number): OomCase[] {
+  return OOM_CAUSES[tree].flatMap((cause) => Array.from({ length: perCause }, (_, i) => drawOomCase(tree, cause, i, seed)));
+}
+
+/** What the technician reads for a request (the `sensor` of shared-reference requests is ignored here). */
+export function answerOomRequest(c: OomCase, request: MeasurementRequest, attempt: number): number | 'overload' {
+  const { sensor: _sensor, ...plain } = request;
+  return instrumentReading(c.circuit, c.instruments, plain as MeasurementRequest, c.noiseSeed, attempt, c.adcStuck);
+}
