@@ -96,7 +96,7 @@ function healthyCircuit(tree: OomTreeId, random: Random): CircuitCase {
     strapOhms: u(random, 0.002, 0.02),
     wires: { reference: wire(), signal: wire(), ground: wire() },
     terminalOhms: u(random, 0.002, 0.02),
-    feed: { batteryFed: random() < 0.5, feedOhms: u(random, 0.05, 0.5), loadOhms: u(random, 2, 50) },
+    feed: { batteryFed: random() < 0.5, feedOhms: u(random, 0.05, 0.5), loadOhms: u(random, 10, 200) },
     sensor,
     jumperOhms: u(random, 0.02, 0.1),
     faults: [],
