@@ -4,7 +4,8 @@
  * against ngspice; src/engine/circuit is not used): bias 47 kΩ–1 MΩ either direction, supply 4.75–5.10 V and dead
  * or weak supplies, wire and terminal resistances, sensors across their travel, thermistors −30…120 °C, a
  * 6000-count meter at ±(0.5 % + 2 counts) V and ±(1 % + 2 counts) Ω, a 10-bit 0–5 V scan value (clamped; frozen
- * key-on on modules that refresh only with engine speed), healthy circuits and hard and partial faults.
+ * key-on on modules that refresh only with engine speed), healthy circuits and hard and partial faults; and a 5 V
+ * reference shared by three sensors (a sensor shorted inside, the harness shorted to ground, a failed supply).
  * Every cause of a tree gets the same number of cases (stratified, not weighted by the tree's priors).
  *
  * Each case is diagnosed to the end by the engine and by the fixed checklist (src/engine/diagnosis/drive.ts's

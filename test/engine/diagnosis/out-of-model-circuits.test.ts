@@ -4,7 +4,7 @@
  * ngspice (batch mode, `.op`), a divider and a meter-loaded bias agree with Ohm's law (computed), the NTC curve
  * passes through its fit points (Steinhart & Hart 1968, points from memory), the scan value is clamped to the
  * ADC's 0–5 V full scale, the meter stays inside its stated accuracy, and every request of the built-in trees
- * gets an answer on every cause.
+ * gets an answer on every cause (the shared 5 V reference included).
  */
 import { execFileSync } from 'node:child_process';
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
@@ -13,10 +13,11 @@ import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { builtInTrees } from '../../../src/engine/diagnosis';
 import type { MeasurementRequest } from '../../../src/engine/vocabulary';
-import { OOM_CAUSES, answerOomRequest, drawOomCase, type OomCase, type OomTreeId } from '../../support/out-of-model/cases';
+import { OOM_CAUSES, answerOomRequest, drawOomCase, singleCircuit, type OomCase, type OomTreeId } from '../../support/out-of-model/cases';
 import { buildNet, type CircuitCase } from '../../support/out-of-model/circuits';
 import { instrumentReading, METER, trueValue } from '../../support/out-of-model/instruments';
 import { NTC_CURVES, ntcCelsius, ntcOhms } from '../../support/out-of-model/ntc';
+import { buildSharedNet, type SharedCase } from '../../support/out-of-model/shared-reference';
 
 const TREES = Object.keys(OOM_CAUSES) as OomTreeId[];
 const SEED = 77;
@@ -57,7 +58,8 @@ const crossChecks = TREES.flatMap((tree) =>
 describe('the out-of-model circuits agree with ngspice (.op, batch mode) within 1e-6 relative, 1e-9 V floor', () => {
   it.each(crossChecks.map((x, i) => [x.tree, x.cause, i, x]))('%s: %s, request %i', (_tree, _cause, i, x) => {
     const c = drawOomCase(x.tree, x.cause, i as number, SEED);
-    const net = buildNet(c.circuit, x.request, 'source', x.request.quantity === 'dc_volts' ? c.instruments.meterInputOhms : undefined);
+    const meter = x.request.quantity === 'dc_volts' ? c.instruments.meterInputOhms : undefined;
+    const net = x.tree === 'shared-reference' ? buildSharedNet(c.circuit as SharedCase, x.request, 'source', meter) : buildNet(singleCircuit(c), x.request, 'source', meter);
     const ours = net.solve().volts;
     const theirs = ngspice(net.toSpice(`oom ${x.tree} ${x.cause}`), `case-${i}`);
     for (const [node, mine] of ours) {
@@ -70,10 +72,10 @@ describe('the out-of-model circuits agree with ngspice (.op, batch mode) within 
 });
 
 /** A plain healthy three-wire circuit with round part values, for closed-form checks. */
-function plainCase(over: Partial<CircuitCase> = {}): OomCase {
+function plainCase(over: Partial<CircuitCase> = {}): OomCase & { circuit: CircuitCase } {
   const c = drawOomCase('three-wire-5v', 'no_fault_now', 0, SEED);
   const circuit: CircuitCase = {
-    ...c.circuit,
+    ...singleCircuit(c),
     supply: { volts: 5, outOhms: 1e-3, limitAmps: 1 },
     railLoadOhms: 1e6,
     bias: { direction: 'pull_up', ohms: 100e3 },
@@ -151,8 +153,8 @@ describe('the meter stays within its stated accuracy (common practice, no source
   ] as const)('%s', (_name, request, spec) => {
     for (let i = 0; i < 200; i++) {
       const c = drawOomCase('three-wire-5v', 'no_fault_now', i, SEED);
-      const truth = trueValue(c.circuit, c.instruments, request);
-      const shown = instrumentReading(c.circuit, c.instruments, request, c.noiseSeed, 0);
+      const truth = trueValue(singleCircuit(c), c.instruments, request);
+      const shown = instrumentReading(singleCircuit(c), c.instruments, request, c.noiseSeed, 0);
       if (shown === 'overload') continue;
       let range = 0.6;
       while (Math.abs(truth) >= range * 0.999) range *= 10;

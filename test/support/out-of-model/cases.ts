@@ -9,13 +9,14 @@
  * 0.02–0.4 Ω, sensor anywhere in its travel (thermistor −30…120 °C on a generic Steinhart–Hart curve).
  * Faults cover hard and partial severities (ground resistance 200 Ω–5 kΩ, partial shorts 200 Ω–2 kΩ).
  */
-import { mulberry32, type Random } from '../../../src/engine/circuit/prng';
+import { hashString, splitmix32, type Random } from './random';
 import type { MeasurementRequest } from '../../../src/engine/vocabulary';
 import type { CircuitCase, Fault, Sensor, Wire } from './circuits';
+import { SHARED_SENSORS, sharedReading, sharedTrueValue, type SharedCase, type SharedSensor } from './shared-reference';
 import { instrumentReading, trueValue, type Instruments } from './instruments';
 import { NTC_CURVES } from './ntc';
 
-export type OomTreeId = 'three-wire-5v' | 'two-wire-thermistor';
+export type OomTreeId = 'three-wire-5v' | 'two-wire-thermistor' | 'shared-reference';
 
 export interface OomCase {
   tree: OomTreeId;
@@ -23,7 +24,8 @@ export interface OomCase {
   cause: string;
   /** Which form of the cause (e.g. "partial 640 Ω"), for reading failures. */
   variant: string;
-  circuit: CircuitCase;
+  /** A single sensor circuit, or a 5 V reference shared by three sensors. */
+  circuit: CircuitCase | SharedCase;
   instruments: Instruments;
   noiseSeed: number;
   /** The module input misreads: its ADC reports this value whatever the circuit does. */
@@ -59,6 +61,14 @@ export const OOM_CAUSES: Record<OomTreeId, readonly string[]> = {
     'sensor_internal_shorted',
     'module_internal',
   ],
+  'shared-reference': [
+    'no_fault_now',
+    'throttle_sensor_loading_reference',
+    'manifold_sensor_loading_reference',
+    'tank_sensor_loading_reference',
+    'reference_short_ground',
+    'module_regulator',
+  ],
 };
 
 const KEY_ON_PLUGGED: MeasurementRequest = { quantity: 'scan_value', at: 'signal', location: 'sensor_connector', connector: 'plugged', key: 'on', engine: 'off', jumpers: [], pid: 'signal_volts' };
@@ -68,10 +78,10 @@ const u = (random: Random, lo: number, hi: number) => lo + (hi - lo) * random();
 const logU = (random: Random, lo: number, hi: number) => Math.exp(u(random, Math.log(lo), Math.log(hi)));
 const pick = <T>(random: Random, items: readonly T[]): T => items[Math.floor(random() * items.length)]!;
 
-function hash(s: string): number {
-  let h = 2166136261;
-  for (let i = 0; i < s.length; i++) h = Math.imul(h ^ s.charCodeAt(i), 16777619);
-  return h >>> 0;
+/** The single circuit of a case (throws on a shared-reference case). */
+export function singleCircuit(c: OomCase): CircuitCase {
+  if (!('kind' in c.circuit)) throw new Error('a shared-reference case has no single circuit');
+  return c.circuit;
 }
 
 function healthyCircuit(tree: OomTreeId, random: Random): CircuitCase {
@@ -190,7 +200,8 @@ function drawFault(cause: string, c: CircuitCase, random: Random): Draw {
 
 /** One case of a cause; `index` and `seed` fix it completely. */
 export function drawOomCase(tree: OomTreeId, cause: string, index: number, seed: number): OomCase {
-  const random = mulberry32(seed ^ hash(`${tree}/${cause}/${index}`));
+  const random = splitmix32(seed ^ hashString(`${tree}/${cause}/${index}`));
+  if (tree === 'shared-reference') return drawSharedCase(cause, random);
   for (let attempt = 0; ; attempt++) {
     const circuit = healthyCircuit(tree, random);
     const inst = instruments(random);
@@ -208,6 +219,7 @@ export function drawOomCase(tree: OomTreeId, cause: string, index: number, seed:
  * sensor takes its supply, and a module input that misreads must misread by more than 0.5 V.
  */
 function showsItself(c: OomCase): boolean {
+  if (!('kind' in c.circuit)) return sharedTrueValue(c.circuit, c.instruments, { ...REFERENCE_AT_SENSOR, sensor: 'throttle' }) < 4.5;
   if (c.cause === 'reference_supply_failed' && c.circuit.supply.volts > 1) {
     const probe = c.circuit.kind === 'three_wire_5v' ? REFERENCE_AT_SENSOR : { ...REFERENCE_AT_SENSOR, at: 'signal' as const, connector: 'unplugged' as const };
     return trueValue(c.circuit, c.instruments, probe) < 4.6;
@@ -221,8 +233,52 @@ export function oomCases(tree: OomTreeId, perCause: number, seed: number): OomCa
   return OOM_CAUSES[tree].flatMap((cause) => Array.from({ length: perCause }, (_, i) => drawOomCase(tree, cause, i, seed)));
 }
 
-/** What the technician reads for a request (the `sensor` of shared-reference requests is ignored here). */
+/** What the technician reads for a request. */
 export function answerOomRequest(c: OomCase, request: MeasurementRequest, attempt: number): number | 'overload' {
   const { sensor: _sensor, ...plain } = request;
+  if (!('kind' in c.circuit)) return sharedReading(c.circuit, c.instruments, request, c.noiseSeed, attempt);
   return instrumentReading(c.circuit, c.instruments, plain as MeasurementRequest, c.noiseSeed, attempt, c.adcStuck);
+}
+
+/**
+ * A shared-reference case. Sensors draw 5–10 mA (500–1000 Ω) or are potentiometers of 2–10 kΩ; a sensor shorted
+ * inside, or the harness shorted to ground, at 0.05–40 Ω; the supply failed as in the single circuits. Faults that
+ * would leave the reference above 4.5 V with everything plugged are drawn again (nothing would show them).
+ */
+function drawSharedCase(cause: string, random: Random): OomCase {
+  for (let attempt = 0; ; attempt++) {
+    const single = healthyCircuit('three-wire-5v', random);
+    const branch = () => ({ ohms: u(random, 0.05, 0.5), faultAt: u(random, 0.1, 0.9), groundOhms: u(random, 0.02, 0.4), sensorOhms: random() < 0.5 ? u(random, 500, 1_000) : u(random, 2_000, 10_000) });
+    const circuit: SharedCase = {
+      supply: single.supply,
+      railLoadOhms: single.railLoadOhms,
+      railOffOhms: single.railOffOhms,
+      moduleGroundOhms: single.moduleGroundOhms,
+      moduleAmps: single.moduleAmps,
+      battery: single.battery,
+      strapOhms: single.strapOhms,
+      terminalOhms: single.terminalOhms,
+      trunk: { ohms: u(random, 0.02, 0.3), faultAt: u(random, 0.1, 0.9) },
+      branches: { throttle: branch(), manifold: branch(), tank: branch() },
+      faults: [],
+    };
+    let variant = 'healthy';
+    const sensor = SHARED_SENSORS.find((s) => cause === `${s}_sensor_loading_reference`);
+    if (sensor) {
+      const ohms = logU(random, 0.5, 40);
+      circuit.faults = [{ kind: 'sensor_short', sensor, ohms }];
+      variant = `shorted inside, ${ohms.toFixed(1)} Ω`;
+    } else if (cause === 'reference_short_ground') {
+      const where = pick(random, ['trunk', ...SHARED_SENSORS] as const) as 'trunk' | SharedSensor;
+      const ohms = logU(random, 0.05, 40);
+      circuit.faults = [{ kind: 'harness_short', where, ohms }];
+      variant = `${where === 'trunk' ? 'trunk' : `${where} branch`}, ${ohms.toFixed(1)} Ω`;
+    } else if (cause === 'module_regulator') {
+      const form = pick(random, ['dead', 'low set point', 'sags under load'] as const);
+      circuit.supply = form === 'dead' ? { ...circuit.supply, volts: u(random, 0, 0.3) } : form === 'low set point' ? { ...circuit.supply, volts: u(random, 3.5, 4.4) } : { ...circuit.supply, outOhms: u(random, 15, 60) };
+      variant = form;
+    } else if (cause !== 'no_fault_now') throw new Error(`no out-of-model fault for cause "${cause}"`);
+    const c: OomCase = { tree: 'shared-reference', cause, variant, circuit, instruments: instruments(random), noiseSeed: Math.floor(random() * 2 ** 31) };
+    if (cause === 'no_fault_now' || attempt >= 20 || showsItself(c)) return c;
+  }
 }

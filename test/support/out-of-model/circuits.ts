@@ -53,7 +53,7 @@ export interface Probe {
 
 const OPEN = 1e10;
 
-function batteryVolts(c: CircuitCase, r: MeasurementRequest): number {
+function batteryVolts(c: Pick<CircuitCase, 'battery'>, r: MeasurementRequest): number {
   if (r.key === 'off') return c.battery.keyOff;
   return r.engine === 'running' ? c.battery.running : r.engine === 'cranking' ? c.battery.cranking : c.battery.keyOn;
 }
@@ -70,21 +70,15 @@ export function pointNode(point: Point, location: MeasurementRequest['location']
  * Builds the netlist for one request. `supplyMode` lets the caller re-solve with the regulator replaced by its
  * current limit or removed (it only sources current): see `solveCase`.
  */
-export function buildNet(c: CircuitCase, r: MeasurementRequest, supplyMode: 'source' | 'limit' | 'off' = 'source', meterOhms?: number, blown: ReadonlySet<number> = new Set()): Net {
+export function buildNet(c: CircuitCase, r: MeasurementRequest, supplyMode: SupplyMode = 'source', meterOhms?: number, blown: ReadonlySet<number> = new Set()): Net {
   const n = new Net();
   const powered = r.key === 'on';
   const wires: Wire[] = c.kind === 'three_wire_5v' ? ['reference', 'signal', 'ground'] : ['signal', 'ground'];
-  n.v('batt', 'bi', GROUND, batteryVolts(c, r)).r('batt', 'bi', 'bp', c.battery.internalOhms);
-  n.r('strap', 'ch', GROUND, c.strapOhms);
+  stampBattery(n, c, r);
   // The battery-voltage circuit a short can touch, loaded to chassis so it never floats.
   if (c.feed.batteryFed || powered) n.r('feed', 'bp', 'fd', c.feed.feedOhms);
   n.r('feedload', 'fd', 'ch', c.feed.loadOhms);
-  // Module ground return, and the module's own supply current through it (key on).
-  n.r('mgnd', 'mg', 'ch', c.moduleGroundOhms);
-  if (powered) n.i('mload', 'bp', 'mg', c.moduleAmps);
-  if (powered && supplyMode === 'source') n.v('reg', 'rs', 'mg', c.supply.volts).r('rout', 'rs', 'rl', c.supply.outOhms);
-  if (powered && supplyMode === 'limit') n.i('reg', 'mg', 'rl', c.supply.limitAmps);
-  n.r('rail', 'rl', 'mg', powered ? c.railLoadOhms : c.railOffOhms);
+  stampModule(n, c, powered, supplyMode);
   // Module input: bias, ADC input resistance.
   n.r('bias', 'msi', c.bias.direction === 'pull_up' ? 'rl' : 'mg', c.bias.ohms).r('adc', 'msi', 'mg', c.adcInputOhms);
   const moduleOff = r.location === 'module_connector' && r.connector === 'unplugged';
@@ -109,6 +103,23 @@ export function buildNet(c: CircuitCase, r: MeasurementRequest, supplyMode: 'sou
   for (const [k, j] of r.jumpers.entries()) if (!blown.has(k)) stampJumper(n, c, j, k, r.location);
   if (meterOhms !== undefined && r.against) n.r('meter', pointNode(r.at, r.location), pointNode(r.against, r.location), meterOhms);
   return n;
+}
+
+type ModuleParts = Pick<CircuitCase, 'supply' | 'railLoadOhms' | 'railOffOhms' | 'moduleGroundOhms' | 'moduleAmps' | 'battery' | 'strapOhms'>;
+
+/** Battery (with internal resistance) and the chassis strap to battery negative. */
+export function stampBattery(n: Net, c: ModuleParts, r: MeasurementRequest): void {
+  n.v('batt', 'bi', GROUND, batteryVolts(c, r)).r('batt', 'bi', 'bp', c.battery.internalOhms);
+  n.r('strap', 'ch', GROUND, c.strapOhms);
+}
+
+/** Module ground return with the module's own current (key on), and the 5 V rail `rl`: regulator or bleed. */
+export function stampModule(n: Net, c: ModuleParts, powered: boolean, supplyMode: SupplyMode): void {
+  n.r('mgnd', 'mg', 'ch', c.moduleGroundOhms);
+  if (powered) n.i('mload', 'bp', 'mg', c.moduleAmps);
+  if (powered && supplyMode === 'source') n.v('reg', 'rs', 'mg', c.supply.volts).r('rout', 'rs', 'rl', c.supply.outOhms);
+  if (powered && supplyMode === 'limit') n.i('reg', 'mg', 'rl', c.supply.limitAmps);
+  n.r('rail', 'rl', 'mg', powered ? c.railLoadOhms : c.railOffOhms);
 }
 
 function stampSensor(n: Net, c: CircuitCase, wires: Wire[]): void {
@@ -144,29 +155,45 @@ function stampJumper(n: Net, c: CircuitCase, j: Jumper, k: number, location: Mea
 /** A fused jumper's fuse, A (common practice, no source: a 3 A fuse in a test jumper on 5 V sensor circuits). */
 export const JUMPER_FUSE_AMPS = 3;
 
+export type SupplyMode = 'source' | 'limit' | 'off';
+
 /**
  * Solves a request's circuit. The regulator only sources current, up to its limit: if the solved output current is
  * negative (something holds the rail above its set point) it is switched off; if above its limit it becomes the
  * limit current. A fused jumper carrying more than its fuse opens. Re-solved until consistent.
  */
 export function solveCase(c: CircuitCase, r: MeasurementRequest, meterOhms?: number): Solution {
-  let mode: 'source' | 'limit' | 'off' = 'source';
+  return settleSupply(c.supply, r.key === 'on', (mode, blown) => buildNet(c, r, mode, meterOhms, blown), (solution, blown) =>
+    r.jumpers.findIndex((j, k) => {
+      const drop = solution.volts.get(pointNode(j.from, r.location))! - solution.volts.get(pointNode(j.to, r.location))!;
+      return !blown.has(k) && j.via.kind === 'fused_jumper' && Math.abs(drop) / c.jumperOhms > JUMPER_FUSE_AMPS;
+    }),
+  );
+}
+
+/** The regulator and fuse iteration of `solveCase`, for any netlist whose rail is node `rl` over module ground `mg`. */
+export function settleSupply(
+  supply: CircuitCase['supply'],
+  keyOn: boolean,
+  build: (mode: SupplyMode, blown: ReadonlySet<number>) => Net,
+  overFuse: (solution: Solution, blown: ReadonlySet<number>) => number = () => -1,
+): Solution {
+  let mode: SupplyMode = 'source';
   const blown = new Set<number>();
   for (let pass = 0; pass < 8; pass++) {
-    const solution = buildNet(c, r, mode, meterOhms, blown).solve();
-    const v = (node: string) => solution.volts.get(node)!;
-    const over = r.jumpers.findIndex((j, k) => !blown.has(k) && j.via.kind === 'fused_jumper' && Math.abs(v(pointNode(j.from, r.location)) - v(pointNode(j.to, r.location))) / c.jumperOhms > JUMPER_FUSE_AMPS);
+    const solution = build(mode, blown).solve();
+    const over = overFuse(solution, blown);
     if (over >= 0) {
       blown.add(over);
       continue;
     }
-    if (r.key !== 'on' || mode === 'off') return solution;
+    if (!keyOn || mode === 'off') return solution;
     if (mode === 'source') {
       const out = -(solution.sourceAmps.get('reg') ?? 0);
       if (out < 0) mode = 'off';
-      else if (out > c.supply.limitAmps) mode = 'limit';
+      else if (out > supply.limitAmps) mode = 'limit';
       else return solution;
-    } else if (v('rl') - v('mg') > c.supply.volts) mode = 'off';
+    } else if (solution.volts.get('rl')! - solution.volts.get('mg')! > supply.volts) mode = 'off';
     else return solution;
   }
   throw new Error('out-of-model circuit did not settle');

@@ -12,7 +12,7 @@
  * voltage reads 5.00), referenced to the module's own ground. A module that refreshes the value only with engine
  * speed shows, key on and engine stopped, the value it last sampled with the engine running (±1 count).
  */
-import { mulberry32 } from '../../../src/engine/circuit/prng';
+import { hashString, splitmix32 } from './random';
 import type { MeasurementRequest } from '../../../src/engine/vocabulary';
 import { buildNet, pointNode, solveCase, type CircuitCase } from './circuits';
 
@@ -45,13 +45,12 @@ function resolution(value: number): number {
   return range / METER.counts;
 }
 
-function hash(s: string): number {
-  let h = 2166136261;
-  for (let i = 0; i < s.length; i++) h = Math.imul(h ^ s.charCodeAt(i), 16777619);
-  return h >>> 0;
+/** The noise source of one attempt of one request: the same (case, request, attempt) always reads the same. */
+export function readingRandom(noiseSeed: number, r: MeasurementRequest, attempt: number): () => number {
+  return splitmix32(noiseSeed ^ hashString(`${JSON.stringify(r)}#${attempt}`));
 }
 
-function display(value: number, gain: number, spec: { percent: number; counts: number }, random: () => number): number {
+export function display(value: number, gain: number, spec: { percent: number; counts: number }, random: () => number): number {
   const res = resolution(value);
   // The count error takes what the gain error leaves of the spec, so the total stays inside ±(percent + counts).
   const countsLeft = spec.counts - 0.5;
@@ -86,7 +85,7 @@ export function trueValue(c: CircuitCase, inst: Instruments, r: MeasurementReque
 
 /** What the instrument shows for attempt `attempt` of a request (a repeat reads with fresh count noise). */
 export function instrumentReading(c: CircuitCase, inst: Instruments, r: MeasurementRequest, noiseSeed: number, attempt: number, adcOverride?: number): number | 'overload' {
-  const random = mulberry32(noiseSeed ^ hash(`${JSON.stringify(r)}#${attempt}`));
+  const random = readingRandom(noiseSeed, r, attempt);
   if (r.quantity === 'scan_value') {
     const frozen = inst.scanNeedsEngineSpeed && r.engine === 'off';
     const sampled = adcOverride ?? trueValue(c, inst, frozen ? { ...r, connector: 'plugged', location: 'sensor_connector', jumpers: [], engine: 'running' } : r);
