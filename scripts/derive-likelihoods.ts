@@ -1,6 +1,6 @@
 /**
- * Recomputes the likelihood tables and predicted-reading bands of the built-in fault trees from the circuit model
- * (fixed seed and sample count) and writes them back into the JSON documents. Trees whose circuit kind the model
+ * Recomputes the predictive densities, likelihood tables and predicted-reading bands of the built-in fault trees
+ * from the circuit model (fixed seed and sample count) and writes them back into the JSON documents. Trees whose circuit kind the model
  * does not know keep their hand-given tables.
  *
  *   npx tsx scripts/derive-likelihoods.ts [--check]
@@ -31,7 +31,8 @@ for (const file of readdirSync(dir).filter((f) => f.endsWith('.json')).sort()) {
   const started = Date.now();
   const { document, findings } = deriveLikelihoods(parsed.document, BUILT_IN_DERIVATION);
   for (const f of findings.filter((x) => x.severity !== 'info')) console.warn(`${file}: ${f.code} at ${f.path}: ${f.message}`);
-  const text = `${JSON.stringify(document, null, 2)}\n`;
+  // Arrays of numbers (quantiles, class indices) on one line each keep the file readable and small.
+  const text = `${JSON.stringify(document, null, 2).replace(/\[\s*(-?[\d.e+-]+(?:,\s*-?[\d.e+-]+)*)\s*\]/g, (_m, body: string) => `[${body.split(/,\s*/).join(', ')}]`)}\n`;
   const same = canonicalJson(document) === canonicalJson(parsed.document);
   differs ||= !same;
   if (!check) writeFileSync(join(dir, file), text);

@@ -27,19 +27,44 @@ const HYPOTHESIS_FAULTS = {
   module_internal_input: [{ kind: 'module_internal', variant: 'dead_input' }],
   module_internal_regulator: [{ kind: 'module_internal', variant: 'dead_regulator' }],
   module_internal_weak_regulator: [{ kind: 'module_internal', variant: 'weak_regulator' }],
+  reference_supply_failed: [{ kind: 'module_internal', variant: 'dead_regulator' }],
 } as const satisfies Record<string, readonly FaultSpec[]>;
 
 export type HypothesisId = keyof typeof HYPOTHESIS_FAULTS;
 export const HYPOTHESIS_IDS = Object.keys(HYPOTHESIS_FAULTS) as HypothesisId[];
 
+/** Ids that stand for a circuit with no fault now (`no_fault_now`: the circuit tests good, e.g. an intermittent). */
+export const HEALTHY_IDS = ['good', 'no_fault', 'no_fault_now'] as const;
+type HealthyId = (typeof HEALTHY_IDS)[number];
+
+/**
+ * Causes that cover several faults, each with a weight: a failed 5 V supply is dead, or weak and sagging under load
+ * (output resistance from a few hundred ohms to a few kilohms; common practice, no source).
+ */
+const CAUSE_ALTERNATIVES: Record<string, Array<{ weight: number; faults: FaultSpec[] }>> = {
+  reference_supply_failed: [
+    { weight: 0.4, faults: [{ kind: 'module_internal', variant: 'dead_regulator' }] },
+    { weight: 0.2, faults: [{ kind: 'module_internal', variant: 'weak_regulator', ohms: 500 }] },
+    { weight: 0.2, faults: [{ kind: 'module_internal', variant: 'weak_regulator', ohms: 1500 }] },
+    { weight: 0.2, faults: [{ kind: 'module_internal', variant: 'weak_regulator', ohms: 4000 }] },
+  ],
+};
+
+/** The weighted fault lists a cause stands for (one list for most causes), or undefined for an unknown id. */
+export function causeAlternatives(id: string): Array<{ weight: number; faults: FaultSpec[] }> | undefined {
+  if (Object.hasOwn(CAUSE_ALTERNATIVES, id)) return structuredClone(CAUSE_ALTERNATIVES[id]!);
+  const faults = faultsFor(id);
+  return faults && [{ weight: 1, faults }];
+}
+
 /**
  * The faults to inject for a hypothesis id (a fresh copy each call), or undefined for an id the model does not
- * know. `good`/`no_fault` give the empty list.
+ * know. `good`, `no_fault` and `no_fault_now` give the empty list.
  */
-export function faultsFor(id: HypothesisId | 'good' | 'no_fault'): FaultSpec[];
+export function faultsFor(id: HypothesisId | HealthyId): FaultSpec[];
 export function faultsFor(id: string): FaultSpec[] | undefined;
 export function faultsFor(id: string): FaultSpec[] | undefined {
-  if (id === 'good' || id === 'no_fault') return [];
+  if ((HEALTHY_IDS as readonly string[]).includes(id)) return [];
   if (!Object.hasOwn(HYPOTHESIS_FAULTS, id)) return undefined;
   return structuredClone((HYPOTHESIS_FAULTS as Record<string, readonly FaultSpec[]>)[id]) as FaultSpec[];
 }

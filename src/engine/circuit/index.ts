@@ -7,7 +7,8 @@
  *   `percentiles` (plus `ok`/`unit`), deterministic per seed.
  * - `bandProbabilities(values, bands)` → share per band id plus `other`.
  * - `bandTable({ circuit, request, bands, hypotheses, samples, seed })` → the likelihood rows for a fault tree.
- * - `faultsFor(hypothesisId)` → the `FaultSpec[]` realising a hypothesis.
+ * - `faultsFor(hypothesisId)` → the `FaultSpec[]` realising a hypothesis; `causeAlternatives(id)` the weighted lists.
+ * - `adcReading(volts)` → what the module's converter reports (clamped to 0…5 V, 10-bit).
  * - `circuitNetlist(...)` + `toSpice(netlist)` → the exact netlist the solver uses, as SPICE text.
  */
 export { type Finding } from '../calc/findings';
@@ -37,7 +38,8 @@ export {
   type ReadingUnit,
 } from './types';
 export { defaultCircuit, meterWith, DEFAULT_METER, GENERIC_10K_STEINHART_HART, type DefaultCircuitOptions } from './defaults';
-export { faultsFor, HYPOTHESIS_IDS, type HypothesisId } from './hypotheses';
+export { faultsFor, causeAlternatives, HYPOTHESIS_IDS, HEALTHY_IDS, type HypothesisId } from './hypotheses';
+export { adcReading, ADC_STEP_VOLTS, MODULE_ADC } from './adc';
 export { FAULT_DEFAULT_OHMS, validateFaults } from './faults';
 export { validateCircuit, validateMeter, validateRequest, CIRCUIT_LAYOUTS } from './validate';
 export { predictReading, prepareReading, circuitNetlist, type PredictedReading, type PreparedReading } from './predict';

@@ -1,12 +1,13 @@
 /**
  * The meter as part of the circuit, one behaviour per quantity: volts puts its input resistance across the leads,
  * amps a shunt, ohms injects a test current into the unpowered circuit (R = V/I), and a scan value reads the
- * module's own converter node. Leads and jumpers land on the harness side of the connector at `location`: with it
+ * module's own converter node (clamped and quantised as its converter reads it). Leads and jumpers land on the harness side of the connector at `location`: with it
  * unplugged they touch only the harness; `plugged` and `backprobed` are electrically the same (mated connector,
  * leads on the terminals). The other connector is always mated.
  */
 import type { Location, MeasurementRequest, Point, Quantity } from '../vocabulary';
 import { finding, joinPath, type Finding } from '../calc/findings';
+import { adcReading } from './adc';
 import { ADC_NODE, BATTERY_POSITIVE_NODE, CHASSIS_NODE, MODULE_GROUND_NODE, wireNode } from './build';
 import { CompiledNetlist, GROUND_NODE, Netlist } from './netlist';
 import type { MeterAccuracy, MeterSpec, ReadingUnit, WireRole } from './types';
@@ -143,7 +144,7 @@ export const QUANTITY_BEHAVIOURS: Record<Quantity, QuantityBehaviour> = {
       return (params) => {
         if (!compiled.factor(params)) return Number.NaN;
         compiled.solveSources(x);
-        return v(x, adc) - v(x, ground);
+        return adcReading(v(x, adc) - v(x, ground));
       };
     },
   },

@@ -1,22 +1,24 @@
 /**
- * Likelihoods from the circuit model: for every test and hypothesis of a tree, sample the reading by Monte Carlo
- * (part spreads and meter error, averaged over the tree's circuit variants), count the share landing in each
- * outcome's range, and record the p5–p95 percentiles. Readings in a guard band are the indeterminate case, so
- * each row is the distribution of determinate readings. The same seed and sample count give the same table.
+ * Predictive densities from the circuit model: for every test, cause and latent class of circuit (module bias
+ * direction and resistance, sensor position or temperature), draw the reading by Monte Carlo over the part spreads
+ * and store its quantiles and overload share (a cell; identical cells are stored once). The meter's error is not
+ * drawn here: the engine adds it as a kernel when it weighs a reading. Outcome-band probabilities and p5–p95 bands
+ * are recorded beside them for people and for trees without a predictive block. The same seed gives the same file.
  */
-import { bandProbabilities, defaultCircuit, faultsFor, percentile, sampleReadings, type DefaultCircuitOptions } from '../circuit';
+import { causeAlternatives, defaultCircuit, percentile, sampleReadings, type DefaultCircuitOptions, type Spreads } from '../circuit';
 import { CIRCUIT_KINDS, type CircuitKind, type MeasurementRequest } from '../vocabulary';
 import { finding, joinPath, type Finding } from './findings';
 import { conditionInterval } from './outcome-rules';
-import type { BandsDocument, TestDocument, TreeDocument, VariantDocument } from './tree-schema';
+import { coreMass, QUANTILE_LEVELS, type Cell } from './predictive';
+import type { BandsDocument, ClassDocument, PredictiveDocument, TestDocument, TreeDocument } from './tree-schema';
 
 export interface DeriveOptions {
   seed: number;
-  /** Samples per (test, hypothesis) cell, split over the variants by weight. */
+  /** Samples per (test, cause, class) cell, split over the class's circuits and the cause's alternatives. */
   samples: number;
 }
 
-const round = (x: number, digits = 4) => Number(x.toFixed(digits));
+const round = (x: number, digits = 4) => Number(x.toFixed(digits)) || 0;
 const sig = (x: number) => (Number.isFinite(x) ? Number(x.toPrecision(4)) : ('overload' as const));
 
 /** The request the circuit model understands (the tree-only `sensor` field removed). */
@@ -25,17 +27,26 @@ function circuitRequest(request: TestDocument['request']): MeasurementRequest {
   return rest;
 }
 
-function sampleCell(kind: CircuitKind, variants: VariantDocument[], hypothesis: string, test: TestDocument, opts: DeriveOptions): { values: Float64Array } | { problem: string } {
-  const faults = faultsFor(hypothesis);
-  if (!faults) return { problem: `the circuit model has no faults for "${hypothesis}"` };
-  const total = variants.reduce((a, v) => a + v.weight, 0);
+/** The classes of a document: its own, else one class per legacy variant. */
+export function classesOf(doc: TreeDocument): ClassDocument[] {
+  if (doc.derivation?.classes?.length) return doc.derivation.classes;
+  return (doc.derivation?.variants ?? [{ id: 'default', weight: 1, circuit: {} }]).map((v) => ({ id: v.id, weight: v.weight, circuits: [v.circuit] }));
+}
+
+/** Sorted readings of one cell, or why the model cannot predict it. */
+function sampleCell(kind: CircuitKind, cls: ClassDocument, cause: string, test: TestDocument, spreads: Partial<Spreads>, opts: DeriveOptions): { values: Float64Array } | { problem: string } {
+  const alternatives = causeAlternatives(cause);
+  if (!alternatives) return { problem: `the circuit model has no faults for "${cause}"` };
+  const totalWeight = alternatives.reduce((a, x) => a + x.weight, 0);
   const parts: Float64Array[] = [];
-  for (const [i, variant] of variants.entries()) {
-    const samples = Math.max(1, Math.round((opts.samples * variant.weight) / total));
-    const circuit = defaultCircuit(kind, variant.circuit as DefaultCircuitOptions);
-    const sampled = sampleReadings({ circuit, faults: faultsFor(hypothesis)!, request: circuitRequest(test.request), samples, seed: opts.seed + i });
-    if (!sampled.ok) return { problem: sampled.findings.map((f) => f.message).join('; ') };
-    parts.push(sampled.values);
+  for (const [j, options] of cls.circuits.entries()) {
+    const circuit = defaultCircuit(kind, options as DefaultCircuitOptions);
+    for (const [k, alt] of alternatives.entries()) {
+      const samples = Math.max(1, Math.round((opts.samples * alt.weight) / totalWeight / cls.circuits.length));
+      const sampled = sampleReadings({ circuit, faults: alt.faults, request: circuitRequest(test.request), samples, seed: opts.seed + 97 * j + k, spreads: { ...spreads, meterError: false } });
+      if (!sampled.ok) return { problem: sampled.findings.map((f) => f.message).join('; ') };
+      parts.push(sampled.values);
+    }
   }
   const values = new Float64Array(parts.reduce((a, p) => a + p.length, 0));
   let at = 0;
@@ -43,9 +54,21 @@ function sampleCell(kind: CircuitKind, variants: VariantDocument[], hypothesis: 
   return { values: values.sort() };
 }
 
+function toCell(values: Float64Array): { q: number[]; overload?: number } {
+  let finite = values.length;
+  while (finite > 0 && !Number.isFinite(values[finite - 1]!)) finite--;
+  const head = values.subarray(0, finite);
+  const q = finite ? QUANTILE_LEVELS.map((l) => Number(percentile(head, l).toPrecision(4))) : [];
+  const overload = round(1 - finite / values.length);
+  return overload > 0 ? { q, overload } : { q };
+}
+
+const asCell = (c: { q: number[]; overload?: number }): Cell => ({ q: Float64Array.from(c.q), overload: c.overload ?? 0 });
+
 /**
- * Recomputes the likelihood rows and bands of a circuit-model tree. Cells the model cannot predict (an ohms reading
- * on a powered circuit, say) get a flat row: the test says nothing about that cause.
+ * Recomputes the predictive block, likelihood rows and bands of a circuit-model tree. A cell the model cannot
+ * predict (an ohms reading on a circuit a short keeps powered) is stored as -1: the broad density, the test says
+ * nothing about that cause.
  */
 export function deriveLikelihoods(doc: TreeDocument, opts: DeriveOptions): { document: TreeDocument; findings: Finding[] } {
   const findings: Finding[] = [];
@@ -53,42 +76,54 @@ export function deriveLikelihoods(doc: TreeDocument, opts: DeriveOptions): { doc
     return { document: doc, findings: [finding('derive.unknown_circuit_kind', 'circuitKind', `the circuit model has no "${doc.circuitKind}" circuit; keep hand-given likelihoods`)] };
   }
   const kind = doc.circuitKind as CircuitKind;
-  const variants = doc.derivation?.variants ?? [{ id: 'default', weight: 1, circuit: {} }];
+  const classes = classesOf(doc);
+  const spreads = (doc.derivation?.spreads ?? {}) as Partial<Spreads>;
+  const totalWeight = classes.reduce((a, c) => a + c.weight, 0);
   const tests = doc.tests.map((test, ti) => {
     const intervals = test.outcomes.map((o) => conditionInterval(o.condition));
     if (intervals.some((r) => !r)) {
       findings.push(finding('derive.outcome_not_a_range', joinPath('tests', ti, 'outcomes'), 'every outcome must be a plain range on the value to derive likelihoods'));
       return test;
     }
-    const bandsSpec = test.outcomes.map((o, oi) => ({
-      id: o.id,
-      min: Number.isFinite(intervals[oi]!.lo) ? intervals[oi]!.lo : undefined,
-      max: Number.isFinite(intervals[oi]!.hi) ? intervals[oi]!.hi : undefined,
-    }));
+    const cells: PredictiveDocument['cells'] = [];
+    const cellIds = new Map<string, number>();
+    const index: Record<string, number[]> = {};
     const likelihoods: TestDocument['likelihoods'] = {};
     const bands: Record<string, BandsDocument> = {};
     for (const h of doc.hypotheses) {
       if (h.unknown) continue;
-      const cell = sampleCell(kind, variants, h.id, test, opts);
-      if ('problem' in cell) {
-        findings.push(finding('derive.cell_flat', joinPath('tests', ti, 'likelihoods', h.id), `flat row: ${cell.problem}`, 'info'));
-        likelihoods[h.id] = Object.fromEntries(test.outcomes.map((o) => [o.id, round(1 / test.outcomes.length)]));
-        continue;
+      const row = new Float64Array(test.outcomes.length);
+      const pooled: Float64Array[] = [];
+      index[h.id] = classes.map((cls) => {
+        const sampled = sampleCell(kind, cls, h.id, test, spreads, opts);
+        if ('problem' in sampled) {
+          findings.push(finding('derive.cell_broad', joinPath('tests', ti, 'predictive', h.id), `broad density: ${sampled.problem}`, 'info'));
+          test.outcomes.forEach((_, o) => (row[o]! += cls.weight / totalWeight / test.outcomes.length));
+          return -1;
+        }
+        pooled.push(sampled.values);
+        const cell = toCell(sampled.values);
+        const key = JSON.stringify(cell);
+        if (!cellIds.has(key)) cellIds.set(key, cells.push(cell) - 1);
+        const masses = intervals.map((r) => coreMass(asCell(cell), r!.lo, r!.hi, test.request.quantity));
+        const determinate = masses.reduce((a, b) => a + b, 0);
+        masses.forEach((m, o) => (row[o]! += (cls.weight / totalWeight) * (determinate > 0 ? m / determinate : 1 / masses.length)));
+        return cellIds.get(key)!;
+      });
+      likelihoods[h.id] = Object.fromEntries(test.outcomes.map((o, oi) => [o.id, round(row[oi]!)]));
+      if (pooled.length) {
+        const all = Float64Array.from(pooled.flatMap((p) => Array.from(p))).sort();
+        const q = (p: number) => sig(percentile(all, p));
+        bands[h.id] = { p5: q(0.05), p25: q(0.25), p50: q(0.5), p75: q(0.75), p95: q(0.95) };
       }
-      const probs = bandProbabilities(cell.values, bandsSpec);
-      const determinate = 1 - probs.other!;
-      likelihoods[h.id] = Object.fromEntries(test.outcomes.map((o) => [o.id, determinate > 0 ? round(probs[o.id]! / determinate) : round(1 / test.outcomes.length)]));
-      if (determinate <= 0) findings.push(finding('derive.all_in_guard_band', joinPath('tests', ti, 'likelihoods', h.id), 'every sampled reading fell in a guard band; flat row', 'warning'));
-      const q = (p: number) => sig(percentile(cell.values, p));
-      bands[h.id] = { p5: q(0.05), p25: q(0.25), p50: q(0.5), p75: q(0.75), p95: q(0.95) };
     }
-    return { ...test, likelihoods, bands };
+    return { ...test, likelihoods, bands, predictive: { cells, index } };
   });
   return {
-    document: { ...doc, tests, derivation: { ...doc.derivation, method: 'circuit_model_monte_carlo', seed: opts.seed, samples: opts.samples, variants } },
+    document: { ...doc, tests, derivation: { ...doc.derivation, method: 'circuit_model_monte_carlo', seed: opts.seed, samples: opts.samples, classes } },
     findings,
   };
 }
 
 /** The seed and sample count the built-in trees are derived with (scripts/derive-likelihoods.ts). */
-export const BUILT_IN_DERIVATION: DeriveOptions = { seed: 20_240_611, samples: 2000 };
+export const BUILT_IN_DERIVATION: DeriveOptions = { seed: 20_261_203, samples: 360 };

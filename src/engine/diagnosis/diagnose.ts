@@ -1,14 +1,19 @@
 /**
  * The diagnosis: a pure function of (tree, readings, repairs, options). Readings are checked and matched to tests,
- * counted ones update the posterior, and the status rules pick what to do next. Nothing is stored.
+ * counted ones (grouped per test) update the joint posterior over causes and circuit classes, and the status rules
+ * pick what to do next. Nothing is stored.
  */
 import { finding, type Finding } from './findings';
-import { decidingReadings, posterior, type Evidence } from './posterior';
+import { groupEvidence, type CountedReading } from './evidence';
+import { looksFrozen, unchangedFrom } from './frozen-scan';
+import { contradictingReadings, decidingReadings, posterior } from './posterior';
 import { argmax, type PolicyModel, type PolicyState } from './policy';
 import { checkReadingShapes, checkRepairs, verdictOf, type CheckedReading, type ReadingContext } from './reading-checks';
 import { decide, type ResolvedOptions, type TestProgress } from './status-rules';
-import type { Tree } from './tree-model';
+import { undecided } from './undecided';
+import type { Test, Tree } from './tree-model';
 import type { Diagnosis, DiagnosisOptions, NextTest, PathEntry, Reading, Repair } from './index';
+import type { Posterior } from './posterior';
 
 export const DEFAULT_OPTIONS: Omit<ResolvedOptions, 'concludeAt'> = {
   wrongConclusionMinutes: 240,
@@ -42,17 +47,48 @@ export function resolve(tree: Tree, options: DiagnosisOptions): { resolved: Reso
   return { resolved, findings };
 }
 
+/**
+ * P(outcome | cause) per test for planning: the predictive densities integrated over the outcome partition, the
+ * classes weighted by their posterior given each cause (the same numbers that weigh readings). Trees without
+ * densities use their stored rows.
+ */
+export function planningLikelihoods(tree: Tree, post?: Posterior): Float64Array[] {
+  const nH = tree.hypotheses.length;
+  const nC = tree.classes.length;
+  return tree.tests.map((t) => {
+    const pred = t.predictive;
+    if (!pred) return t.like;
+    const nO = t.outcomes.length;
+    const like = new Float64Array(nH * nO);
+    for (let h = 0; h < nH; h++)
+      for (let c = 0; c < nC; c++) {
+        const w = post ? post.classGivenCause[h * nC + c]! : tree.classes[c]!.weight;
+        if (w < 1e-12) continue;
+        for (let o = 0; o < nO; o++) like[h * nO + o] = like[h * nO + o]! + w * pred.bandLike[(h * nC + c) * nO + o]!;
+      }
+    return like;
+  });
+}
+
 /** The decision model the engine plans with: test costs, set-ups, and stop(e) = 0 once a cause reaches the threshold. */
-export function policyModel(tree: Tree, options: ResolvedOptions): PolicyModel {
+export function policyModel(tree: Tree, options: ResolvedOptions, likes: Float64Array[] = planningLikelihoods(tree)): PolicyModel {
   const L = options.wrongConclusionMinutes;
   const tau = options.concludeAt;
   return {
     nH: tree.hypotheses.length,
-    tests: tree.tests.map((t) => ({ cost: t.minutes, setupMask: t.setupMask, nO: t.outcomes.length, like: t.like })),
+    tests: tree.tests.map((t, i) => ({ cost: t.minutes, setupMask: t.setupMask, nO: t.outcomes.length, like: likes[i]! })),
     setupCosts: tree.setups.map((s) => s.minutes),
     stopCost: (max) => (max >= tau ? 0 : L * (1 - max)),
     isTerminal: (max) => max >= tau,
   };
+}
+
+/** The outcome a reading's value falls in: the partition for density tests, the tree's rules otherwise. */
+function outcomesOf(test: Test, r: CheckedReading): Promise<string[]> | string[] {
+  const pred = test.predictive;
+  if (!pred) return test.classifier.classify(r.value, r.request);
+  const o = pred.partition.findIndex((b) => r.value >= b.lo && (r.value < b.hi || b.hi === Infinity));
+  return [test.outcomes[o]!.id];
 }
 
 /** See `diagnose` in index.ts. */
@@ -77,12 +113,13 @@ export async function runDiagnosis(tree: Tree, readings: readonly Reading[], rep
     verdict: 'invalid',
     note,
   }));
-  const evidence: Evidence[] = [];
+  const counted: CountedReading[] = [];
+  const keyOnScans: CheckedReading[] = [];
   const progress: TestProgress[] = tree.tests.map(() => ({ counted: 0, indeterminate: [] }));
   let paid = 0;
   // Within one call each reading's outcome rules run once (cached by reading id).
-  const classified = new Map<string, Promise<string[]>>();
-  for (const r of ctx.readings) if (r.test && !verdictOf(r, ctx)) classified.set(r.id, r.test.classifier.classify(r.value, r.request));
+  const classified = new Map<string, Promise<string[]> | string[]>();
+  for (const r of ctx.readings) if (r.test && !verdictOf(r, ctx)) classified.set(r.id, outcomesOf(r.test, r));
   const matches = new Map<string, string[]>();
   await Promise.all([...classified].map(async ([id, pending]) => matches.set(id, await pending)));
 
@@ -92,10 +129,15 @@ export async function runDiagnosis(tree: Tree, readings: readonly Reading[], rep
     if (r.test && early?.verdict !== 'not_in_tree' && early?.verdict !== 'verification') paid |= r.test.setupMask;
     if (early) {
       path.push({ ...base, verdict: early.verdict, note: early.note });
-      if (early.verdict === 'frozen_scan') progress[r.test!.index]!.frozen = r;
       continue;
     }
     const test = r.test!;
+    const same = unchangedFrom(r, keyOnScans, resolved.frozenScanTolerance);
+    if (same && looksFrozen(tree, posterior(tree, groupEvidence(counted)), r, same, resolved.frozenScanTolerance)) {
+      path.push({ ...base, verdict: 'frozen_scan', note: `scan value unchanged from reading ${same.id} although the new set-up should have moved it, engine stopped: the module may not refresh until it sees engine speed` });
+      progress[test.index]!.frozen = r;
+      continue;
+    }
     const hit = matches.get(r.id) ?? [];
     const prog = progress[test.index]!;
     if (hit.length !== 1) {
@@ -104,15 +146,18 @@ export async function runDiagnosis(tree: Tree, readings: readonly Reading[], rep
       continue;
     }
     const outcome = test.outcomes.find((o) => o.id === hit[0])!;
-    evidence.push({ readingId: r.id, test: test.index, outcome: outcome.index });
+    counted.push({ id: r.id, test, value: r.value, outcome: outcome.index });
+    if (r.request.quantity === 'scan_value' && r.request.engine === 'off') keyOnScans.push(r);
     prog.counted++;
     prog.indeterminate = [];
     prog.frozen = undefined;
-    path.push({ ...base, verdict: 'counted', outcomeId: outcome.id, outcomeLabel: outcome.label, note: `outcome: ${outcome.label}` });
+    const within = test.predictive && outcome.interval && !(r.value >= outcome.interval.lo && r.value < outcome.interval.hi) ? ' (between outcome ranges: weighed by its value all the same)' : '';
+    path.push({ ...base, verdict: 'counted', outcomeId: outcome.id, outcomeLabel: outcome.label, note: `outcome: ${outcome.label}${within}${r.conversion ? `; ${r.conversion}` : ''}` });
   }
 
+  const evidence = groupEvidence(counted);
   const post = posterior(tree, evidence);
-  const model = policyModel(tree, resolved);
+  const model = policyModel(tree, resolved, planningLikelihoods(tree, post));
   const done = new Int16Array(tree.tests.length).fill(-1);
   for (const e of evidence) done[e.test] = e.outcome;
   progress.forEach((p, i) => {
@@ -124,24 +169,26 @@ export async function runDiagnosis(tree: Tree, readings: readonly Reading[], rep
   const state: PolicyState = { p: post.p, done, paid };
   const replacements = new Set(ctx.readings.flatMap((r) => (r.supersededBy && ctx.byId.has(r.supersededBy) ? [r.supersededBy] : [])));
   const readingIndex = new Map(ctx.readings.map((r) => [r.id, r.inputIndex]));
-  const decision = decide({ tree, options: resolved, evidence, posterior: post, progress, replacements, readingIndex, model, state });
+  const leader = argmax(post.p);
+  const against = contradictingReadings(tree, evidence, post, leader);
+  const decision = decide({ tree, options: resolved, evidence, posterior: post, progress, replacements, readingIndex, model, state, leaderContradictedBy: against });
 
   const ranked = tree.hypotheses
     .map((h) => ({ id: h.id, label: h.label, part: h.part, probability: post.p[h.index]! }))
     .sort((a, b) => b.probability - a.probability);
-  const leader = argmax(post.p);
-  const concludedNow = decision.status === 'concluded' || decision.status === 'exhausted';
-  const conclusion = concludedNow
-    ? {
-        hypothesisId: tree.hypotheses[leader]!.id,
-        label: tree.hypotheses[leader]!.label,
-        probability: post.p[leader]!,
-        repair: { part: tree.hypotheses[leader]!.part, action: tree.hypotheses[leader]!.repairAction },
-        decidedBy: decidingReadings(tree, evidence, Float64Array.from(tree.hypotheses, (h) => h.prior), leader),
-        reachedThreshold: post.p[leader]! >= resolved.concludeAt,
-      }
-    : null;
-  const nextTest: NextTest | null = decision.choice ? nextTestOf(tree, decision.choice, paid, ranked, resolved.leadingCauses) : null;
+  const conclusion =
+    decision.status === 'concluded'
+      ? {
+          hypothesisId: tree.hypotheses[leader]!.id,
+          label: tree.hypotheses[leader]!.label,
+          probability: post.p[leader]!,
+          repair: { part: tree.hypotheses[leader]!.part, action: tree.hypotheses[leader]!.repairAction },
+          decidedBy: decidingReadings(tree, evidence, post, leader),
+          confirmedBy: decidingReadings(tree, evidence, post, leader, 3),
+          reachedThreshold: true,
+        }
+      : null;
+  const nextTest: NextTest | null = decision.choice ? nextTestOf(tree, decision.choice, paid, ranked, resolved.leadingCauses, model) : null;
   return {
     treeId: tree.id,
     treeVersion: tree.version,
@@ -150,11 +197,17 @@ export async function runDiagnosis(tree: Tree, readings: readonly Reading[], rep
     nextTest,
     path,
     conclusion,
+    undecided: decision.status === 'exhausted' ? undecided(tree, ranked) : null,
     logZ: post.logZ,
     logEvidenceVsChance: post.logEvidenceVsChance,
     findings: [...findings, ...decision.findings],
   };
 }
+
+const EXTRA_STEPS: Partial<Record<NextTest['reason'], string>> = {
+  crank_and_reread: 'Crank the engine (or let it idle) and read the scan value again while it turns.',
+  wiggle_test: 'Wiggle test: repeat this reading while flexing the harness along its run and at both connectors; note any jump in the value.',
+};
 
 function nextTestOf(
   tree: Tree,
@@ -162,19 +215,21 @@ function nextTestOf(
   paid: number,
   ranked: Diagnosis['ranked'],
   leading: number,
+  model: PolicyModel,
 ): NextTest {
   const test = choice.test;
   const setupsToDo = test.setups.filter((s) => !((paid >> s.index) & 1));
   const setupMinutes = setupsToDo.reduce((a, s) => a + s.minutes, 0);
-  const crank = choice.reason === 'crank_and_reread';
+  const extra = EXTRA_STEPS[choice.reason];
+  const like = model.tests[test.index]!.like;
   return {
     id: test.id,
     label: test.label,
     reason: choice.reason,
     recheckOf: choice.recheckOf,
-    procedure: crank ? [...test.procedure, 'Crank the engine (or let it idle) and read the scan value again while it turns.'] : test.procedure,
+    procedure: extra ? [...test.procedure, extra] : test.procedure,
     preconditions: test.preconditions,
-    cautions: crank ? test.crankCautions : test.cautions,
+    cautions: choice.reason === 'crank_and_reread' ? test.crankCautions : test.cautions,
     setups: setupsToDo.map((s) => ({ id: s.id, label: s.label, minutes: s.minutes, steps: s.steps })),
     minutes: test.minutes,
     setupMinutes,
@@ -187,7 +242,7 @@ function nextTestOf(
       .map((h) => {
         const hyp = tree.hypotheses.find((x) => x.id === h.id)!;
         const nO = test.outcomes.length;
-        const row = test.outcomes.map((o) => test.like[hyp.index * nO + o.index]!);
+        const row = test.outcomes.map((o) => like[hyp.index * nO + o.index]!);
         return { hypothesisId: h.id, label: h.label, probability: h.probability, band: test.bands.get(h.id) ?? null, likelyOutcome: test.outcomes[argmax(row)]!.id };
       }),
     expectedMinutesToFinish: choice.expectedMinutes ?? null,

@@ -3,7 +3,8 @@
  * one a baseline policy picks), repeat. Used by the end-to-end tests and the benchmark.
  */
 import { diagnose, type Diagnosis, type DiagnosisOptions, type Reading } from './index';
-import { policyModel, resolve } from './diagnose';
+import { planningLikelihoods, policyModel, resolve } from './diagnose';
+import { groupEvidence } from './evidence';
 import { posterior } from './posterior';
 import { exactQ, newExactMemo, type ExactMemo, type PolicyState } from './policy';
 import { arbitraryReading, simulateReading, type SimulatedCase } from './simulate';
@@ -44,18 +45,21 @@ export const checklistChooser: TestChooser = (tree, d) => {
 /** The exact optimal policy (V by dynamic programming), with a memo shared across cases of one tree. */
 export function exactChooser(options: DiagnosisOptions = {}, memo: ExactMemo = newExactMemo()): TestChooser {
   return (tree, d) => {
-    const model = policyModel(tree, resolve(tree, options).resolved);
     const done = new Int16Array(tree.tests.length).fill(-1);
-    const evidence = d.path.flatMap((e) => {
-      if (e.verdict !== 'counted') return [];
-      const test = tree.tests.find((t) => t.id === e.testId)!;
-      return [{ readingId: e.readingId, test: test.index, outcome: test.outcomes.findIndex((o) => o.id === e.outcomeId) }];
-    });
+    const evidence = groupEvidence(
+      d.path.flatMap((e) => {
+        if (e.verdict !== 'counted') return [];
+        const test = tree.tests.find((t) => t.id === e.testId)!;
+        return [{ id: e.readingId, test, value: e.value === 'overload' ? Infinity : (e.value as number), outcome: test.outcomes.findIndex((o) => o.id === e.outcomeId) }];
+      }),
+    );
+    const post = posterior(tree, evidence);
+    const model = policyModel(tree, resolve(tree, options).resolved, planningLikelihoods(tree, post));
     for (const e of evidence) done[e.test] = e.outcome;
     const settled = settledTests(tree, d);
     tree.tests.forEach((t) => done[t.index] === -1 && settled.has(t.id) && (done[t.index] = -2));
     const paid = tree.tests.filter((t) => d.path.some((e) => e.testId === t.id)).reduce((m, t) => m | t.setupMask, 0);
-    const state: PolicyState = { p: posterior(tree, evidence).p, done, paid };
+    const state: PolicyState = { p: post.p, done, paid };
     let best: { t: number; q: number } | undefined;
     for (let t = 0; t < done.length; t++) {
       if (done[t] !== -1) continue;

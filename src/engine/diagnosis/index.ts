@@ -6,7 +6,8 @@
  *   content hash, or coded findings `{ code, path, message, severity }`.
  * - `builtInTrees()` the trees shipped in `src/engine/trees/`, keyed by tree id.
  * - `diagnose(tree, readings, repairs?, options?)` → ranked causes, the next test (with the exact `request` a
- *   client posts back with the value), the path so far, the conclusion and a status. Pure and deterministic.
+ *   client posts back with the value), the path so far, the conclusion (only when proven) or what is undecided,
+ *   and a status. Pure and deterministic. How readings are weighed: posterior.ts, predictive.ts, evidence.ts.
  * - Published methods for checks and reuse: ECR ordering and ECO (Heckerman, Breese & Rommelse 1995), expected
  *   entropy (de Kleer & Williams 1987), stop / Q1 / Q2 / exact V.
  */
@@ -19,6 +20,7 @@ import type { DiagnosisStatus, NextTestReason } from './status-rules';
 import type { Caution, Tree } from './tree-model';
 import type { BandsDocument, TreeDocument } from './tree-schema';
 import type { Verdict } from './reading-checks';
+import type { Undecided } from './undecided';
 import threeWire from '../trees/three-wire-5v.json';
 import twoWire from '../trees/two-wire-thermistor.json';
 import sharedReference from '../trees/shared-reference.json';
@@ -30,6 +32,7 @@ export type { TreeRequest } from './request-key';
 export type { DiagnosisStatus, NextTestReason } from './status-rules';
 export type { Verdict } from './reading-checks';
 export type { LoadResult } from './load-tree';
+export type { Undecided } from './undecided';
 export { TREE_FORMAT } from './tree-schema';
 export { requestKey } from './request-key';
 export { healthyOutcome, type HealthyOutcome } from './healthy-outcome';
@@ -56,6 +59,11 @@ export interface Reading {
   request: TreeRequest;
   /** SI units (volts, ohms, amps); scan values as shown. An open ohms reading is `"overload"`. */
   value: number | 'overload';
+  /**
+   * The unit of a scan value (V when absent). Another unit is converted to the test's where a published conversion
+   * exists (% of the converter's full scale; °C on a thermistor circuit), else the reading is refused.
+   */
+  unit?: string;
   /** ISO 8601. */
   takenAt: string;
   phase: Phase;
@@ -85,7 +93,7 @@ export interface DiagnosisOptions {
   exactStateBudget?: number;
   /** log P(e | modelled cause) − log P(e | chance) below this is a contradiction (default −4). */
   contradictionThreshold?: number;
-  /** Two key-on scan values this close count as "unchanged" (default 0: exactly equal). */
+  /** Added to the converter's own tolerance when two key-on scan values are compared as "unchanged" (default 0). */
   frozenScanTolerance?: number;
   /** Indeterminate readings of one test before it is set aside (default 2). */
   maxAttempts?: number;
@@ -138,7 +146,9 @@ export interface Conclusion {
   repair: { part: string; action: string };
   /** Counted readings that favoured this cause over the others, strongest first. */
   decidedBy: string[];
-  /** False when concluded because no remaining test could change the leading cause. */
+  /** Readings that confirm this cause directly (Bayes factor above 3 against the rest), strongest first. */
+  confirmedBy?: string[];
+  /** Always true: a conclusion is given only when a cause is proven (kept for clients that read it). */
   reachedThreshold: boolean;
 }
 
@@ -149,7 +159,10 @@ export interface Diagnosis {
   ranked: Array<{ id: string; label: string; part: string; probability: number }>;
   nextTest: NextTest | null;
   path: PathEntry[];
+  /** Set only with `status === 'concluded'`: the cause reached the threshold and no counted reading contradicts it. */
   conclusion: Conclusion | null;
+  /** Set when no test is left and nothing is proven: the leading causes and how to separate them; no repair. */
+  undecided: Undecided | null;
   logZ: number;
   logEvidenceVsChance: number;
   findings: Finding[];

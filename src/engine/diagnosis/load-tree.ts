@@ -9,10 +9,14 @@ import { compileOutcomes, conditionInterval } from './outcome-rules';
 import { canonicalJson, requestKey, withConditions } from './request-key';
 import { TREE_CHECKS } from './tree-checks';
 import { parseTreeDocument, type TestDocument, type TreeDocument } from './tree-schema';
-import type { Caution, Hypothesis, Setup, Test, Tree } from './tree-model';
+import type { Caution, Hypothesis, LatentClass, Setup, Test, Tree } from './tree-model';
+import { compilePredictive } from './compile-predictive';
+import { classesOf } from './derive-likelihoods';
 
 export const DEFAULT_LIKELIHOOD_FLOOR = 0.02;
 export const DEFAULT_CONCLUDE_AT = 0.95;
+/** The cause that stands for "the circuit tests good now" (its readings are the healthy circuit's). */
+export const HEALTHY_CAUSE = 'no_fault_now';
 
 export type LoadResult = { ok: true; tree: Tree; findings: Finding[] } | { ok: false; findings: Finding[] };
 
@@ -36,7 +40,7 @@ function addRequiredCautions(doc: TreeDocument, findings: Finding[]): TreeDocume
 
 const toCautions = (ids: string[]): Caution[] => ids.map((id) => ({ id, text: cautionKind(id)!.text }));
 
-function compileTest(t: TestDocument, index: number, doc: TreeDocument, setups: Setup[], floor: number): Test {
+function compileTest(t: TestDocument, index: number, doc: TreeDocument, setups: Setup[], floor: number, nClasses: number): Test {
   const nO = t.outcomes.length;
   const nH = doc.hypotheses.length;
   const like = new Float64Array(nH * nO);
@@ -46,6 +50,8 @@ function compileTest(t: TestDocument, index: number, doc: TreeDocument, setups: 
     row.forEach((p, o) => (like[hi * nO + o] = p));
   });
   const mine = setups.filter((s) => t.setups.includes(s.id));
+  const intervals = t.outcomes.map((o) => conditionInterval(o.condition));
+  const predictive = t.predictive && intervals.every((r) => r) ? compilePredictive(t.predictive, t, doc, nClasses, intervals.map((r) => r!)) : undefined;
   const crankable = t.request.quantity === 'scan_value' && t.request.key === 'on' && t.request.engine === 'off';
   const crankRequest = crankable ? withConditions(t.request, { engine: 'cranking' }) : undefined;
   return {
@@ -62,11 +68,13 @@ function compileTest(t: TestDocument, index: number, doc: TreeDocument, setups: 
     crankCautions: crankRequest ? toCautions([...new Set([...t.cautions, ...requiredCautions(crankRequest)])]) : [],
     minutes: t.minutes,
     parts: t.parts,
-    outcomes: t.outcomes.map((o, oi) => ({ index: oi, id: o.id, label: o.label, condition: o.condition, interval: conditionInterval(o.condition) })),
+    outcomes: t.outcomes.map((o, oi) => ({ index: oi, id: o.id, label: o.label, condition: o.condition, interval: intervals[oi] })),
     like,
     logLike: like.map(Math.log),
     bands: new Map(Object.entries(t.bands ?? {})),
     classifier: compileOutcomes(t.outcomes),
+    predictive,
+    unit: t.unit ?? (t.request.quantity === 'scan_value' ? 'V' : undefined),
   };
 }
 
@@ -93,7 +101,11 @@ export function loadTree(json: unknown): LoadResult {
     unknown: h.unknown === true,
   }));
   const setups: Setup[] = doc.setups.map((s, index) => ({ index, ...s }));
-  const tests = doc.tests.map((t, i) => compileTest(t, i, doc, setups, floor));
+  const predictiveTree = doc.tests.some((t) => t.predictive);
+  const classDocs = predictiveTree ? classesOf(doc) : [{ id: 'any', weight: 1 }];
+  const classWeight = classDocs.reduce((a, c) => a + c.weight, 0);
+  const classes: LatentClass[] = classDocs.map((c, index) => ({ index, id: c.id, weight: c.weight / classWeight }));
+  const tests = doc.tests.map((t, i) => compileTest(t, i, doc, setups, floor, classes.length));
   const testByRequest = new Map<string, Test>(tests.map((t) => [requestKey(t.request), t]));
   for (const t of tests) {
     if (!t.crankRequest) continue;
@@ -112,7 +124,10 @@ export function loadTree(json: unknown): LoadResult {
     likelihoodFloor: floor,
     hypotheses,
     unknownIndex: hypotheses.findIndex((h) => h.unknown),
+    healthyIndex: hypotheses.findIndex((h) => h.id === HEALTHY_CAUSE),
     logPrior: Float64Array.from(hypotheses, (h) => Math.log(h.prior)),
+    classes,
+    logClassPrior: Float64Array.from(classes, (c) => Math.log(c.weight)),
     setups,
     tests,
     testByRequest,

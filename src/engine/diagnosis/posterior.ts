@@ -1,82 +1,167 @@
 /**
- * Bayes in log space: log P(h | e) = log P(h) + Σ_j log L_tj[h][o_j] − log Z. Keeps log Z, and compares the
- * evidence under the modelled causes with chance (every outcome equally likely): far below chance means a
- * mis-probe or a wrong connector state rather than a cause.
+ * Bayes over causes and latent circuit classes jointly, in log space:
+ *
+ *   log w(h, c) = log P(h) + log P(c) + Σ_groups Σ_clusters log P(y | h, c),   P(h | e) = Σ_c w(h, c) / Z
+ *
+ * The class (module bias, sensor position, temperature) is one property of the circuit, so every reading of a
+ * circuit is weighed under the same class (Gelman et al., *Bayesian Data Analysis*, 3rd ed., ch. 5), never averaged
+ * per test. Keeps log Z and compares the evidence under the modelled causes with the leak ("unknown"): far below
+ * it means a mis-probe or a wrong connector state rather than a cause.
  */
-import type { Tree } from './tree-model';
+import { broadDensity, instrumentBound } from './meter-error';
+import { coreDensity, OUTLIER_WEIGHT, readingLikelihood } from './predictive';
+import type { Cluster, Evidence } from './evidence';
+import type { Test, Tree } from './tree-model';
 
-export interface Evidence {
-  readingId: string;
-  test: number;
-  outcome: number;
-}
+export type { Evidence } from './evidence';
 
 export interface Posterior {
   p: Float64Array;
+  /** P(class | cause, e) at h * nClasses + c. */
+  classGivenCause: Float64Array;
   logWeights: Float64Array;
   /** log P(e) under the tree, "unknown" included. */
   logZ: number;
-  /** log P(e | a modelled cause) − log P(e | every outcome equally likely). */
+  /** log P(e | a modelled cause) − log P(e | the leak: anything the instruments can show). */
   logEvidenceVsChance: number;
 }
 
-function logSumExp(values: ArrayLike<number>, skip = -1): number {
+export function logSumExp(values: ArrayLike<number>, skip = -1, from = 0, to = values.length): number {
   let max = -Infinity;
-  for (let i = 0; i < values.length; i++) if (i !== skip && values[i]! > max) max = values[i]!;
+  for (let i = from; i < to; i++) if (i !== skip && values[i]! > max) max = values[i]!;
   if (max === -Infinity) return -Infinity;
   let s = 0;
-  for (let i = 0; i < values.length; i++) if (i !== skip) s += Math.exp(values[i]! - max);
+  for (let i = from; i < to; i++) if (i !== skip) s += Math.exp(values[i]! - max);
   return max + Math.log(s);
+}
+
+/**
+ * Likelihood of one cluster under every (h, c), written into `out` (length nH · nC). A "no fault now" cause on a
+ * test whose readings flip is an intermittent: half the healthy circuit, half anything (the notes' mixture
+ * q·P(y | fault) + (1 − q)·P(y | healthy), with the fault's reading unknown).
+ */
+export function clusterLikelihoods(tree: Tree, test: Test, cluster: Cluster, intermittent: boolean, out: Float64Array): void {
+  const nH = tree.hypotheses.length;
+  const nC = tree.classes.length;
+  const pred = test.predictive;
+  if (!pred) {
+    const nO = test.outcomes.length;
+    for (let h = 0; h < nH; h++) {
+      const l = h === tree.healthyIndex && intermittent ? 0.5 * test.like[h * nO + cluster.y]! + 0.5 / nO : test.like[h * nO + cluster.y]!;
+      for (let c = 0; c < nC; c++) out[h * nC + c] = l;
+    }
+    return;
+  }
+  const q = test.request.quantity;
+  const cache = new Map<number, number>();
+  const broad = broadDensity(q, cluster.y);
+  for (let k = 0; k < nH * nC; k++) {
+    const cell = pred.cellOf[k]!;
+    let l = cache.get(cell);
+    if (l === undefined) cache.set(cell, (l = readingLikelihood(cell < 0 ? undefined : pred.cells[cell], q, cluster.y, cluster.n)));
+    out[k] = intermittent && Math.floor(k / nC) === tree.healthyIndex ? 0.5 * l + 0.5 * broad : l;
+  }
 }
 
 export function posterior(tree: Tree, evidence: readonly Evidence[]): Posterior {
   const nH = tree.hypotheses.length;
-  const w = tree.logPrior.slice();
-  let logChance = 0;
+  const nC = tree.classes.length;
+  const w = new Float64Array(nH * nC);
+  for (let h = 0; h < nH; h++) for (let c = 0; c < nC; c++) w[h * nC + c] = tree.logPrior[h]! + tree.logClassPrior[c]!;
+  const like = new Float64Array(nH * nC);
+  let logLeak = 0;
+  const leak = tree.unknownIndex * nC;
   for (const e of evidence) {
     const test = tree.tests[e.test]!;
-    const nO = test.outcomes.length;
-    for (let h = 0; h < nH; h++) w[h] = w[h]! + test.logLike[h * nO + e.outcome]!;
-    logChance -= Math.log(nO);
+    for (const cluster of e.clusters) {
+      clusterLikelihoods(tree, test, cluster, e.intermittent, like);
+      for (let k = 0; k < w.length; k++) w[k] = w[k]! + Math.log(like[k]!);
+      logLeak += Math.log(like[leak]!);
+    }
   }
   const logZ = logSumExp(w);
-  const p = w.map((x) => Math.exp(x - logZ));
+  const p = new Float64Array(nH);
+  const classGivenCause = new Float64Array(nH * nC);
+  const perCause = new Float64Array(nH);
+  for (let h = 0; h < nH; h++) {
+    const lh = logSumExp(w, -1, h * nC, (h + 1) * nC);
+    perCause[h] = lh;
+    p[h] = Math.exp(lh - logZ);
+    for (let c = 0; c < nC; c++) classGivenCause[h * nC + c] = Math.exp(w[h * nC + c]! - lh);
+  }
   const modelledPrior = Math.log(1 - tree.hypotheses[tree.unknownIndex]!.prior);
-  const logEvidenceVsChance = logSumExp(w, tree.unknownIndex) - modelledPrior - logChance;
-  return { p, logWeights: w, logZ, logEvidenceVsChance };
+  const logEvidenceVsChance = logSumExp(perCause, tree.unknownIndex) - modelledPrior - logLeak;
+  return { p, classGivenCause, logWeights: w, logZ, logEvidenceVsChance };
 }
 
 /**
- * The reading most likely to be wrong: the one whose removal raises the evidence for the modelled causes the most.
+ * The group most likely to hold a wrong reading: the one whose removal raises the evidence for the modelled causes
+ * the most. Returns its latest reading.
  */
-export function mostDoubtfulReading(tree: Tree, evidence: readonly Evidence[]): { readingId: string; gain: number } | undefined {
+export function mostDoubtfulReading(tree: Tree, evidence: readonly Evidence[]): { readingId: string; gain: number; test: number } | undefined {
   if (evidence.length < 2) return undefined;
   const full = posterior(tree, evidence).logEvidenceVsChance;
-  let best: { readingId: string; gain: number } | undefined;
+  let best: { readingId: string; gain: number; test: number } | undefined;
   evidence.forEach((e, i) => {
     const gain = posterior(tree, evidence.filter((_, j) => j !== i)).logEvidenceVsChance - full;
-    if (!best || gain > best.gain) best = { readingId: e.readingId, gain };
+    if (!best || gain > best.gain) best = { readingId: e.readingIds.at(-1)!, gain, test: e.test };
   });
   return best;
 }
 
-/**
- * The readings that decided a conclusion: those whose outcome favoured the winner over the other causes (Bayes
- * factor against the posterior-weighted rest above 1.5), strongest first.
- */
-export function decidingReadings(tree: Tree, evidence: readonly Evidence[], p: Float64Array, winner: number): string[] {
-  const scored = evidence.map((e) => {
-    const test = tree.tests[e.test]!;
-    const nO = test.outcomes.length;
-    let rest = 0;
-    let restMass = 0;
-    for (let h = 0; h < p.length; h++) {
-      if (h === winner) continue;
-      rest += p[h]! * test.like[h * nO + e.outcome]!;
-      restMass += p[h]!;
-    }
-    const factor = test.like[winner * nO + e.outcome]! / (restMass > 0 ? rest / restMass : 1);
-    return { id: e.readingId, factor };
-  });
-  return scored.filter((s) => s.factor > 1.5).sort((a, b) => b.factor - a.factor).map((s) => s.id);
+/** Likelihood of a cluster under cause h, its classes weighted by their posterior given h; core = without the tail. */
+function causeLikelihood(tree: Tree, post: Posterior, test: Test, cluster: Cluster, h: number, core: boolean): number {
+  const nC = tree.classes.length;
+  const pred = test.predictive;
+  if (!pred) return test.like[h * test.outcomes.length + cluster.y]!;
+  const q = test.request.quantity;
+  const sigma = instrumentBound(q, cluster.y) / Math.sqrt(cluster.n);
+  let sum = 0;
+  for (let c = 0; c < nC; c++) {
+    const cell = pred.cellOf[h * nC + c]!;
+    const wc = post.classGivenCause[h * nC + c]!;
+    if (wc < 1e-9) continue;
+    sum += wc * (core ? (cell < 0 ? broadDensity(q, cluster.y) : coreDensity(pred.cells[cell]!, cluster.y, sigma)) : readingLikelihood(cell < 0 ? undefined : pred.cells[cell], q, cluster.y, cluster.n));
+  }
+  return sum;
 }
+
+/**
+ * Readings a cause cannot explain: better explained by the heavy tail than by its prediction (its likeliest
+ * classes weighted). A "no fault now" cause is not contradicted by readings that flip (that is its intermittent).
+ */
+export function contradictingReadings(tree: Tree, evidence: readonly Evidence[], post: Posterior, h: number): string[] {
+  return evidence.flatMap((e) => {
+    const test = tree.tests[e.test]!;
+    if (h === tree.healthyIndex && e.intermittent) return [];
+    return e.clusters.flatMap((cl) => {
+      if (!test.predictive) return test.like[h * test.outcomes.length + cl.y]! < 0.05 ? cl.readingIds : [];
+      const q = test.request.quantity;
+      const core = causeLikelihood(tree, post, test, cl, h, true);
+      return (1 - OUTLIER_WEIGHT) * core < OUTLIER_WEIGHT * broadDensity(q, cl.y) ? cl.readingIds : [];
+    });
+  });
+}
+
+/**
+ * Readings that favoured the winner over the other causes (Bayes factor against the posterior-weighted rest above
+ * `factor`), strongest first.
+ */
+export function decidingReadings(tree: Tree, evidence: readonly Evidence[], post: Posterior, winner: number, factor = 1.5): string[] {
+  const scored = evidence.flatMap((e) => {
+    const test = tree.tests[e.test]!;
+    return e.clusters.map((cl) => {
+      let rest = 0;
+      let restMass = 0;
+      for (let h = 0; h < post.p.length; h++) {
+        if (h === winner) continue;
+        rest += post.p[h]! * causeLikelihood(tree, post, test, cl, h, false);
+        restMass += post.p[h]!;
+      }
+      const f = causeLikelihood(tree, post, test, cl, winner, false) / (restMass > 0 ? rest / restMass : 1);
+      return { ids: cl.readingIds, f };
+    });
+  });
+  return scored.filter((s) => s.f > factor).sort((a, b) => b.f - a.f).flatMap((s) => s.ids);
+}
+

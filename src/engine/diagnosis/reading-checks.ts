@@ -4,7 +4,8 @@
  */
 import { finding, joinPath, type Finding } from './findings';
 import { parseRequest } from './tree-schema';
-import { requestKey, signalSetupKey, type TreeRequest } from './request-key';
+import { requestKey, type TreeRequest } from './request-key';
+import { scanToTestUnit } from './scan-units';
 import type { Test, Tree } from './tree-model';
 import type { DiagnosisOptions, Reading, Repair } from './index';
 
@@ -30,6 +31,8 @@ export interface CheckedReading {
   phase: 'diagnosis' | 'verification';
   supersededBy?: string;
   test?: Test;
+  /** How a scan value in another unit was converted to the test's unit. */
+  conversion?: string;
 }
 
 export interface ReadingContext {
@@ -44,23 +47,6 @@ interface ReadingCheck {
   verdict: Verdict;
   /** A plain-words note when the check applies to this reading, else undefined. */
   check(reading: CheckedReading, ctx: ReadingContext): string | undefined;
-}
-
-const isKeyOnScan = (r: CheckedReading) => r.request.quantity === 'scan_value' && r.request.key === 'on' && r.request.engine === 'off';
-
-/** An earlier key-on, engine-stopped scan reading of the same parameter, same value, but a different signal set-up. */
-function frozenAgainst(reading: CheckedReading, ctx: ReadingContext): CheckedReading | undefined {
-  if (!isKeyOnScan(reading)) return undefined;
-  const setup = signalSetupKey(reading.request);
-  return ctx.readings.find(
-    (q) =>
-      q.index < reading.index &&
-      isKeyOnScan(q) &&
-      !(q.supersededBy && ctx.byId.has(q.supersededBy)) &&
-      q.request.pid === reading.request.pid &&
-      signalSetupKey(q.request) !== setup &&
-      Math.abs(q.value - reading.value) <= ctx.options.frozenScanTolerance,
-  );
 }
 
 export const READING_CHECKS: readonly ReadingCheck[] = [
@@ -81,15 +67,6 @@ export const READING_CHECKS: readonly ReadingCheck[] = [
     check: (r, ctx) => {
       const repair = ctx.repairs.find((rep) => rep.atMs > r.takenAtMs && (r.test!.parts === undefined || r.test!.parts.includes(rep.part)));
       return repair ? `taken before repair ${repair.id} of the ${repair.part}: no longer describes the circuit` : undefined;
-    },
-  },
-  {
-    verdict: 'frozen_scan',
-    check: (r, ctx) => {
-      const earlier = frozenAgainst(r, ctx);
-      return earlier
-        ? `scan value unchanged from reading ${earlier.id} although the signal set-up changed, engine stopped: the module may not refresh until it sees engine speed`
-        : undefined;
     },
   },
 ];
@@ -114,6 +91,15 @@ export function checkReadingShapes(tree: Tree, readings: readonly Reading[]): { 
     if (typeof reading?.takenAt !== 'string' || Number.isNaN(takenAtMs)) problems.push(finding('reading.taken_at_invalid', joinPath(path, 'takenAt'), 'expected an ISO 8601 date-time'));
     if (reading?.phase !== 'diagnosis' && reading?.phase !== 'verification') problems.push(finding('reading.phase_invalid', joinPath(path, 'phase'), 'expected "diagnosis" or "verification"'));
     if (reading?.supersededBy !== undefined && typeof reading.supersededBy !== 'string') problems.push(finding('reading.superseded_by_invalid', joinPath(path, 'supersededBy'), 'expected a reading id'));
+    if (reading?.unit !== undefined && typeof reading.unit !== 'string') problems.push(finding('reading.unit_invalid', joinPath(path, 'unit'), 'expected the unit the value is in, e.g. "V"'));
+    const test = request ? tree.testByRequest.get(requestKey(request)) : undefined;
+    let converted = value as number;
+    let conversion: string | undefined;
+    if (!problems.length && test && request!.quantity === 'scan_value') {
+      const c = scanToTestUnit(tree, test, converted, reading.unit);
+      if (c.ok) [converted, conversion] = [c.value, c.note];
+      else problems.push(finding('reading.scan_unit_unexpected', joinPath(path, 'unit'), c.message));
+    }
     if (typeof reading?.id === 'string') seen.add(reading.id);
     if (problems.length) {
       findings.push(...problems);
@@ -125,11 +111,12 @@ export function checkReadingShapes(tree: Tree, readings: readonly Reading[]): { 
       inputIndex: i,
       id: reading.id,
       request: request!,
-      value: value as number,
+      value: converted,
       takenAtMs,
       phase: reading.phase,
       supersededBy: reading.supersededBy,
-      test: tree.testByRequest.get(requestKey(request!)),
+      test,
+      conversion,
     });
   });
   checked.sort((a, b) => a.takenAtMs - b.takenAtMs || a.index - b.index);

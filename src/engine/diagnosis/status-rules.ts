@@ -23,7 +23,10 @@ import type { TreeRequest } from './request-key';
 import type { Test, Tree } from './tree-model';
 
 export type DiagnosisStatus = 'testing' | 'concluded' | 'recheck' | 'crank_and_reread' | 'exhausted';
-export type NextTestReason = 'lowest_expected_cost' | 'recheck_indeterminate' | 'recheck_contradiction' | 'crank_and_reread';
+export type NextTestReason = 'lowest_expected_cost' | 'recheck_indeterminate' | 'recheck_contradiction' | 'crank_and_reread' | 'wiggle_test';
+
+/** Readings of a test that flipped are followed by a wiggle test until the test has this many readings. */
+const WIGGLE_READINGS = 5;
 
 export interface TestProgress {
   counted: number;
@@ -57,6 +60,8 @@ export interface RuleContext {
   readingIndex: Map<string, number>;
   model: PolicyModel;
   state: PolicyState;
+  /** Counted readings the leading cause cannot explain (beyond its predicted spread). */
+  leaderContradictedBy: string[];
 }
 
 export interface Choice {
@@ -136,13 +141,29 @@ export const STATUS_RULES: readonly StatusRule[] = [
     },
   },
   {
+    name: 'intermittent',
+    decide: (ctx) => {
+      const flips = ctx.evidence.filter((e) => e.intermittent);
+      if (!flips.length) return undefined;
+      const notes = flips.map((e) => {
+        const test = ctx.tree.tests[e.test]!;
+        const values = e.clusters.map((c) => (Number.isFinite(c.y) && test.predictive ? c.y.toPrecision(3) : test.predictive ? 'overload' : test.outcomes[c.y]!.label)).join(' / ');
+        return finding('diagnosis.intermittent', `tests[${e.test}]`, `"${test.label}" read ${values} under the same conditions: more than the instrument's error, so the circuit changed between readings (an intermittent)`, 'warning');
+      });
+      const open = flips.find((e) => e.readingIds.length < WIGGLE_READINGS);
+      if (!open) return notes;
+      const test = ctx.tree.tests[open.test]!;
+      return { status: 'testing', choice: { test, reason: 'wiggle_test', request: test.request }, findings: notes };
+    },
+  },
+  {
     name: 'contradiction',
     decide: (ctx) => {
       if (ctx.posterior.logEvidenceVsChance >= ctx.options.contradictionThreshold) return undefined;
       const doubtful = mostDoubtfulReading(ctx.tree, ctx.evidence);
-      const ev = doubtful && ctx.evidence.find((e) => e.readingId === doubtful.readingId)!;
+      const ev = doubtful && ctx.evidence.find((e) => e.test === doubtful.test)!;
       const message = `the readings together are improbable under every modelled cause (log evidence ${ctx.posterior.logEvidenceVsChance.toFixed(2)} against chance)`;
-      if (!doubtful || !ev || ctx.replacements.has(doubtful.readingId) || ctx.progress[ev.test]!.counted > 1)
+      if (!doubtful || !ev || ctx.replacements.has(doubtful.readingId) || ev.readingIds.length > 1)
         return [finding('diagnosis.contradiction_persists', 'readings', `${message}; the doubtful reading was already repeated, so the "not modelled" cause is weighed instead`, 'warning')];
       const test = ctx.tree.tests[ev.test]!;
       const inputIndex = ctx.readingIndex.get(doubtful.readingId) ?? -1;
@@ -155,7 +176,13 @@ export const STATUS_RULES: readonly StatusRule[] = [
   },
   {
     name: 'concluded',
-    decide: (ctx) => (ctx.posterior.p[argmax(ctx.posterior.p)]! >= ctx.options.concludeAt ? { status: 'concluded', findings: [] } : undefined),
+    decide: (ctx) => {
+      const leader = argmax(ctx.posterior.p);
+      if (ctx.posterior.p[leader]! < ctx.options.concludeAt) return undefined;
+      if (!ctx.leaderContradictedBy.length) return { status: 'concluded', findings: [] };
+      const h = ctx.tree.hypotheses[leader]!;
+      return [finding('diagnosis.leader_contradicted', 'readings', `"${h.label}" leads but reading(s) ${ctx.leaderContradictedBy.join(', ')} fall outside what it predicts: not concluded`, 'warning')];
+    },
   },
   {
     name: 'exhausted',
@@ -163,7 +190,7 @@ export const STATUS_RULES: readonly StatusRule[] = [
       if (openTests(ctx.state).length > 0 && canChangeConclusion(ctx.model, ctx.state)) return undefined;
       return {
         status: 'exhausted',
-        findings: [finding('diagnosis.no_test_can_change_conclusion', 'tests', `no remaining test can change the leading cause or settle it at ${ctx.options.concludeAt}; concluding with the leading cause`, 'warning')],
+        findings: [finding('diagnosis.no_test_can_change_conclusion', 'tests', `no remaining test can change the leading cause or settle it at ${ctx.options.concludeAt}: not proven, no repair offered`, 'warning')],
       };
     },
   },

@@ -1,5 +1,6 @@
 /** The loaded (validated, normalised) form of a fault tree that the inference and policy code work on. */
 import type { TreeRequest } from './request-key';
+import type { Cell } from './predictive';
 import type { OutcomeClassifier, Interval } from './outcome-rules';
 import type { BandsDocument, RuleCondition, TreeDocument } from './tree-schema';
 
@@ -60,6 +61,28 @@ export interface Test {
   logLike: Float64Array;
   bands: Map<string, BandsDocument>;
   classifier: OutcomeClassifier;
+  /** Predictive densities (circuit-model trees): when set, they weigh readings and `like` is not used. */
+  predictive?: CompiledPredictive;
+  /** Scan tests: the unit values are compared in. */
+  unit?: 'V';
+}
+
+export interface CompiledPredictive {
+  cells: Cell[];
+  /** Cell of (hypothesis h, class c) at h * nClasses + c; -1 = the broad density (the leak, or not predictable). */
+  cellOf: Int32Array;
+  /** The outcomes as a partition of the reading axis (guard bands split at their middle), for labels and planning. */
+  partition: Array<{ lo: number; hi: number }>;
+  /** P(outcome | h, c), the heavy tail included: index (h * nClasses + c) * nO + o. */
+  bandLike: Float64Array;
+}
+
+/** A latent class of circuit shared by all readings of one circuit (bias, sensor position, temperature). */
+export interface LatentClass {
+  index: number;
+  id: string;
+  /** Prior share, normalised. */
+  weight: number;
 }
 
 export interface Tree {
@@ -74,7 +97,12 @@ export interface Tree {
   likelihoodFloor: number;
   hypotheses: Hypothesis[];
   unknownIndex: number;
+  /** Index of the "no fault now" cause (the circuit tests good), or -1. */
+  healthyIndex: number;
   logPrior: Float64Array;
+  /** Latent classes (one for trees without predictive densities). */
+  classes: LatentClass[];
+  logClassPrior: Float64Array;
   setups: Setup[];
   tests: Test[];
   /** Request key → test, including the cranking re-read keys. */

@@ -38,6 +38,16 @@ const bandsSchema = z.strictObject({ p5: bandValue, p25: bandValue, p50: bandVal
 /** A circuit variant the likelihoods are averaged over (options for the circuit model's defaultCircuit). */
 const variantSchema = z.strictObject({ id, weight: z.number().positive(), circuit: z.record(z.string(), z.unknown()) });
 
+/** A latent class of circuit (e.g. bias pulled up through 47–180 kΩ, sensor near closed): circuits sampled alike. */
+const classSchema = z.strictObject({ id, weight: z.number().positive(), circuits: z.array(z.record(z.string(), z.unknown())).min(1) });
+
+/** Predicted readings per cause and class: quantile cells (stored once each) and, per cause, one cell per class. */
+const predictiveSchema = z.strictObject({
+  cells: z.array(z.strictObject({ q: z.array(z.number()), overload: z.number().min(0).max(1).optional() })),
+  /** Per cause id, the cell index of each class in `derivation.classes` order; -1 = the model cannot predict it. */
+  index: z.record(z.string(), z.array(z.number().int().min(-1))),
+});
+
 const outcomeSchema = z.strictObject({ id, label: text, condition: conditionSchema });
 
 const testSchema = z.strictObject({
@@ -56,6 +66,10 @@ const testSchema = z.strictObject({
   likelihoods: z.record(z.string(), z.record(z.string(), probability)),
   /** Predicted reading percentiles per hypothesis (recorded by the derive script). */
   bands: z.record(z.string(), bandsSchema).optional(),
+  /** Predictive densities from the circuit model: when present they, not the outcome bands, weigh a reading. */
+  predictive: predictiveSchema.optional(),
+  /** Scan tests: the unit the value is compared in; other units are converted where a published conversion exists. */
+  unit: z.enum(['V']).optional(),
 });
 
 const hypothesisSchema = z.strictObject({
@@ -90,6 +104,9 @@ export const treeDocumentSchema = z.strictObject({
       seed: z.number().int().optional(),
       samples: z.number().int().positive().optional(),
       variants: z.array(variantSchema).min(1).optional(),
+      classes: z.array(classSchema).min(1).optional(),
+      /** Part spreads for the Monte Carlo (the circuit model's Spreads), overriding its defaults. */
+      spreads: z.record(z.string(), z.unknown()).optional(),
       note: text.optional(),
     })
     .optional(),
@@ -99,6 +116,8 @@ export type TreeDocument = z.output<typeof treeDocumentSchema>;
 export type TestDocument = TreeDocument['tests'][number];
 export type BandsDocument = z.output<typeof bandsSchema>;
 export type VariantDocument = z.output<typeof variantSchema>;
+export type ClassDocument = z.output<typeof classSchema>;
+export type PredictiveDocument = z.output<typeof predictiveSchema>;
 
 function pathOf(segments: ReadonlyArray<PropertyKey>): string {
   return segments.reduce<string>((p, s) => (typeof s === 'number' ? `${p}[${s}]` : p ? `${p}.${String(s)}` : String(s)), '');

@@ -79,16 +79,12 @@ describe('diagnosing the three-wire 5 V tree', () => {
     expect(d.findings.some((f) => f.path === 'readings[0].request.connector')).toBe(true);
   });
 
-  it('asks for a re-check when a reading lands in a guard band (indeterminate), and sets the test aside after two tries', async () => {
-    const once = await diagnose(tree, [reading('g1', 'reference_backprobed', 4.82)]);
-    expect(once.status).toBe('recheck');
-    expect(once.nextTest!.id).toBe('reference_backprobed');
-    expect(once.nextTest!.recheckOf).toBe('g1');
-    expect(once.path[0]!.verdict).toBe('indeterminate');
-    const twice = await diagnose(tree, [reading('g1', 'reference_backprobed', 4.82), reading('g2', 'reference_backprobed', 4.83)]);
-    expect(twice.status).toBe('testing');
-    expect(twice.nextTest!.id).not.toBe('reference_backprobed');
-    expect(twice.findings.some((f) => f.code === 'diagnosis.test_unresolved')).toBe(true);
+  it('weighs a reading between two outcome ranges by its value: the bands are labels, not the arithmetic', async () => {
+    const d = await diagnose(tree, [reading('g1', 'reference_backprobed', 4.82)]);
+    expect(d.path[0]!.verdict).toBe('counted');
+    expect(d.path[0]!.note).toMatch(/between outcome ranges/);
+    const nudged = await diagnose(tree, [reading('g2', 'reference_backprobed', 4.83)]);
+    for (const h of d.ranked) expect(Math.abs(probabilityOf(nudged, h.id) - h.probability), h.id).toBeLessThan(0.05);
   });
 
   it('drops a superseded reading and counts its replacement', async () => {
@@ -185,6 +181,16 @@ describe('the shared 5 V reference tree', () => {
   // The tank sensor pulls the reference down: any test with it unplugged reads about 5 V, the others about 1.2 V.
   const answer = (testId: string) =>
     testId === 'reference_ohms_all_unplugged' ? 1000 : ['reference_tank_unplugged', 'reference_all_unplugged'].includes(testId) ? 5.0 : 1.2;
+
+  it('asks for a re-check when a reading lands in a guard band of a hand-given tree, and sets the test aside after two tries', async () => {
+    const once = await diagnose(shared, [at('reference_plugged', 4.7, 'g1')]);
+    expect(once.status).toBe('recheck');
+    expect(once.nextTest!.recheckOf).toBe('g1');
+    expect(once.path[0]!.verdict).toBe('indeterminate');
+    const twice = await diagnose(shared, [at('reference_plugged', 4.7, 'g1'), at('reference_plugged', 4.72, 'g2')]);
+    expect(twice.nextTest!.id).not.toBe('reference_plugged');
+    expect(twice.findings.some((f) => f.code === 'diagnosis.test_unresolved')).toBe(true);
+  });
 
   it('proposes unplugging the sensors one at a time and finds the one pulling the reference down', async () => {
     const proposed: string[] = [];

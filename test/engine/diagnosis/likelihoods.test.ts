@@ -3,16 +3,19 @@ import { builtInDocuments } from '../../../src/engine/diagnosis';
 import { BUILT_IN_DERIVATION, deriveLikelihoods } from '../../../src/engine/diagnosis/derive-likelihoods';
 import { parseTreeDocument } from '../../../src/engine/diagnosis/tree-schema';
 
-// The stored tables must be what the circuit model gives (scripts/derive-likelihoods.ts, fixed seed, 2000 samples
-// per cell). A change to the circuit model or to a tree's outcome ranges shows up here until the script is rerun.
+// The stored predictive densities and tables must be what the circuit model gives (scripts/derive-likelihoods.ts,
+// fixed seed, 360 draws per cause and class). A change to the circuit model, a tree's classes or its outcome ranges
+// shows up here until the script is rerun.
 describe('likelihood tables derived from the circuit model', () => {
-  it.each(['three-wire-5v', 'two-wire-thermistor'])('stores for %s exactly the tables and bands a recomputation gives', (id) => {
+  it.each(['three-wire-5v', 'two-wire-thermistor'])('stores for %s exactly the predictive densities, tables and bands a recomputation gives', (id) => {
     const stored = parseTreeDocument(builtInDocuments().find((d) => d.id === id)).document!;
     expect(stored.derivation).toMatchObject({ method: 'circuit_model_monte_carlo', ...BUILT_IN_DERIVATION });
     const { document } = deriveLikelihoods(stored, BUILT_IN_DERIVATION);
     for (const [i, test] of stored.tests.entries()) {
       expect(test.likelihoods, test.id).toEqual(document.tests[i]!.likelihoods);
       expect(test.bands, test.id).toEqual(document.tests[i]!.bands);
+      expect(test.predictive, test.id).toEqual(document.tests[i]!.predictive);
+      expect(test.predictive!.index[stored.hypotheses[0]!.id], test.id).toHaveLength(stored.derivation!.classes!.length);
     }
   });
 

@@ -1,0 +1,61 @@
+/**
+ * A key-on scan value that stays put although the signal set-up changed (connector, jumper) may be a module that
+ * refreshes only with engine speed (common practice, no source). It is called frozen only when the change should
+ * have moved it: given the readings before it, the chance that the new set-up reads within the converter's
+ * tolerance of the old value is below FROZEN_ODDS. So 0 V that stays 0 V on a grounded signal is a reading.
+ */
+import { broadMass, instrumentBound } from './meter-error';
+import { coreMass, OUTLIER_WEIGHT } from './predictive';
+import type { Posterior } from './posterior';
+import { signalSetupKey } from './request-key';
+import type { CheckedReading } from './reading-checks';
+import type { Test, Tree } from './tree-model';
+
+/**
+ * Prior odds that a module does not refresh with the engine stopped, q / (1 − q) with q = 0.2 (common practice, no
+ * source): frozen is the better explanation when the circuit model gives the unchanged value less than this chance.
+ */
+export const FROZEN_ODDS = 0.25;
+
+export const isKeyOnScan = (r: CheckedReading) => r.request.quantity === 'scan_value' && r.request.key === 'on' && r.request.engine === 'off';
+
+/** An earlier key-on scan reading of the same parameter, different signal set-up, within tolerance of this one. */
+export function unchangedFrom(reading: CheckedReading, earlier: readonly CheckedReading[], extraTolerance: number): CheckedReading | undefined {
+  if (!isKeyOnScan(reading)) return undefined;
+  const setup = signalSetupKey(reading.request);
+  const tol = instrumentBound('scan_value', reading.value) + extraTolerance;
+  return earlier.find((q) => isKeyOnScan(q) && q.request.pid === reading.request.pid && signalSetupKey(q.request) !== setup && Math.abs(q.value - reading.value) <= tol);
+}
+
+/** P(the test reads within ± tol of `value` | the evidence so far), from the same densities that weigh readings. */
+export function chanceOfReading(tree: Tree, post: Posterior, test: Test, value: number, tol: number): number {
+  const nC = tree.classes.length;
+  const lo = value - tol;
+  const hi = value + tol;
+  const pred = test.predictive;
+  const q = test.request.quantity;
+  let sum = 0;
+  for (let h = 0; h < tree.hypotheses.length; h++) {
+    if (post.p[h]! < 1e-9) continue;
+    let ph = 0;
+    if (!pred) {
+      const nO = test.outcomes.length;
+      const o = test.outcomes.find((x) => x.interval && value >= x.interval.lo && value < x.interval.hi);
+      ph = o ? test.like[h * nO + o.index]! : 0;
+    } else {
+      for (let c = 0; c < nC; c++) {
+        const cell = pred.cellOf[h * nC + c]!;
+        const m = cell < 0 ? broadMass(q, lo, hi) : (1 - OUTLIER_WEIGHT) * coreMass(pred.cells[cell]!, lo, hi, q) + OUTLIER_WEIGHT * broadMass(q, lo, hi);
+        ph += post.classGivenCause[h * nC + c]! * m;
+      }
+    }
+    sum += post.p[h]! * ph;
+  }
+  return sum;
+}
+
+/** True when the unchanged value is better explained by a module that did not refresh. */
+export function looksFrozen(tree: Tree, post: Posterior, reading: CheckedReading, earlier: CheckedReading, extraTolerance: number): boolean {
+  const tol = instrumentBound('scan_value', reading.value) + extraTolerance;
+  return chanceOfReading(tree, post, reading.test!, earlier.value, tol) < FROZEN_ODDS;
+}

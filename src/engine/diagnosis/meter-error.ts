@@ -1,0 +1,63 @@
+/**
+ * How far a reading may sit from the truth because of the instrument alone, and what "anything the instrument can
+ * show" looks like (the leak cause's density).
+ *
+ * Common practice, no source: a handheld DMM reads DC volts within ±(0.5 % of reading + 2 counts) and ohms within
+ * ±(1 % + 2 counts) on a 6000-count display; we take the 6 V range's 1 mV as the finest volts count (technicians
+ * rarely lock a lower range) and add 0.2 Ω for leads not zeroed. The module's converter reads within ±(0.5 % + 2
+ * steps) (see circuit/adc.ts). The stated bound is used as the kernel's standard deviation: generous on purpose,
+ * since the meter in the bay is not the one the model assumed.
+ */
+import { ADC_STEP_VOLTS, MODULE_ADC } from '../circuit';
+import type { Quantity } from '../vocabulary';
+
+const COUNTS = 6000;
+const step = (y: number, finest: number) => (y === 0 || !Number.isFinite(y) ? finest : Math.max(finest, 10 ** Math.ceil(Math.log10(Math.abs(y) / COUNTS))));
+
+const BOUNDS: Record<Quantity, (y: number) => number> = {
+  dc_volts: (y) => 0.005 * Math.abs(y) + 2 * step(y, 1e-3),
+  ohms: (y) => 0.01 * Math.abs(y) + 2 * step(y, 0.1) + 0.2,
+  amps: (y) => 0.01 * Math.abs(y) + 2 * step(y, 1e-3),
+  scan_value: (y) => 0.005 * Math.abs(y) + 2 * ADC_STEP_VOLTS,
+};
+
+/** ± the instrument's own error at reading `y` (V, Ω or A). */
+export function instrumentBound(quantity: Quantity, y: number): number {
+  return BOUNDS[quantity](y);
+}
+
+/** Ohms the leak density spreads over (log-uniform) and the share it gives an overload display. */
+const OHMS_RANGE: [number, number] = [0.05, 6e7];
+const OHMS_OVERLOAD_SHARE = 0.2;
+const LOG_OHMS_SPAN = Math.log(OHMS_RANGE[1] / OHMS_RANGE[0]);
+/** Uniform spans for the other quantities: what a meter or scan tool can show on a 12 V vehicle. */
+const SPANS: Record<Exclude<Quantity, 'ohms'>, [number, number]> = {
+  dc_volts: [-1, 16],
+  amps: [-1, 10],
+  scan_value: [-0.1, MODULE_ADC.fullScaleVolts + 0.1],
+};
+
+/**
+ * Density of "anything the instrument can show" at `y` (an overload, `Infinity`, gets a probability): the leak
+ * cause's likelihood and the heavy tail of every modelled cause.
+ */
+export function broadDensity(quantity: Quantity, y: number): number {
+  if (quantity === 'ohms') {
+    if (y === Number.POSITIVE_INFINITY) return OHMS_OVERLOAD_SHARE;
+    return (1 - OHMS_OVERLOAD_SHARE) / (LOG_OHMS_SPAN * Math.max(y, OHMS_RANGE[0]));
+  }
+  const [lo, hi] = SPANS[quantity];
+  return 1 / (hi - lo);
+}
+
+/** Mass of the broad density on [lo, hi) (an open top includes the overload). */
+export function broadMass(quantity: Quantity, lo: number, hi: number): number {
+  if (quantity === 'ohms') {
+    const a = Math.max(lo, OHMS_RANGE[0]);
+    const b = Math.min(hi, OHMS_RANGE[1]);
+    const finite = b > a ? ((1 - OHMS_OVERLOAD_SHARE) * Math.log(b / a)) / LOG_OHMS_SPAN : 0;
+    return finite + (hi === Number.POSITIVE_INFINITY ? OHMS_OVERLOAD_SHARE : 0);
+  }
+  const [s0, s1] = SPANS[quantity];
+  return Math.max(0, Math.min(hi, s1) - Math.max(lo, s0)) / (s1 - s0);
+}
