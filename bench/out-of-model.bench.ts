@@ -72,7 +72,13 @@ export default async (): Promise<BenchResult[]> => {
         if (!choose) latencies.push(...run.latencies);
       }
       for (const [cause, t] of byCause) perCause.push(row(treeId, cause, policy, t));
-      totals.push({ ...row(treeId, 'all', policy, all), 'of them a wire or part wrongly blamed': all.wrongPartBlamed, 'healthy proven as a wire or part fault': all.healthyBlamed });
+      totals.push({
+        ...row(treeId, 'all', policy, all),
+        'wrong: a wire or part blamed': all.wrongPartBlamed,
+        'wrong: no fault now (a fault missed)': all.wrongNoFault,
+        'wrong: not modelled (unknown)': all.wrongUnknown,
+        'healthy proven as a wire or part fault': all.healthyBlamed,
+      });
       if (!choose) {
         latencies.sort((a, b) => a - b);
         const p99 = quantile(latencies, 0.99);

@@ -25,6 +25,9 @@ export interface OomRun {
   healthyBlamed: boolean;
   /** Proven on a wrong cause whose repair names a wire or part (not "none" or "unknown"). */
   wrongPartBlamed: boolean;
+  /** Proven wrongly as `no_fault_now` (a fault missed) or as `unknown` (not modelled). */
+  wrongNoFault: boolean;
+  wrongUnknown: boolean;
   status: Diagnosis['status'];
   readings: number;
   minutes: number;
@@ -62,7 +65,7 @@ export async function runOomCase(tree: Tree, c: OomCase, opts: { choose?: TestCh
       const proven = isProven(d) ? d.conclusion!.hypothesisId : null;
       const verdict: Verdict = proven === null ? 'undecided' : proven === c.cause ? 'right' : 'confidently_wrong';
       const blames = proven !== null && blamesAPart(tree, proven);
-      return { verdict, proven, healthyBlamed: c.cause === 'no_fault_now' && blames, wrongPartBlamed: verdict === 'confidently_wrong' && blames, status: d.status, readings: readings.length, minutes, latencies, last: d, taken: readings };
+      return { verdict, proven, healthyBlamed: c.cause === 'no_fault_now' && blames, wrongPartBlamed: verdict === 'confidently_wrong' && blames, wrongNoFault: verdict === 'confidently_wrong' && proven === 'no_fault_now', wrongUnknown: verdict === 'confidently_wrong' && proven === 'unknown', status: d.status, readings: readings.length, minutes, latencies, last: d, taken: readings };
     }
     const override = d.status === 'testing' && opts.choose ? opts.choose(tree, d) : undefined;
     const test = override ?? tree.tests.find((t) => t.id === d.nextTest!.id)!;
@@ -88,11 +91,13 @@ export interface Tally {
   undecided: number;
   healthyBlamed: number;
   wrongPartBlamed: number;
+  wrongNoFault: number;
+  wrongUnknown: number;
   readings: number;
   minutes: number;
 }
 
-export const emptyTally = (): Tally => ({ cases: 0, right: 0, confidentlyWrong: 0, undecided: 0, healthyBlamed: 0, wrongPartBlamed: 0, readings: 0, minutes: 0 });
+export const emptyTally = (): Tally => ({ cases: 0, right: 0, confidentlyWrong: 0, undecided: 0, healthyBlamed: 0, wrongPartBlamed: 0, wrongNoFault: 0, wrongUnknown: 0, readings: 0, minutes: 0 });
 
 export function addRun(t: Tally, run: OomRun): void {
   t.cases++;
@@ -101,6 +106,8 @@ export function addRun(t: Tally, run: OomRun): void {
   else t.undecided++;
   if (run.healthyBlamed) t.healthyBlamed++;
   if (run.wrongPartBlamed) t.wrongPartBlamed++;
+  if (run.wrongNoFault) t.wrongNoFault++;
+  if (run.wrongUnknown) t.wrongUnknown++;
   t.readings += run.readings;
   t.minutes += run.minutes;
 }
