@@ -117,6 +117,15 @@ describe.each(BACKENDS)('circuits and measurements over HTTP on the %s database'
     expect(res.body.error.findings.map((f: { path: string }) => f.path)).toContain(path);
   });
 
+  it('refuses a scan value in a unit its test cannot convert, naming the unit the test expects, and takes % of full scale', async () => {
+    const scanTest = { quantity: 'scan_value', against: undefined, connector: 'plugged', pid: 'signal_volts' };
+    const res = await post(reading({ ...scanTest, value: 101, unit: 'kPa' }));
+    expect(res.status).toBe(400);
+    expect(res.body.error.findings[0]).toMatchObject({ code: 'measurement.scan_unit_unexpected', path: 'body.unit' });
+    expect(res.body.error.findings[0].message).toMatch(/in V/);
+    expect((await post(reading({ ...scanTest, value: 15.3, unit: '%' }))).status).toBe(201);
+  });
+
   it('keeps a corrected reading, hides it from the default list and shows it with includeSuperseded', async () => {
     const wrong = (await post(reading({ at: 'reference', value: 4.1 }))).body;
     const fixed = await post(reading({ at: 'reference', value: 5.01, supersedes: wrong.id }));

@@ -6,7 +6,7 @@
 import { finding, type Finding } from './findings';
 import { groupEvidence, type CountedReading } from './evidence';
 import { looksFrozen, unchangedFrom } from './frozen-scan';
-import { contradictingReadings, decidingReadings, posterior } from './posterior';
+import { contradictingReadings, posterior, readingFactors } from './posterior';
 import { argmax, type PolicyModel, type PolicyState } from './policy';
 import { checkReadingShapes, checkRepairs, verdictOf, type CheckedReading, type ReadingContext } from './reading-checks';
 import { decide, type ResolvedOptions, type TestProgress } from './status-rules';
@@ -170,12 +170,13 @@ export async function runDiagnosis(tree: Tree, readings: readonly Reading[], rep
   const replacements = new Set(ctx.readings.flatMap((r) => (r.supersededBy && ctx.byId.has(r.supersededBy) ? [r.supersededBy] : [])));
   const readingIndex = new Map(ctx.readings.map((r) => [r.id, r.inputIndex]));
   const leader = argmax(post.p);
-  const against = contradictingReadings(tree, evidence, post, leader);
+  const against = contradictingReadings(tree, post, leader);
   const decision = decide({ tree, options: resolved, evidence, posterior: post, progress, replacements, readingIndex, model, state, leaderContradictedBy: against });
 
   const ranked = tree.hypotheses
     .map((h) => ({ id: h.id, label: h.label, part: h.part, probability: post.p[h.index]! }))
     .sort((a, b) => b.probability - a.probability);
+  const factors = decision.status === 'concluded' ? readingFactors(tree, post, leader) : [];
   const conclusion =
     decision.status === 'concluded'
       ? {
@@ -183,8 +184,8 @@ export async function runDiagnosis(tree: Tree, readings: readonly Reading[], rep
           label: tree.hypotheses[leader]!.label,
           probability: post.p[leader]!,
           repair: { part: tree.hypotheses[leader]!.part, action: tree.hypotheses[leader]!.repairAction },
-          decidedBy: decidingReadings(tree, evidence, post, leader),
-          confirmedBy: decidingReadings(tree, evidence, post, leader, 3),
+          decidedBy: factors.filter((f) => f.factor > 1.5).flatMap((f) => f.ids),
+          confirmedBy: factors.filter((f) => f.factor > 3).flatMap((f) => f.ids),
           reachedThreshold: true,
         }
       : null;

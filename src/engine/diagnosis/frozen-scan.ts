@@ -34,6 +34,13 @@ export function chanceOfReading(tree: Tree, post: Posterior, test: Test, value: 
   const hi = value + tol;
   const pred = test.predictive;
   const q = test.request.quantity;
+  const broad = broadMass(q, lo, hi);
+  const byCell = new Map<number, number>();
+  const massOf = (cell: number) => {
+    let m = byCell.get(cell);
+    if (m === undefined) byCell.set(cell, (m = cell < 0 ? broad : (1 - OUTLIER_WEIGHT) * coreMass(pred!.cells[cell]!, lo, hi, q) + OUTLIER_WEIGHT * broad));
+    return m;
+  };
   let sum = 0;
   for (let h = 0; h < tree.hypotheses.length; h++) {
     if (post.p[h]! < 1e-9) continue;
@@ -43,11 +50,7 @@ export function chanceOfReading(tree: Tree, post: Posterior, test: Test, value: 
       const o = test.outcomes.find((x) => x.interval && value >= x.interval.lo && value < x.interval.hi);
       ph = o ? test.like[h * nO + o.index]! : 0;
     } else {
-      for (let c = 0; c < nC; c++) {
-        const cell = pred.cellOf[h * nC + c]!;
-        const m = cell < 0 ? broadMass(q, lo, hi) : (1 - OUTLIER_WEIGHT) * coreMass(pred.cells[cell]!, lo, hi, q) + OUTLIER_WEIGHT * broadMass(q, lo, hi);
-        ph += post.classGivenCause[h * nC + c]! * m;
-      }
+      for (let c = 0; c < nC; c++) ph += post.classGivenCause[h * nC + c]! * massOf(pred.cellOf[h * nC + c]!);
     }
     sum += post.p[h]! * ph;
   }

@@ -35,6 +35,7 @@ export type { LoadResult } from './load-tree';
 export type { Undecided } from './undecided';
 export { TREE_FORMAT } from './tree-schema';
 export { requestKey } from './request-key';
+export { scanUnitRefusal } from './scan-units';
 export { healthyOutcome, type HealthyOutcome } from './healthy-outcome';
 export { CAUTION_KINDS } from './cautions';
 export {

@@ -8,8 +8,8 @@
  * per test. Keeps log Z and compares the evidence under the modelled causes with the leak ("unknown"): far below
  * it means a mis-probe or a wrong connector state rather than a cause.
  */
-import { broadDensity, instrumentBound } from './meter-error';
-import { coreDensity, OUTLIER_WEIGHT, readingLikelihood } from './predictive';
+import { broadDensity } from './meter-error';
+import { OUTLIER_WEIGHT, readingLikelihood } from './predictive';
 import type { Cluster, Evidence } from './evidence';
 import type { Test, Tree } from './tree-model';
 
@@ -24,6 +24,15 @@ export interface Posterior {
   logZ: number;
   /** log P(e | a modelled cause) − log P(e | the leak: anything the instruments can show). */
   logEvidenceVsChance: number;
+  /** Per cluster of readings: its likelihood under every (h, c) and the broad density at its value. */
+  weighed: Weighed[];
+}
+
+export interface Weighed {
+  evidence: Evidence;
+  cluster: Cluster;
+  like: Float64Array;
+  broad: number;
 }
 
 export function logSumExp(values: ArrayLike<number>, skip = -1, from = 0, to = values.length): number {
@@ -68,13 +77,15 @@ export function posterior(tree: Tree, evidence: readonly Evidence[]): Posterior 
   const nC = tree.classes.length;
   const w = new Float64Array(nH * nC);
   for (let h = 0; h < nH; h++) for (let c = 0; c < nC; c++) w[h * nC + c] = tree.logPrior[h]! + tree.logClassPrior[c]!;
-  const like = new Float64Array(nH * nC);
   let logLeak = 0;
   const leak = tree.unknownIndex * nC;
+  const weighed: Weighed[] = [];
   for (const e of evidence) {
     const test = tree.tests[e.test]!;
     for (const cluster of e.clusters) {
+      const like = new Float64Array(nH * nC);
       clusterLikelihoods(tree, test, cluster, e.intermittent, like);
+      weighed.push({ evidence: e, cluster, like, broad: test.predictive ? broadDensity(test.request.quantity, cluster.y) : 1 / test.outcomes.length });
       for (let k = 0; k < w.length; k++) w[k] = w[k]! + Math.log(like[k]!);
       logLeak += Math.log(like[leak]!);
     }
@@ -91,7 +102,7 @@ export function posterior(tree: Tree, evidence: readonly Evidence[]): Posterior 
   }
   const modelledPrior = Math.log(1 - tree.hypotheses[tree.unknownIndex]!.prior);
   const logEvidenceVsChance = logSumExp(perCause, tree.unknownIndex) - modelledPrior - logLeak;
-  return { p, classGivenCause, logWeights: w, logZ, logEvidenceVsChance };
+  return { p, classGivenCause, logWeights: w, logZ, logEvidenceVsChance, weighed };
 }
 
 /**
@@ -109,20 +120,11 @@ export function mostDoubtfulReading(tree: Tree, evidence: readonly Evidence[]): 
   return best;
 }
 
-/** Likelihood of a cluster under cause h, its classes weighted by their posterior given h; core = without the tail. */
-function causeLikelihood(tree: Tree, post: Posterior, test: Test, cluster: Cluster, h: number, core: boolean): number {
+/** Likelihood of a weighed cluster under cause h, its classes weighted by their posterior given h. */
+function causeLikelihood(tree: Tree, post: Posterior, x: Weighed, h: number): number {
   const nC = tree.classes.length;
-  const pred = test.predictive;
-  if (!pred) return test.like[h * test.outcomes.length + cluster.y]!;
-  const q = test.request.quantity;
-  const sigma = instrumentBound(q, cluster.y) / Math.sqrt(cluster.n);
   let sum = 0;
-  for (let c = 0; c < nC; c++) {
-    const cell = pred.cellOf[h * nC + c]!;
-    const wc = post.classGivenCause[h * nC + c]!;
-    if (wc < 1e-9) continue;
-    sum += wc * (core ? (cell < 0 ? broadDensity(q, cluster.y) : coreDensity(pred.cells[cell]!, cluster.y, sigma)) : readingLikelihood(cell < 0 ? undefined : pred.cells[cell], q, cluster.y, cluster.n));
-  }
+  for (let c = 0; c < nC; c++) sum += post.classGivenCause[h * nC + c]! * x.like[h * nC + c]!;
   return sum;
 }
 
@@ -130,38 +132,31 @@ function causeLikelihood(tree: Tree, post: Posterior, test: Test, cluster: Clust
  * Readings a cause cannot explain: better explained by the heavy tail than by its prediction (its likeliest
  * classes weighted). A "no fault now" cause is not contradicted by readings that flip (that is its intermittent).
  */
-export function contradictingReadings(tree: Tree, evidence: readonly Evidence[], post: Posterior, h: number): string[] {
-  return evidence.flatMap((e) => {
-    const test = tree.tests[e.test]!;
-    if (h === tree.healthyIndex && e.intermittent) return [];
-    return e.clusters.flatMap((cl) => {
-      if (!test.predictive) return test.like[h * test.outcomes.length + cl.y]! < 0.05 ? cl.readingIds : [];
-      const q = test.request.quantity;
-      const core = causeLikelihood(tree, post, test, cl, h, true);
-      return (1 - OUTLIER_WEIGHT) * core < OUTLIER_WEIGHT * broadDensity(q, cl.y) ? cl.readingIds : [];
-    });
+export function contradictingReadings(tree: Tree, post: Posterior, h: number): string[] {
+  return post.weighed.flatMap((x) => {
+    const test = tree.tests[x.evidence.test]!;
+    if (h === tree.healthyIndex && x.evidence.intermittent) return [];
+    if (!test.predictive) return test.like[h * test.outcomes.length + x.cluster.y]! < 0.05 ? x.cluster.readingIds : [];
+    // L = (1 − ε)·core + ε·broad, so the core is below the tail exactly when L < 2ε·broad.
+    return causeLikelihood(tree, post, x, h) < 2 * OUTLIER_WEIGHT * x.broad ? x.cluster.readingIds : [];
   });
 }
 
 /**
- * Readings that favoured the winner over the other causes (Bayes factor against the posterior-weighted rest above
- * `factor`), strongest first.
+ * Each reading's Bayes factor for the winner against the posterior-weighted rest, strongest first: those above 1.5
+ * decided the conclusion, those above 3 confirm it directly.
  */
-export function decidingReadings(tree: Tree, evidence: readonly Evidence[], post: Posterior, winner: number, factor = 1.5): string[] {
-  const scored = evidence.flatMap((e) => {
-    const test = tree.tests[e.test]!;
-    return e.clusters.map((cl) => {
+export function readingFactors(tree: Tree, post: Posterior, winner: number): Array<{ ids: string[]; factor: number }> {
+  return post.weighed
+    .map((x) => {
       let rest = 0;
       let restMass = 0;
       for (let h = 0; h < post.p.length; h++) {
         if (h === winner) continue;
-        rest += post.p[h]! * causeLikelihood(tree, post, test, cl, h, false);
+        rest += post.p[h]! * causeLikelihood(tree, post, x, h);
         restMass += post.p[h]!;
       }
-      const f = causeLikelihood(tree, post, test, cl, winner, false) / (restMass > 0 ? rest / restMass : 1);
-      return { ids: cl.readingIds, f };
-    });
-  });
-  return scored.filter((s) => s.f > factor).sort((a, b) => b.f - a.f).flatMap((s) => s.ids);
+      return { ids: x.cluster.readingIds, factor: causeLikelihood(tree, post, x, winner) / (restMass > 0 ? rest / restMass : 1) };
+    })
+    .sort((a, b) => b.factor - a.factor);
 }
-

@@ -7,6 +7,7 @@
  * Anything else is refused, naming the unit the test expects.
  */
 import { adcReading, defaultCircuit, MODULE_ADC, thermistorOhms } from '../circuit';
+import { requestKey, type TreeRequest } from './request-key';
 import type { Test, Tree } from './tree-model';
 
 export type Conversion = { ok: true; value: number; note?: string } | { ok: false; message: string };
@@ -30,4 +31,16 @@ export function scanToTestUnit(tree: Tree, test: Test, value: number, unit: stri
   }
   const accepted = tree.circuitKind === 'two_wire_thermistor' ? 'V, mV, % or °C' : 'V, mV or %';
   return { ok: false, message: `this scan test compares the value in ${expected}; a value in ${unit} has no published conversion here: read the parameter in ${accepted}` };
+}
+
+/**
+ * Why a scan value in `unit` cannot answer the tree's test for `request` (a message naming the unit expected), or
+ * undefined when it can (or the request answers no scan test of the tree, so any unit is kept as recorded).
+ */
+export function scanUnitRefusal(tree: Tree, request: TreeRequest, unit: string, value = 0): string | undefined {
+  if (request.quantity !== 'scan_value') return undefined;
+  const test = tree.testByRequest.get(requestKey(request));
+  if (!test) return undefined;
+  const c = scanToTestUnit(tree, test, value, unit);
+  return c.ok ? undefined : c.message;
 }

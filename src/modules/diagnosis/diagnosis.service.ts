@@ -15,6 +15,7 @@ export function engineReading(m: MeasurementRow): Reading {
     id: m.id,
     request: requestOf(m),
     value: m.overload ? 'overload' : (m.valueSi as number),
+    ...(m.quantity === 'scan_value' && m.siUnit ? { unit: m.siUnit } : {}),
     takenAt: m.takenAt.toISOString(),
     phase: m.phase,
     ...(m.supersededBy ? { supersededBy: m.supersededBy.id } : {}),

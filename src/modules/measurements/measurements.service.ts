@@ -8,7 +8,7 @@ import { RepairOrdersRepository, type CircuitOfOrder } from '../repair-orders/re
 import { MeasurementBatch, MeasurementInput, type ListMeasurements } from './measurements.dto';
 import { MeasurementsRepository, type MeasurementRow } from './measurements.repository';
 import { measurementView, requestOf } from './measurements.view';
-import { requestKey } from '../../engine/diagnosis';
+import { builtInTreeFor, requestKey, scanUnitRefusal, type TreeRequest } from '../../engine/diagnosis';
 
 /**
  * What a correction must share with the reading it replaces: the same test. The engine state may differ, since a
@@ -55,6 +55,12 @@ function rowFor(m: MeasurementInput, repairOrderId: string, takenById: string, n
     takenById,
     takenAt: new Date(m.takenAt ?? now),
   };
+}
+
+/** A scan value whose unit the circuit's built-in tree cannot convert for the test it answers (the tree names the unit). */
+function scanUnitProblem(kind: string | undefined, m: MeasurementInput): string | undefined {
+  const tree = kind === undefined || m.quantity !== 'scan_value' ? undefined : builtInTreeFor(kind);
+  return tree && scanUnitRefusal(tree, { ...m, jumpers: m.jumpers ?? [] } as TreeRequest, m.siUnit, m.valueSi ?? 0);
 }
 
 /** What recording answers: the stored readings (or the earlier copies, when re-sent) and the circuits they are on. */
@@ -234,7 +240,7 @@ export class MeasurementsService {
 
   private async requireReferences(
     repairOrderId: string,
-    ofOrder: ReadonlyArray<{ id: string }>,
+    ofOrder: ReadonlyArray<{ id: string; kind: string }>,
     inputs: MeasurementInput[],
     at: (i: number, field: string) => string,
     tx: Prisma.TransactionClient,
@@ -243,6 +249,8 @@ export class MeasurementsService {
     const circuits = new Set(ofOrder.map((c) => c.id));
     inputs.forEach((m, i) => {
       if (!circuits.has(m.circuitId)) findings.push({ code: 'circuit.not_found', path: at(i, 'circuitId'), message: 'names no circuit of this repair order' });
+      const refusal = scanUnitProblem(ofOrder.find((c) => c.id === m.circuitId)?.kind, m);
+      if (refusal) findings.push({ code: 'measurement.scan_unit_unexpected', path: at(i, 'unit'), message: refusal });
     });
     const targetIds = inputs.flatMap((m) => (m.supersedes ? [m.supersedes] : []));
     const targets = new Map(targetIds.length ? (await this.measurements.correctionTargets(repairOrderId, targetIds, tx)).map((t) => [t.id, t]) : []);

@@ -5,6 +5,8 @@ import {
   GENERIC_10K_STEINHART_HART,
   meterWith,
   predictReading,
+  ADC_STEP_VOLTS,
+  adcReading,
   type CircuitSpec,
   type FaultSpec,
 } from '../../../src/engine/circuit';
@@ -88,7 +90,8 @@ describe('what the module reads (scan value, key on)', () => {
   it('reads the thermistor divider V = 5·Rt/(Rt + Rp) (voltage-divider rule, computed; wires add well under 1 mV)', () => {
     const rt = steinhartHartResistance(20, GENERIC_10K_STEINHART_HART);
     const expected = rt.ok ? thermistorDividerVolts({ supplyVolts: 5, pullUpOhms: 10_000, thermistorOhms: rt.value }) : rt;
-    expect(scan(thermistor, [])).toBeCloseTo(expected.ok ? expected.value : Number.NaN, 3);
+    // Within half a converter step: the module reads through a 10-bit, 5.00 V converter (4.9 mV steps).
+    expect(Math.abs(scan(thermistor, []) - (expected.ok ? expected.value : Number.NaN))).toBeLessThanOrEqual(ADC_STEP_VOLTS / 2 + 1e-3);
   });
 
   it('reads 5 V on an unplugged thermistor through the pull-up (open circuit)', () => {
@@ -259,7 +262,7 @@ describe('a thermistor described by the beta equation', () => {
   it('reads half the reference at 25 °C when R25 equals the 10 kΩ pull-up (voltage-divider rule, computed: 10 kΩ → 2.5000 V)', () => {
     const circuit = structuredClone(thermistor);
     circuit.sensor = { kind: 'thermistor', model: { kind: 'beta', r25Ohms: 10_000, beta: 3950 }, temperatureC: 25 };
-    expect(scan(circuit, [])).toBeCloseTo(2.5, 3);
+    expect(Math.abs(scan(circuit, []) - 2.5)).toBeLessThanOrEqual(ADC_STEP_VOLTS / 2);
   });
 
   it('reports an unknown thermistor model', () => {
@@ -267,5 +270,20 @@ describe('a thermistor described by the beta equation', () => {
     circuit.sensor = { kind: 'thermistor', model: { kind: 'table' } as never, temperatureC: 25 };
     const r = predictReading(circuit, [], request({ at: 'signal' }));
     expect(!r.ok && r.findings[0]).toMatchObject({ code: 'sensor.unknown_thermistor_model', path: 'circuit.sensor.model.kind' });
+  });
+});
+
+describe('the module converter behind a scan value (common practice, no source: 10-bit, 5.00 V full scale)', () => {
+  it.each<[string, number, number]>([
+    ['a wire driven to battery voltage reads full scale', 12.4, 5.0],
+    ['a negative offset reads zero', -0.03, 0],
+    ['a mid value lands on the nearest step', 0.7616, Math.round(0.7616 / ADC_STEP_VOLTS) * ADC_STEP_VOLTS],
+  ])('%s', (_name, volts, expected) => {
+    expect(adcReading(volts)).toBeCloseTo(expected, 9);
+  });
+
+  it('shows a signal shorted to battery voltage as 5.00 V on the scan tool while the meter reads battery voltage', () => {
+    expect(scan(threeWire, [{ kind: 'short_to_voltage', wire: 'signal' }])).toBeCloseTo(5.0, 9);
+    expect(volts(threeWire, [{ kind: 'short_to_voltage', wire: 'signal' }], 'signal')).toBeGreaterThan(11);
   });
 });
