@@ -38,10 +38,22 @@ export const HEALTHY_IDS = ['good', 'no_fault', 'no_fault_now'] as const;
 type HealthyId = (typeof HEALTHY_IDS)[number];
 
 /**
- * Causes that cover several faults, each with a weight: a failed 5 V supply is dead, or weak and sagging under load
- * (output resistance from a few hundred ohms to a few kilohms; common practice, no source).
+ * Causes that cover several faults, each with a weight (common practice, no source): a failed 5 V supply is dead,
+ * or weak and sagging under load (output resistance from a few hundred ohms to a few kilohms); a short to ground is
+ * often partial (chafed insulation in water: a kilohm or a few); a high-resistance ground ranges from tens of ohms
+ * to a kilohm.
  */
 const CAUSE_ALTERNATIVES: Record<string, Array<{ weight: number; faults: FaultSpec[] }>> = {
+  signal_short_ground: [
+    { weight: 0.6, faults: [{ kind: 'short_to_ground', wire: 'signal' }] },
+    { weight: 0.2, faults: [{ kind: 'short_to_ground', wire: 'signal', ohms: 1000 }] },
+    { weight: 0.2, faults: [{ kind: 'short_to_ground', wire: 'signal', ohms: 4000 }] },
+  ],
+  ground_high_resistance: [
+    { weight: 0.5, faults: [{ kind: 'high_resistance', wire: 'ground', ohms: 200 }] },
+    { weight: 0.25, faults: [{ kind: 'high_resistance', wire: 'ground', ohms: 50 }] },
+    { weight: 0.25, faults: [{ kind: 'high_resistance', wire: 'ground', ohms: 1000 }] },
+  ],
   reference_supply_failed: [
     { weight: 0.4, faults: [{ kind: 'module_internal', variant: 'dead_regulator' }] },
     { weight: 0.2, faults: [{ kind: 'module_internal', variant: 'weak_regulator', ohms: 500 }] },

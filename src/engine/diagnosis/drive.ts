@@ -42,8 +42,13 @@ export const checklistChooser: TestChooser = (tree, d) => {
   return [...tree.tests].sort((a, b) => rank(a) - rank(b) || a.index - b.index).find((t) => !done.has(t.id));
 };
 
-/** The exact optimal policy (V by dynamic programming), with a memo shared across cases of one tree. */
+/**
+ * The exact optimal policy (V by dynamic programming), with a memo shared across cases of one tree. It plans on the
+ * outcome tables averaged over the circuit classes by their prior (fixed tables, so the memo stays valid); the
+ * engine's own tables follow the class posterior.
+ */
 export function exactChooser(options: DiagnosisOptions = {}, memo: ExactMemo = newExactMemo()): TestChooser {
+  const fixed = new WeakMap<Tree, ReturnType<typeof policyModel>>();
   return (tree, d) => {
     const done = new Int16Array(tree.tests.length).fill(-1);
     const evidence = groupEvidence(
@@ -54,7 +59,8 @@ export function exactChooser(options: DiagnosisOptions = {}, memo: ExactMemo = n
       }),
     );
     const post = posterior(tree, evidence);
-    const model = policyModel(tree, resolve(tree, options).resolved, planningLikelihoods(tree, post));
+    let model = fixed.get(tree);
+    if (!model) fixed.set(tree, (model = policyModel(tree, resolve(tree, options).resolved, planningLikelihoods(tree))));
     for (const e of evidence) done[e.test] = e.outcome;
     const settled = settledTests(tree, d);
     tree.tests.forEach((t) => done[t.index] === -1 && settled.has(t.id) && (done[t.index] = -2));

@@ -17,6 +17,9 @@ export const DEFAULT_LIKELIHOOD_FLOOR = 0.02;
 export const DEFAULT_CONCLUDE_AT = 0.95;
 /** The cause that stands for "the circuit tests good now" (its readings are the healthy circuit's). */
 export const HEALTHY_CAUSE = 'no_fault_now';
+const WIRES: readonly string[] = ['reference', 'signal', 'ground'];
+/** A reading of the working circuit: connector mated, key on (a weak supply or a partial short shows under load). */
+export const isLoaded = (t: Test) => t.request.connector !== 'unplugged' && t.request.key === 'on';
 
 export type LoadResult = { ok: true; tree: Tree; findings: Finding[] } | { ok: false; findings: Finding[] };
 
@@ -125,6 +128,7 @@ export function loadTree(json: unknown): LoadResult {
     hypotheses,
     unknownIndex: hypotheses.findIndex((h) => h.unknown),
     healthyIndex: hypotheses.findIndex((h) => h.id === HEALTHY_CAUSE),
+    wires: [...new Set(tests.filter(isLoaded).map((t) => t.request.at).filter((at) => WIRES.includes(at)))],
     logPrior: Float64Array.from(hypotheses, (h) => Math.log(h.prior)),
     classes,
     logClassPrior: Float64Array.from(classes, (c) => Math.log(c.weight)),

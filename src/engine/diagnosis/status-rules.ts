@@ -21,6 +21,7 @@ import {
 import type { CheckedReading } from './reading-checks';
 import type { TreeRequest } from './request-key';
 import type { Test, Tree } from './tree-model';
+import { isLoaded } from './load-tree';
 
 export type DiagnosisStatus = 'testing' | 'concluded' | 'recheck' | 'crank_and_reread' | 'exhausted';
 export type NextTestReason = 'lowest_expected_cost' | 'recheck_indeterminate' | 'recheck_contradiction' | 'crank_and_reread' | 'wiggle_test';
@@ -113,6 +114,26 @@ function rankTests(ctx: RuleContext): Choice | undefined {
   };
 }
 
+/**
+ * "No fault now" is not concluded while a wire of the working circuit (connector mated, key on) has not been read:
+ * a fault the tree does not model well (a partial short, a supply that sags only under load) can hide there. The
+ * cheapest open test on such a wire comes first.
+ */
+function wireStillToRead(ctx: RuleContext): Decision | undefined {
+  const loaded = (t: number) => isLoaded(ctx.tree.tests[t]!);
+  const read = new Set<string>(ctx.evidence.filter((e) => loaded(e.test)).map((e) => ctx.tree.tests[e.test]!.request.at));
+  const missing = ctx.tree.wires.filter((w) => !read.has(w));
+  const candidates = openTests(ctx.state).filter((t) => loaded(t) && missing.includes(ctx.tree.tests[t]!.request.at));
+  if (!candidates.length) return undefined;
+  const t = candidates.reduce((a, b) => (testCost(ctx.model, ctx.state, b) < testCost(ctx.model, ctx.state, a) ? b : a));
+  const test = ctx.tree.tests[t]!;
+  return {
+    status: 'testing',
+    choice: { test, reason: 'lowest_expected_cost', request: test.request, expectedMinutes: testCost(ctx.model, ctx.state, t) },
+    findings: [finding('diagnosis.wire_not_read', 'tests', `the circuit reads good so far, but the ${missing.join(' and ')} wire has not been read with the circuit working: one more test before "no fault now"`, 'info')],
+  };
+}
+
 export const STATUS_RULES: readonly StatusRule[] = [
   {
     name: 'indeterminate reading',
@@ -179,6 +200,8 @@ export const STATUS_RULES: readonly StatusRule[] = [
     decide: (ctx) => {
       const leader = argmax(ctx.posterior.p);
       if (ctx.posterior.p[leader]! < ctx.options.concludeAt) return undefined;
+      const unread = leader === ctx.tree.healthyIndex ? wireStillToRead(ctx) : undefined;
+      if (unread) return unread;
       if (!ctx.leaderContradictedBy.length) return { status: 'concluded', findings: [] };
       const h = ctx.tree.hypotheses[leader]!;
       return [finding('diagnosis.leader_contradicted', 'readings', `"${h.label}" leads but reading(s) ${ctx.leaderContradictedBy.join(', ')} fall outside what it predicts: not concluded`, 'warning')];

@@ -6,6 +6,7 @@ import { finding, joinPath, type Finding } from './findings';
 import { checkCondition, conditionInterval } from './outcome-rules';
 import { cautionKind } from './cautions';
 import { requestKey } from './request-key';
+import { QUANTILE_LEVELS } from './predictive';
 import type { TreeDocument } from './tree-schema';
 
 interface TreeCheck {
@@ -105,6 +106,29 @@ export const TREE_CHECKS: readonly TreeCheck[] = [
         });
         const bands = Object.keys(t.bands ?? {}).filter((hid) => !hyps.has(hid)).map((hid) => finding('tree.bands_unknown_hypothesis', joinPath('tests', i, 'bands', hid), `no hypothesis with id "${hid}"`));
         return [...missing, ...rows, ...bands];
+      });
+    },
+  },
+  {
+    name: 'predictive cells',
+    run: (doc) => {
+      const nClasses = doc.derivation?.classes?.length ?? doc.derivation?.variants?.length ?? 1;
+      const hyps = new Set(doc.hypotheses.map((h) => h.id));
+      return doc.tests.flatMap((t, i) => {
+        if (!t.predictive) return [];
+        const path = joinPath('tests', i, 'predictive');
+        const { cells, index } = t.predictive;
+        const bad = cells.flatMap((c, k) =>
+          (c.q.length === QUANTILE_LEVELS.length || (c.q.length === 0 && c.overload === 1)) && c.q.every((x, j) => j === 0 || x >= c.q[j - 1]!)
+            ? []
+            : [finding('tree.predictive_cell_invalid', joinPath(path, 'cells', k, 'q'), `expected ${QUANTILE_LEVELS.length} non-decreasing quantiles (or none with overload 1)`)],
+        );
+        for (const [hid, row] of Object.entries(index)) {
+          if (!hyps.has(hid)) bad.push(finding('tree.predictive_unknown_hypothesis', joinPath(path, 'index', hid), `no hypothesis with id "${hid}"`));
+          else if (row.length !== nClasses) bad.push(finding('tree.predictive_classes_mismatch', joinPath(path, 'index', hid), `expected one cell per class (${nClasses}), got ${row.length}`));
+          else if (row.some((k) => k >= cells.length)) bad.push(finding('tree.predictive_cell_missing', joinPath(path, 'index', hid), `a cell index beyond the ${cells.length} cells`));
+        }
+        return bad;
       });
     },
   },

@@ -99,6 +99,8 @@ export interface Tree {
   unknownIndex: number;
   /** Index of the "no fault now" cause (the circuit tests good), or -1. */
   healthyIndex: number;
+  /** Wires the tests probe on the working circuit (mated, key on): each must be read so before "no fault now". */
+  wires: string[];
   logPrior: Float64Array;
   /** Latent classes (one for trees without predictive densities). */
   classes: LatentClass[];

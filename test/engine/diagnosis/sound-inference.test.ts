@@ -38,6 +38,18 @@ describe('a circuit that tests good is not blamed on a part', () => {
     expect(d.nextTest!.id).toMatch(/ground/);
   });
 
+  it('reads the reference on the working circuit before saying "no fault now" (a weak supply sags only under load)', async () => {
+    // Healthy values on the model: reference unplugged 5.00 V, signal 0.76 V near closed, ground drop 0 V.
+    const values: Array<[string, number]> = [['signal_backprobed', 0.76], ['scan_signal_plugged', 0.762], ['ground_drop_backprobed', 0.0], ['reference_unplugged', 5.0], ['signal_unplugged', 4.88], ['jumper_signal_to_ground', 0.0], ['ground_ohms_to_battery', 0.2], ['scan_signal_unplugged', 5.0]];
+    const d = await diagnose(threeWire, values.map(([id, v]) => at(threeWire, id, v)));
+    expect(p(d, 'no_fault_now')).toBeGreaterThanOrEqual(0.95);
+    expect(d.status).toBe('testing');
+    expect(d.findings.some((f) => f.code === 'diagnosis.wire_not_read')).toBe(true);
+    expect(d.nextTest!.id).toBe('reference_backprobed');
+    const done = await diagnose(threeWire, [...values, ['reference_backprobed', 5.0] as [string, number]].map(([id, v]) => at(threeWire, id, v)));
+    expect(done.conclusion?.hypothesisId ?? 'none').not.toBe('reference_supply_failed');
+  });
+
   it('gives every built-in tree the "no fault now" cause with no repair part', () => {
     for (const tree of Object.values(builtInTrees())) expect(tree.hypotheses.find((h) => h.id === 'no_fault_now')?.part, tree.id).toBe('none');
   });

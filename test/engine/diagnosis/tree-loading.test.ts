@@ -31,6 +31,8 @@ describe('loading fault trees', () => {
     ['two tests with the same request', (d) => (d.tests[4]!.request = structuredClone(d.tests[0]!.request)), 'tree.duplicate_request', 'tests[4].request'],
     ['a scan request without a parameter', (d) => delete d.tests[3]!.request.pid, 'tree.request.pid_missing', 'tests[3].request.pid'],
     ['a volts request without a second lead', (d) => delete d.tests[0]!.request.against, 'tree.request.against_missing', 'tests[0].request.against'],
+    ['a predictive cell with too few quantiles', (d) => (d.tests[1]!.predictive!.cells[0]!.q = [0.1, 0.2]), 'tree.predictive_cell_invalid', 'tests[1].predictive.cells[0].q'],
+    ['a cause with a cell for too few circuit classes', (d) => (d.tests[1]!.predictive!.index['signal_open'] = [0]), 'tree.predictive_classes_mismatch', 'tests[1].predictive.index.signal_open'],
     ['an unknown probe point', (d) => ((d.tests[0]!.request as { at: string }).at = 'pin_7'), 'tree.schema.invalid_value', 'tests[0].request.at'],
   ])('refuses %s with a coded finding at its JSON path', (_name, mutate, code, path) => {
     const doc = base();
