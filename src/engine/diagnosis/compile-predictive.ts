@@ -21,21 +21,26 @@ export function partitionOf(intervals: Interval[]): Array<{ lo: number; hi: numb
   return out;
 }
 
-export function compilePredictive(block: PredictiveDocument, test: TestDocument, doc: TreeDocument, nClasses: number, intervals: Interval[]): CompiledPredictive {
+/**
+ * `latent` lists the tree's latent slots (alternative a, class c); a cause with fewer alternatives than slots has
+ * no cell (-1, weight 0) in the slots beyond its own.
+ */
+export function compilePredictive(block: PredictiveDocument, test: TestDocument, doc: TreeDocument, latent: ReadonlyArray<{ alternative: number; klass: number }>, nClasses: number, intervals: Interval[]): CompiledPredictive {
   const cells: Cell[] = block.cells.map((c) => ({ q: Float64Array.from(c.q), overload: c.overload ?? 0 }));
   const nH = doc.hypotheses.length;
   const nO = test.outcomes.length;
-  const cellOf = new Int32Array(nH * nClasses).fill(-1);
+  const nL = latent.length;
+  const cellOf = new Int32Array(nH * nL).fill(-1);
   doc.hypotheses.forEach((h, hi) => {
     const row = block.index[h.id];
-    if (!h.unknown && row) for (let c = 0; c < nClasses; c++) cellOf[hi * nClasses + c] = row[c] ?? -1;
+    if (!h.unknown && row) latent.forEach((l, k) => (cellOf[hi * nL + k] = row[l.alternative * nClasses + l.klass] ?? -1));
   });
   const partition = partitionOf(intervals);
   const quantity = test.request.quantity;
   const broad = partition.map((b) => broadMass(quantity, b.lo, b.hi));
   const core = cells.map((cell) => partition.map((b) => coreMass(cell, b.lo, b.hi, quantity)));
-  const bandLike = new Float64Array(nH * nClasses * nO);
-  for (let k = 0; k < nH * nClasses; k++) {
+  const bandLike = new Float64Array(nH * nL * nO);
+  for (let k = 0; k < nH * nL; k++) {
     const cell = cellOf[k]!;
     let sum = 0;
     for (let o = 0; o < nO; o++) sum += bandLike[k * nO + o] = cell < 0 ? broad[o]! : (1 - OUTLIER_WEIGHT) * core[cell]![o]! + OUTLIER_WEIGHT * broad[o]!;

@@ -2,13 +2,14 @@
  * Predictive densities from the circuit model: for every test, cause and latent class of circuit (module bias
  * direction and resistance, sensor position or temperature), draw the reading by Monte Carlo over the part spreads
  * and store its quantiles and overload share (a cell; identical cells are stored once). The meter's error is not
- * drawn here: the engine adds it as a kernel when it weighs a reading. Outcome-band probabilities and p5–p95 bands
- * are recorded beside them for people and for trees without a predictive block. The same seed gives the same file.
+ * drawn here: the engine adds it as a kernel when it weighs a reading. Outcome-band probabilities (over the outcomes
+ * as a partition) and p5–p95 bands are recorded beside them for people. The same seed gives the same file.
  */
-import { causeAlternatives, defaultCircuit, percentile, sampleReadings, type DefaultCircuitOptions, type Spreads } from '../circuit';
+import { causeAlternatives, defaultCircuit, percentile, sampleReadings, type DefaultCircuitOptions, type FaultSpec, type Spreads } from '../circuit';
 import { CIRCUIT_KINDS, type CircuitKind, type MeasurementRequest } from '../vocabulary';
 import { finding, joinPath, type Finding } from './findings';
 import { conditionInterval } from './outcome-rules';
+import { partitionOf } from './compile-predictive';
 import { coreMass, QUANTILE_LEVELS, type Cell } from './predictive';
 import type { BandsDocument, ClassDocument, PredictiveDocument, TestDocument, TreeDocument } from './tree-schema';
 
@@ -34,19 +35,14 @@ export function classesOf(doc: TreeDocument): ClassDocument[] {
 }
 
 /** Sorted readings of one cell, or why the model cannot predict it. */
-function sampleCell(kind: CircuitKind, cls: ClassDocument, cause: string, test: TestDocument, spreads: Partial<Spreads>, opts: DeriveOptions): { values: Float64Array } | { problem: string } {
-  const alternatives = causeAlternatives(cause);
-  if (!alternatives) return { problem: `the circuit model has no faults for "${cause}"` };
-  const totalWeight = alternatives.reduce((a, x) => a + x.weight, 0);
+function sampleCell(kind: CircuitKind, cls: ClassDocument, faults: FaultSpec[], test: TestDocument, spreads: Partial<Spreads>, opts: DeriveOptions): { values: Float64Array } | { problem: string } {
   const parts: Float64Array[] = [];
   for (const [j, options] of cls.circuits.entries()) {
     const circuit = defaultCircuit(kind, options as DefaultCircuitOptions);
-    for (const [k, alt] of alternatives.entries()) {
-      const samples = Math.max(1, Math.round((opts.samples * alt.weight) / totalWeight / cls.circuits.length));
-      const sampled = sampleReadings({ circuit, faults: alt.faults, request: circuitRequest(test.request), samples, seed: opts.seed + 97 * j + k, spreads: { ...spreads, meterError: false } });
-      if (!sampled.ok) return { problem: sampled.findings.map((f) => f.message).join('; ') };
-      parts.push(sampled.values);
-    }
+    const samples = Math.max(1, Math.round(opts.samples / cls.circuits.length));
+    const sampled = sampleReadings({ circuit, faults, request: circuitRequest(test.request), samples, seed: opts.seed + 97 * j, spreads: { ...spreads, meterError: false } });
+    if (!sampled.ok) return { problem: sampled.findings.map((f) => f.message).join('; ') };
+    parts.push(sampled.values);
   }
   const values = new Float64Array(parts.reduce((a, p) => a + p.length, 0));
   let at = 0;
@@ -79,12 +75,22 @@ export function deriveLikelihoods(doc: TreeDocument, opts: DeriveOptions): { doc
   const classes = classesOf(doc);
   const spreads = (doc.derivation?.spreads ?? {}) as Partial<Spreads>;
   const totalWeight = classes.reduce((a, c) => a + c.weight, 0);
+  const alternatives: Record<string, number[]> = {};
+  const faultsOf = new Map<string, Array<{ weight: number; faults: FaultSpec[] }> | undefined>();
+  for (const h of doc.hypotheses) {
+    if (h.unknown) continue;
+    const alts = causeAlternatives(h.id);
+    faultsOf.set(h.id, alts);
+    if (alts && alts.length > 1) alternatives[h.id] = alts.map((a) => a.weight);
+  }
   const tests = doc.tests.map((test, ti) => {
     const intervals = test.outcomes.map((o) => conditionInterval(o.condition));
     if (intervals.some((r) => !r)) {
       findings.push(finding('derive.outcome_not_a_range', joinPath('tests', ti, 'outcomes'), 'every outcome must be a plain range on the value to derive likelihoods'));
       return test;
     }
+    // Band probabilities over the outcomes as a partition (guard bands split at their middle), as the engine plans.
+    const partition = partitionOf(intervals.map((r) => r!));
     const cells: PredictiveDocument['cells'] = [];
     const cellIds = new Map<string, number>();
     const index: Record<string, number[]> = {};
@@ -94,22 +100,25 @@ export function deriveLikelihoods(doc: TreeDocument, opts: DeriveOptions): { doc
       if (h.unknown) continue;
       const row = new Float64Array(test.outcomes.length);
       const pooled: Float64Array[] = [];
-      index[h.id] = classes.map((cls) => {
-        const sampled = sampleCell(kind, cls, h.id, test, spreads, opts);
+      const alts = faultsOf.get(h.id) ?? [{ weight: 1, faults: undefined }];
+      const altWeight = alts.reduce((a, x) => a + x.weight, 0);
+      index[h.id] = alts.flatMap((alt) => classes.map((cls) => {
+        const share = (alt.weight / altWeight) * (cls.weight / totalWeight);
+        const sampled = alt.faults ? sampleCell(kind, cls, alt.faults, test, spreads, opts) : { problem: `the circuit model has no faults for "${h.id}"` };
         if ('problem' in sampled) {
           findings.push(finding('derive.cell_broad', joinPath('tests', ti, 'predictive', h.id), `broad density: ${sampled.problem}`, 'info'));
-          test.outcomes.forEach((_, o) => (row[o]! += cls.weight / totalWeight / test.outcomes.length));
+          test.outcomes.forEach((_, o) => (row[o]! += share / test.outcomes.length));
           return -1;
         }
         pooled.push(sampled.values);
         const cell = toCell(sampled.values);
         const key = JSON.stringify(cell);
         if (!cellIds.has(key)) cellIds.set(key, cells.push(cell) - 1);
-        const masses = intervals.map((r) => coreMass(asCell(cell), r!.lo, r!.hi, test.request.quantity));
+        const masses = partition.map((r) => Math.max(0, coreMass(asCell(cell), r.lo, r.hi, test.request.quantity)));
         const determinate = masses.reduce((a, b) => a + b, 0);
-        masses.forEach((m, o) => (row[o]! += (cls.weight / totalWeight) * (determinate > 0 ? m / determinate : 1 / masses.length)));
+        masses.forEach((m, o) => (row[o]! += share * (determinate > 0 ? m / determinate : 1 / masses.length)));
         return cellIds.get(key)!;
-      });
+      }));
       likelihoods[h.id] = Object.fromEntries(test.outcomes.map((o, oi) => [o.id, round(row[oi]!)]));
       if (pooled.length) {
         const all = Float64Array.from(pooled.flatMap((p) => Array.from(p))).sort();
@@ -120,7 +129,7 @@ export function deriveLikelihoods(doc: TreeDocument, opts: DeriveOptions): { doc
     return { ...test, likelihoods, bands, predictive: { cells, index } };
   });
   return {
-    document: { ...doc, tests, derivation: { ...doc.derivation, method: 'circuit_model_monte_carlo', seed: opts.seed, samples: opts.samples, classes } },
+    document: { ...doc, tests, derivation: { ...doc.derivation, method: 'circuit_model_monte_carlo', seed: opts.seed, samples: opts.samples, classes, alternatives } },
     findings,
   };
 }

@@ -62,7 +62,7 @@ export function planningLikelihoods(tree: Tree, post?: Posterior): Float64Array[
     const like = new Float64Array(nH * nO);
     for (let h = 0; h < nH; h++)
       for (let c = 0; c < nC; c++) {
-        const w = post ? post.classGivenCause[h * nC + c]! : tree.classes[c]!.weight;
+        const w = post ? post.classGivenCause[h * nC + c]! : Math.exp(tree.logLatentPrior[h * nC + c]!);
         if (w < 1e-12) continue;
         for (let o = 0; o < nO; o++) like[h * nO + o] = like[h * nO + o]! + w * pred.bandLike[(h * nC + c) * nO + o]!;
       }

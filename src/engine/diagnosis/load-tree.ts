@@ -43,7 +43,7 @@ function addRequiredCautions(doc: TreeDocument, findings: Finding[]): TreeDocume
 
 const toCautions = (ids: string[]): Caution[] => ids.map((id) => ({ id, text: cautionKind(id)!.text }));
 
-function compileTest(t: TestDocument, index: number, doc: TreeDocument, setups: Setup[], floor: number, nClasses: number): Test {
+function compileTest(t: TestDocument, index: number, doc: TreeDocument, setups: Setup[], floor: number, latent: LatentClass[], nClasses: number): Test {
   const nO = t.outcomes.length;
   const nH = doc.hypotheses.length;
   const like = new Float64Array(nH * nO);
@@ -54,7 +54,7 @@ function compileTest(t: TestDocument, index: number, doc: TreeDocument, setups: 
   });
   const mine = setups.filter((s) => t.setups.includes(s.id));
   const intervals = t.outcomes.map((o) => conditionInterval(o.condition));
-  const predictive = t.predictive && intervals.every((r) => r) ? compilePredictive(t.predictive, t, doc, nClasses, intervals.map((r) => r!)) : undefined;
+  const predictive = t.predictive && intervals.every((r) => r) ? compilePredictive(t.predictive, t, doc, latent, nClasses, intervals.map((r) => r!)) : undefined;
   const crankable = t.request.quantity === 'scan_value' && t.request.key === 'on' && t.request.engine === 'off';
   const crankRequest = crankable ? withConditions(t.request, { engine: 'cranking' }) : undefined;
   return {
@@ -107,8 +107,18 @@ export function loadTree(json: unknown): LoadResult {
   const predictiveTree = doc.tests.some((t) => t.predictive);
   const classDocs = predictiveTree ? classesOf(doc) : [{ id: 'any', weight: 1 }];
   const classWeight = classDocs.reduce((a, c) => a + c.weight, 0);
-  const classes: LatentClass[] = classDocs.map((c, index) => ({ index, id: c.id, weight: c.weight / classWeight }));
-  const tests = doc.tests.map((t, i) => compileTest(t, i, doc, setups, floor, classes.length));
+  const alternatives = (predictiveTree && doc.derivation?.alternatives) || {};
+  const slots = Math.max(1, ...Object.values(alternatives).map((w) => w.length));
+  const classes: LatentClass[] = Array.from({ length: slots }, (_, a) =>
+    classDocs.map((c, k) => ({ index: a * classDocs.length + k, id: slots > 1 ? `${a}:${c.id}` : c.id, weight: c.weight / classWeight, alternative: a, klass: k })),
+  ).flat();
+  const logLatentPrior = new Float64Array(doc.hypotheses.length * classes.length);
+  doc.hypotheses.forEach((h, hi) => {
+    const w = alternatives[h.id] ?? [1];
+    const sum = w.reduce((x, y) => x + y, 0);
+    for (const l of classes) logLatentPrior[hi * classes.length + l.index] = l.alternative < w.length ? Math.log((w[l.alternative]! / sum) * l.weight) : -Infinity;
+  });
+  const tests = doc.tests.map((t, i) => compileTest(t, i, doc, setups, floor, classes, classDocs.length));
   const testByRequest = new Map<string, Test>(tests.map((t) => [requestKey(t.request), t]));
   for (const t of tests) {
     if (!t.crankRequest) continue;
@@ -131,7 +141,7 @@ export function loadTree(json: unknown): LoadResult {
     wires: [...new Set(tests.filter(isLoaded).map((t) => t.request.at).filter((at) => WIRES.includes(at)))],
     logPrior: Float64Array.from(hypotheses, (h) => Math.log(h.prior)),
     classes,
-    logClassPrior: Float64Array.from(classes, (c) => Math.log(c.weight)),
+    logLatentPrior,
     setups,
     tests,
     testByRequest,

@@ -76,7 +76,7 @@ export function posterior(tree: Tree, evidence: readonly Evidence[]): Posterior 
   const nH = tree.hypotheses.length;
   const nC = tree.classes.length;
   const w = new Float64Array(nH * nC);
-  for (let h = 0; h < nH; h++) for (let c = 0; c < nC; c++) w[h * nC + c] = tree.logPrior[h]! + tree.logClassPrior[c]!;
+  for (let h = 0; h < nH; h++) for (let c = 0; c < nC; c++) w[h * nC + c] = tree.logPrior[h]! + tree.logLatentPrior[h * nC + c]!;
   let logLeak = 0;
   const leak = tree.unknownIndex * nC;
   const weighed: Weighed[] = [];
@@ -86,7 +86,7 @@ export function posterior(tree: Tree, evidence: readonly Evidence[]): Posterior 
       const like = new Float64Array(nH * nC);
       clusterLikelihoods(tree, test, cluster, e.intermittent, like);
       weighed.push({ evidence: e, cluster, like, broad: test.predictive ? broadDensity(test.request.quantity, cluster.y) : 1 / test.outcomes.length });
-      for (let k = 0; k < w.length; k++) w[k] = w[k]! + Math.log(like[k]!);
+      for (let k = 0; k < w.length; k++) if (w[k] !== -Infinity) w[k] = w[k]! + Math.log(like[k]!);
       logLeak += Math.log(like[leak]!);
     }
   }

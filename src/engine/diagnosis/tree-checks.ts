@@ -125,7 +125,8 @@ export const TREE_CHECKS: readonly TreeCheck[] = [
         );
         for (const [hid, row] of Object.entries(index)) {
           if (!hyps.has(hid)) bad.push(finding('tree.predictive_unknown_hypothesis', joinPath(path, 'index', hid), `no hypothesis with id "${hid}"`));
-          else if (row.length !== nClasses) bad.push(finding('tree.predictive_classes_mismatch', joinPath(path, 'index', hid), `expected one cell per class (${nClasses}), got ${row.length}`));
+          else if (row.length !== nClasses * (doc.derivation?.alternatives?.[hid]?.length ?? 1))
+            bad.push(finding('tree.predictive_classes_mismatch', joinPath(path, 'index', hid), `expected one cell per class (${nClasses}) and alternative of the cause, got ${row.length}`));
           else if (row.some((k) => k >= cells.length)) bad.push(finding('tree.predictive_cell_missing', joinPath(path, 'index', hid), `a cell index beyond the ${cells.length} cells`));
         }
         return bad;

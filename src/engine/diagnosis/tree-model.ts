@@ -81,8 +81,10 @@ export interface CompiledPredictive {
 export interface LatentClass {
   index: number;
   id: string;
-  /** Prior share, normalised. */
+  /** Prior share of the circuit class, normalised. */
   weight: number;
+  alternative: number;
+  klass: number;
 }
 
 export interface Tree {
@@ -102,9 +104,13 @@ export interface Tree {
   /** Wires the tests probe on the working circuit (mated, key on): each must be read so before "no fault now". */
   wires: string[];
   logPrior: Float64Array;
-  /** Latent classes (one for trees without predictive densities). */
+  /**
+   * Latent slots shared by every reading of a circuit: (cause alternative, circuit class), one for trees without
+   * predictive densities.
+   */
   classes: LatentClass[];
-  logClassPrior: Float64Array;
+  /** log P(slot | cause) at h * classes.length + c (−Infinity where a cause has no such alternative). */
+  logLatentPrior: Float64Array;
   setups: Setup[];
   tests: Test[];
   /** Request key → test, including the cranking re-read keys. */

@@ -44,7 +44,10 @@ const classSchema = z.strictObject({ id, weight: z.number().positive(), circuits
 /** Predicted readings per cause and class: quantile cells (stored once each) and, per cause, one cell per class. */
 const predictiveSchema = z.strictObject({
   cells: z.array(z.strictObject({ q: z.array(z.number()), overload: z.number().min(0).max(1).optional() })),
-  /** Per cause id, the cell index of each class in `derivation.classes` order; -1 = the model cannot predict it. */
+  /**
+   * Per cause id, the cell index of each (alternative, class), alternative-major in `derivation.classes` order;
+   * -1 = the model cannot predict it.
+   */
   index: z.record(z.string(), z.array(z.number().int().min(-1))),
 });
 
@@ -105,6 +108,11 @@ export const treeDocumentSchema = z.strictObject({
       samples: z.number().int().positive().optional(),
       variants: z.array(variantSchema).min(1).optional(),
       classes: z.array(classSchema).min(1).optional(),
+      /**
+       * Causes that stand for several faults (a dead or a weak supply): the weight of each. Which one it is, like the
+       * class, is one property of the circuit: the predictive index holds one cell per (alternative, class).
+       */
+      alternatives: z.record(z.string(), z.array(z.number().positive()).min(2)).optional(),
       /** Part spreads for the Monte Carlo (the circuit model's Spreads), overriding its defaults. */
       spreads: z.record(z.string(), z.unknown()).optional(),
       note: text.optional(),

