@@ -216,13 +216,19 @@ export function drawOomCase(tree: OomTreeId, cause: string, index: number, seed:
 
 /**
  * Redraws faults that leave no trace a tree test could see: a "weak" supply must sag below 4.6 V where the
- * sensor takes its supply, and a module input that misreads must misread by more than 0.5 V.
+ * sensor takes its supply, a module input that misreads must misread by more than 0.5 V, and a three-wire sensor
+ * faulty inside must put its signal outside its working range (no tree test moves the sensor, so a wrong value
+ * inside the range looks like another position).
  */
 function showsItself(c: OomCase): boolean {
   if (!('kind' in c.circuit)) return sharedTrueValue(c.circuit, c.instruments, { ...REFERENCE_AT_SENSOR, sensor: 'throttle' }) < 4.5;
   if (c.cause === 'reference_supply_failed' && c.circuit.supply.volts > 1) {
     const probe = c.circuit.kind === 'three_wire_5v' ? REFERENCE_AT_SENSOR : { ...REFERENCE_AT_SENSOR, at: 'signal' as const, connector: 'unplugged' as const };
     return trueValue(c.circuit, c.instruments, probe) < 4.6;
+  }
+  if (c.cause === 'sensor_internal' && c.circuit.kind === 'three_wire_5v') {
+    const signal = trueValue(c.circuit, c.instruments, { ...REFERENCE_AT_SENSOR, at: 'signal' });
+    return signal < 0.3 || signal > 4.7;
   }
   if (c.adcStuck !== undefined) return Math.abs(Math.min(5, trueValue(c.circuit, c.instruments, KEY_ON_PLUGGED)) - c.adcStuck) > 0.5;
   return true;
