@@ -27,7 +27,6 @@ const HYPOTHESIS_FAULTS = {
   module_internal_input: [{ kind: 'module_internal', variant: 'dead_input' }],
   module_internal_regulator: [{ kind: 'module_internal', variant: 'dead_regulator' }],
   module_internal_weak_regulator: [{ kind: 'module_internal', variant: 'weak_regulator' }],
-  reference_supply_failed: [{ kind: 'module_internal', variant: 'dead_regulator' }],
 } as const satisfies Record<string, readonly FaultSpec[]>;
 
 export type HypothesisId = keyof typeof HYPOTHESIS_FAULTS;

@@ -3,7 +3,7 @@
  * (part spreads, circuit variant), and answer each requested measurement with the circuit model's prediction plus
  * the meter's stated error. Deterministic per seed. Tooling around the engine, not part of a diagnosis.
  */
-import { DEFAULT_METER, defaultCircuit, defaultSpreads, faultsFor, mulberry32, predictReading, type CircuitSpec, type DefaultCircuitOptions, type FaultSpec, type Random } from '../circuit';
+import { DEFAULT_METER, causeAlternatives, defaultCircuit, defaultSpreads, mulberry32, predictReading, type CircuitSpec, type DefaultCircuitOptions, type FaultSpec, type Random } from '../circuit';
 import type { CircuitKind } from '../vocabulary';
 import type { TreeRequest } from './request-key';
 import type { Tree } from './tree-model';
@@ -43,7 +43,9 @@ export function drawCase(tree: Tree, random: Random, force: { hypothesisId?: str
   const sensor = circuit.sensor;
   if (sensor.kind === 'potentiometer') sensor.position = Math.min(0.98, Math.max(0.02, sensor.position + spreads.sensorTolerance * (2 * random() - 1)));
   if (sensor.kind === 'thermistor') sensor.temperatureC += 2 * (2 * random() - 1);
-  return { hypothesisId: hyp.id, variantId: variant.id, circuit, faults: faultsFor(hyp.id) ?? [], noiseSeed: Math.floor(random() * 2 ** 31) };
+  // A cause that stands for several faults (a dead or a weak supply, a solid or a partial short) draws one of them.
+  const faults = pick(causeAlternatives(hyp.id) ?? [{ weight: 1, faults: [] }], random).faults;
+  return { hypothesisId: hyp.id, variantId: variant.id, circuit, faults, noiseSeed: Math.floor(random() * 2 ** 31) };
 }
 
 function hashString(s: string): number {
