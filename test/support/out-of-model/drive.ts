@@ -1,0 +1,113 @@
+/**
+ * Lets a diagnosis run on an out-of-model case: ask `diagnose`, take the reading its next test names (value from
+ * our own circuit model and instruments), repeat until it concludes, has no test left, or reaches the step cap.
+ * With a chooser (the fixed checklist) the chooser picks the test while the engine is plainly testing; re-checks
+ * and crank-and-reread requests are the engine's either way. Scoring:
+ *
+ * - right: proven (status "concluded" at or above the threshold) on the true cause;
+ * - confidently wrong: proven on any other cause;
+ * - undecided: everything else (no test left, "not proven", step cap). For a healthy circuit (`no_fault_now`)
+ *   only a proven `no_fault_now` is right; undecided is safe but not right; proven as a wire or part fault
+ *   (any cause whose repair names a part, not "none" or "unknown") is the worst error and is counted on its own.
+ */
+import { diagnose, requestKey, type Diagnosis, type DiagnosisOptions, type Reading, type Tree } from '../../../src/engine/diagnosis';
+import type { TestChooser } from '../../../src/engine/diagnosis/drive';
+import type { TreeRequest } from '../../../src/engine/diagnosis/request-key';
+import { answerOomRequest, type OomCase } from './cases';
+
+export type Verdict = 'right' | 'confidently_wrong' | 'undecided';
+
+export interface OomRun {
+  verdict: Verdict;
+  /** The proven cause, or null. */
+  proven: string | null;
+  /** A healthy circuit proven as a wire or part fault. */
+  healthyBlamed: boolean;
+  /** Proven on a wrong cause whose repair names a wire or part (not "none" or "unknown"). */
+  wrongPartBlamed: boolean;
+  /** Proven wrongly as `no_fault_now` (a fault missed) or as `unknown` (not modelled). */
+  wrongNoFault: boolean;
+  wrongUnknown: boolean;
+  status: Diagnosis['status'];
+  readings: number;
+  minutes: number;
+  /** Milliseconds per `diagnose` call (a full recompute). */
+  latencies: number[];
+  last: Diagnosis;
+  taken: Reading[];
+}
+
+export const STEP_CAP = 40;
+
+/** A conclusion counts only when proven (the shape of the contract between the engine and its readers). */
+export function isProven(d: Diagnosis): boolean {
+  return d.status === 'concluded' && d.conclusion !== null && d.conclusion.reachedThreshold !== false;
+}
+
+/** Parts whose conclusion sends a technician to repair a wire or replace a part. */
+export function blamesAPart(tree: Tree, hypothesisId: string): boolean {
+  const part = tree.hypotheses.find((h) => h.id === hypothesisId)?.part;
+  return part !== undefined && part !== 'none' && part !== 'unknown';
+}
+
+export async function runOomCase(tree: Tree, c: OomCase, opts: { choose?: TestChooser; options?: DiagnosisOptions; maxSteps?: number } = {}): Promise<OomRun> {
+  const readings: Reading[] = [];
+  const latencies: number[] = [];
+  const attempts = new Map<string, number>();
+  const start = Date.parse('2026-01-05T08:00:00Z');
+  let paid = 0;
+  let minutes = 0;
+  for (let step = 0; ; step++) {
+    const t0 = performance.now();
+    const d = await diagnose(tree, readings, [], opts.options ?? {});
+    latencies.push(performance.now() - t0);
+    if (d.status === 'concluded' || d.status === 'exhausted' || !d.nextTest || step >= (opts.maxSteps ?? STEP_CAP)) {
+      const proven = isProven(d) ? d.conclusion!.hypothesisId : null;
+      const verdict: Verdict = proven === null ? 'undecided' : proven === c.cause ? 'right' : 'confidently_wrong';
+      const blames = proven !== null && blamesAPart(tree, proven);
+      return { verdict, proven, healthyBlamed: c.cause === 'no_fault_now' && blames, wrongPartBlamed: verdict === 'confidently_wrong' && blames, wrongNoFault: verdict === 'confidently_wrong' && proven === 'no_fault_now', wrongUnknown: verdict === 'confidently_wrong' && proven === 'unknown', status: d.status, readings: readings.length, minutes, latencies, last: d, taken: readings };
+    }
+    const override = d.status === 'testing' && opts.choose ? opts.choose(tree, d) : undefined;
+    const test = override ?? tree.tests.find((t) => t.id === d.nextTest!.id)!;
+    const request: TreeRequest = override ? test.request : d.nextTest.request;
+    minutes += test.minutes + test.setups.filter((s) => !((paid >> s.index) & 1)).reduce((a, s) => a + s.minutes, 0);
+    paid |= test.setupMask;
+    const key = requestKey(request);
+    const attempt = attempts.get(key) ?? 0;
+    attempts.set(key, attempt + 1);
+    const id = `r${step + 1}`;
+    if (!override && d.nextTest.recheckOf) {
+      const old = readings.find((r) => r.id === d.nextTest!.recheckOf);
+      if (old) old.supersededBy = id;
+    }
+    readings.push({ id, request, value: answerOomRequest(c, request, attempt), takenAt: new Date(start + (step + 1) * 60_000).toISOString(), phase: 'diagnosis' });
+  }
+}
+
+export interface Tally {
+  cases: number;
+  right: number;
+  confidentlyWrong: number;
+  undecided: number;
+  healthyBlamed: number;
+  wrongPartBlamed: number;
+  wrongNoFault: number;
+  wrongUnknown: number;
+  readings: number;
+  minutes: number;
+}
+
+export const emptyTally = (): Tally => ({ cases: 0, right: 0, confidentlyWrong: 0, undecided: 0, healthyBlamed: 0, wrongPartBlamed: 0, wrongNoFault: 0, wrongUnknown: 0, readings: 0, minutes: 0 });
+
+export function addRun(t: Tally, run: OomRun): void {
+  t.cases++;
+  if (run.verdict === 'right') t.right++;
+  else if (run.verdict === 'confidently_wrong') t.confidentlyWrong++;
+  else t.undecided++;
+  if (run.healthyBlamed) t.healthyBlamed++;
+  if (run.wrongPartBlamed) t.wrongPartBlamed++;
+  if (run.wrongNoFault) t.wrongNoFault++;
+  if (run.wrongUnknown) t.wrongUnknown++;
+  t.readings += run.readings;
+  t.minutes += run.minutes;
+}
