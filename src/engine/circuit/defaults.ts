@@ -41,8 +41,9 @@ function sensorFor(kind: CircuitKind, options: DefaultCircuitOptions): SensorSpe
 }
 
 /**
- * A healthy circuit of the given kind. Three-wire 5 V: module 5 V regulator (1 Ω output, 100 mA current limit; the
- * module's own draw through its ground is left out unless `module.supplyAmps` is set), signal biased up to the
+ * A healthy circuit of the given kind. Three-wire 5 V: module 5 V regulator (1 Ω output; no current limit unless
+ * `currentLimitAmps` is given, since limits differ widely between modules and the built-in trees are derived without
+ * one; the module's own draw through its ground is left out unless `module.supplyAmps` is set), signal biased up to the
  * rail through 250 kΩ, 0.1 Ω wires, potentiometer (or pressure sensor). Two-wire thermistor: 10 kΩ module pull-up
  * as the bias, signal and ground wires only, 10 kΩ NTC at 20 °C.
  */
@@ -56,7 +57,7 @@ export function defaultCircuit(kind: CircuitKind, options: DefaultCircuitOptions
     kind,
     battery: { keyOffVolts: 12.6, volts: { off: 12.4, cranking: 10.0, running: 14.2 }, internalOhms: 0.01 },
     module: {
-      regulator: { volts: options.regulatorVolts ?? 5.0, outputOhms: 1, offOhms: 1000, minInputVolts: 6, currentLimitAmps: 0.1 },
+      regulator: { volts: options.regulatorVolts ?? 5.0, outputOhms: 1, offOhms: 1000, minInputVolts: 6 },
       bias,
       inputFilterOhms: 10_000,
       groundOhms: 0.01,

@@ -85,10 +85,12 @@ describe('the module and its 5 V supply under load', () => {
   });
 
   it('sags the 5 V reference under a load beyond its current limit and recovers once the load is unplugged', () => {
+    const limited = structuredClone(threeWire);
+    limited.module.regulator.currentLimitAmps = 0.1;
     // 33 Ω across reference and ground at the harness: 5 V / 34 Ω = 147 mA wanted, 100 mA given: 100 mA × 33.2 Ω ≈ 3.3 V.
-    const loaded = read({ at: 'reference', connector: 'unplugged', jumpers: [{ from: 'reference', to: 'ground', via: { kind: 'resistor', ohms: 33 } }] });
+    const loaded = read({ at: 'reference', connector: 'unplugged', jumpers: [{ from: 'reference', to: 'ground', via: { kind: 'resistor', ohms: 33 } }] }, [], limited);
     expect(loaded).toBeCloseTo(0.1 * 33.155, 1);
-    expect(read({ at: 'reference', connector: 'unplugged' })).toBeCloseTo(5.0, 3);
+    expect(read({ at: 'reference', connector: 'unplugged' }, [], limited)).toBeCloseTo(5.0, 3);
   });
 
   it('dips the reference while a weak battery cranks at 5.5 V, and comes back to 4.8–5.1 V running (common practice, no source)', () => {

@@ -139,10 +139,11 @@ describe('diagnosing the three-wire 5 V tree', () => {
 describe('scan values that do not refresh with the engine stopped (common practice, no source)', () => {
   const baseline = () => reading('s1', 'scan_signal_unplugged', 4.98);
   it('asks to crank and read again when a key-on scan value stays put after a jumper changed the signal', async () => {
-    // The jumper's wires read safe first (the jumper safety rule): signal 4.87 V unplugged, ground drop 0.01 V.
-    const safe = [reading('v1', 'signal_unplugged', 4.87), reading('v2', 'ground_drop_backprobed', 0.01)];
-    const first = baseline();
-    const frozen = reading('s2', 'jumper_signal_to_ground', 4.98);
+    // The jumper's wires read safe first (the jumper safety rule): signal 0.76 V unplugged, ground drop 0.01 V; a
+    // signal pulled to 0.76 V must fall to about 0 V with the signal jumpered to ground, so 0.761 V again is frozen.
+    const safe = [reading('v1', 'signal_unplugged', 0.76), reading('v2', 'ground_drop_backprobed', 0.01)];
+    const first = reading('s1', 'scan_signal_unplugged', 0.76);
+    const frozen = reading('s2', 'jumper_signal_to_ground', 0.761);
     const d = await diagnose(tree, [...safe, first, frozen]);
     expect(d.status).toBe('crank_and_reread');
     expect(d.nextTest!.id).toBe('jumper_signal_to_ground');

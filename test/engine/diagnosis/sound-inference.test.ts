@@ -104,8 +104,10 @@ describe('frozen scan values are judged against what the change should have done
   });
 
   it('calls 0.760 V then 0.761 V frozen when grounding the signal should have moved it', async () => {
-    const d = await diagnose(threeWire, [at(threeWire, 'scan_signal_unplugged', 0.76), at(threeWire, 'jumper_signal_to_ground', 0.761)]);
-    expect(d.path[1]!.verdict).toBe('frozen_scan');
+    // The jumper's wires read safe first (the jumper safety rule): signal 0.76 V unplugged, ground drop 0.01 V.
+    const safe = [at(threeWire, 'signal_unplugged', 0.76), at(threeWire, 'ground_drop_backprobed', 0.01)];
+    const d = await diagnose(threeWire, [...safe, at(threeWire, 'scan_signal_unplugged', 0.76), at(threeWire, 'jumper_signal_to_ground', 0.761)]);
+    expect(d.path[3]!.verdict).toBe('frozen_scan');
     expect(d.status).toBe('crank_and_reread');
   });
 });
