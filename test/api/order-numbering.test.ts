@@ -129,9 +129,15 @@ describe.each(BACKENDS)('upgrading a %s database that already has repair orders'
     scratch = await scratchDatabase(backend, 'empty');
     let db = await scratch.open({ migrationsDir: folder.dir });
     await seedShops(db.prisma);
-    const vehicle = await db.prisma.vehicle.create({ data: { shopId: SHOP_A, vin: '1M8GDM9AXKP042788', year: 2019, make: 'Testmake', model: 'Testmodel', odometer: 1, createdById: FOREMAN_A } });
+    // Raw SQL: the client knows columns that later migrations add (the vehicle's high-voltage flag), this database not yet.
+    const [vehicle] = await db.prisma.$queryRawUnsafe<Array<{ id: string }>>(
+      `INSERT INTO "Vehicle" ("id", "shopId", "vin", "year", "make", "model", "odometer", "createdById")
+       VALUES (gen_random_uuid(), $1::uuid, '1M8GDM9AXKP042788', 2019, 'Testmake', 'Testmodel', 1, $2::uuid) RETURNING "id"`,
+      SHOP_A,
+      FOREMAN_A,
+    );
     for (const number of ['RO-00007', 'RO-00012', 'RO-999999999999999', 'T-100'])
-      await db.prisma.repairOrder.create({ data: { shopId: SHOP_A, number, vehicleId: vehicle.id, complaint: 'x', createdById: FOREMAN_A } });
+      await db.prisma.repairOrder.create({ data: { shopId: SHOP_A, number, vehicleId: vehicle!.id, complaint: 'x', createdById: FOREMAN_A } });
     await db.close();
     folder.write(mine, readFileSync(join(root, mine, 'migration.sql'), 'utf8'));
     db = await scratch.open({ migrationsDir: folder.dir });

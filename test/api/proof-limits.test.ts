@@ -42,14 +42,16 @@ describe.each(BACKENDS)('write limits and the proof on the %s database', (backen
   /** An order with every field a person writes at its limit, repaired, returned and approved; answers its proof. */
   async function orderAtLimits(shape: Shape, corrections: number) {
     const t = (n: number) => textOf(shape, n);
+    // One-line fields (names, labels, part names, the repair's location) refuse line breaks: the same length in one line.
+    const l = (n: number) => t(n).replace(/\n/g, '-');
     const codes = Array.from({ length: LIMITS.count.codes }, (_, i) => `P${String(100 + i).padStart(4, '0')}`);
     const ro = await api.call('POST', '/api/repair-orders', {
       user: FOREMAN_A,
-      body: { vehicle: newVehicle({ make: t(T.vehicleMake), model: t(T.vehicleModel), engine: t(T.vehicleEngine) }), complaint: t(T.complaint), codes, technicianId: TECH_A },
+      body: { vehicle: newVehicle({ make: l(T.vehicleMake), model: l(T.vehicleModel), engine: l(T.vehicleEngine) }), complaint: t(T.complaint), codes, technicianId: TECH_A },
     });
     expect(ro.status, JSON.stringify(ro.body).slice(0, 300)).toBe(201);
     const id = ro.body.id as string;
-    const circuit = await api.call('POST', orders(id, '/circuits'), { user: TECH_A, body: { kind: 'three_wire_5v', sensor: t(T.circuitSensor), label: t(T.circuitLabel) } });
+    const circuit = await api.call('POST', orders(id, '/circuits'), { user: TECH_A, body: { kind: 'three_wire_5v', sensor: l(T.circuitSensor), label: l(T.circuitLabel) } });
     expect(circuit.status).toBe(201);
     const circuitId = circuit.body.id as string;
     const reading = { circuitId, quantity: 'dc_volts', at: 'reference', against: 'ground', ...koeo, unit: 'V' };
@@ -59,10 +61,10 @@ describe.each(BACKENDS)('write limits and the proof on the %s database', (backen
       last = await api.call('POST', orders(id, '/measurements'), { user: TECH_A, body: { ...reading, value: 5 + i / 100, note: t(T.readingNote), supersedes: last.body.id } });
       expect(last.status).toBe(201);
     }
-    const parts = Array.from({ length: LIMITS.count.partsPerRepair }, () => ({ name: t(T.partName), number: t(T.partNumber), quantity: LIMITS.number.partQuantity }));
+    const parts = Array.from({ length: LIMITS.count.partsPerRepair }, () => ({ name: l(T.partName), number: l(T.partNumber), quantity: LIMITS.number.partQuantity }));
     const repair = await api.call('POST', orders(id, '/repairs'), {
       user: TECH_A,
-      body: { circuitId, part: 'signal', action: t(T.repairAction), location: t(T.repairLocation), parts, note: t(T.repairNote), labourMinutes: LIMITS.number.labourMinutes },
+      body: { circuitId, part: 'signal', action: t(T.repairAction), location: l(T.repairLocation), parts, note: t(T.repairNote), labourMinutes: LIMITS.number.labourMinutes },
     });
     expect(repair.status, JSON.stringify(repair.body).slice(0, 300)).toBe(201);
     const version = (await api.call('GET', orders(id), { user: TECH_A })).body.version;

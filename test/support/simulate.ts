@@ -1,14 +1,20 @@
 /** Readings a technician would type on a faulted circuit: the circuit model's predictions, driven through the API. */
 import { expect } from 'vitest';
-import { defaultCircuit, faultsFor, predictReading } from '../../src/engine/circuit';
+import { causeAlternatives, defaultCircuit, predictReading } from '../../src/engine/circuit';
 import type { MeasurementRequest } from '../../src/engine/vocabulary';
 import type { TestApi } from './http';
 
 const UNIT: Record<string, string> = { V: 'V', ohm: 'ohm', A: 'A' };
 
+/** The faults a cause stands for: its likeliest form (a failed supply: dead; a short: solid). */
+function faultsOf(hypothesis: string) {
+  const forms = causeAlternatives(hypothesis);
+  return forms ? forms.reduce((a, b) => (b.weight > a.weight ? b : a)).faults : [];
+}
+
 /** `hypothesis` 'good' gives the healthy circuit (after the repair). */
 export function simulatedReading(hypothesis: string, request: MeasurementRequest): { value: number | 'OL'; unit: string } {
-  const faults = hypothesis === 'good' ? [] : (faultsFor(hypothesis as never) ?? []);
+  const faults = hypothesis === 'good' ? [] : faultsOf(hypothesis);
   const predicted = predictReading(defaultCircuit('three_wire_5v'), faults, request);
   // An ohmmeter on a circuit that is powered anyway (a reference shorted to battery voltage) shows a number that
   // means nothing; the technician types what it shows (common practice, no source).

@@ -118,6 +118,16 @@ export const WireRoles = z.looseObject({
 });
 
 /** Records the JSON answer of a route (200 unless the route answers 201). */
+export const ShopSettings = z.looseObject({ id, name: z.string(), paperSize: z.enum(['A4', 'Letter']), timeZone: z.string(), publicProofCheck: z.boolean() });
+export const OrderNumbering = z.looseObject({ prefix: z.string(), width: z.number().int(), nextNumber: z.string() });
+export const Approval = z.looseObject({
+  state: z.enum(['none', 'approved', 'stale', 'returned', 'withdrawn']),
+  decision: z.looseObject({ id, decision: z.string(), by: person, at: time, comment: z.string() }).nullable(),
+  evidenceDigest: z.string().nullable(),
+  currentEvidenceDigest: z.string(),
+});
+export const Verification = z.looseObject({ complete: z.boolean(), toMeasure: z.array(z.looseObject({ circuitId: id, readingId: id, testId: z.string() })) });
+
 export function ZResponse(schema: ZodType, status = 200, description = 'the answer'): MethodDecorator {
   return ApiResponse({ status, description, schema: openApiSchema(schema) as never });
 }

@@ -1,5 +1,6 @@
 import { Controller, Get, HttpCode, Post } from '@nestjs/common';
 import { ApiOperation, ApiSecurity, ApiTags } from '@nestjs/swagger';
+import { Approval, RepairOrder, Verification, ZResponse } from '../../common/openapi/responses';
 import { UuidParam, ZBody } from '../../common/validation/zod-input';
 import { RecordCodesAfter } from './evidence.dto';
 import { CurrentActor, type Actor } from '../identity/actor';
@@ -12,12 +13,14 @@ export class EvidenceController {
   constructor(private readonly evidence: EvidenceService) {}
 
   @Get('approval')
+  @ZResponse(Approval)
   @ApiOperation({ summary: 'Where the foreman’s approval stands: none, approved (of the evidence now), stale (the evidence changed since), returned or withdrawn' })
   approval(@CurrentActor() actor: Actor, @UuidParam('id') id: string) {
     return this.evidence.approval(actor, id);
   }
 
   @Post('codes-after')
+  @ZResponse(RepairOrder)
   @HttpCode(200)
   @ApiOperation({ summary: 'Record the codes read after the repair and how they were read (cleared and key cycles, road test, re-scan): the proof states them only once recorded' })
   codesAfter(@CurrentActor() actor: Actor, @UuidParam('id') id: string, @ZBody(RecordCodesAfter) body: RecordCodesAfter) {
@@ -25,6 +28,7 @@ export class EvidenceController {
   }
 
   @Get('verification')
+  @ZResponse(Verification)
   @ApiOperation({ summary: 'The readings that decided each repaired circuit’s cause and are still to be taken again, healthy, before the order is verified' })
   async verification(@CurrentActor() actor: Actor, @UuidParam('id') id: string) {
     const toMeasure = await this.evidence.retests(actor, id);
