@@ -141,6 +141,12 @@ async function seedOrder(tx: Prisma.TransactionClient, shop: { shopId: string; f
   if (!order.path.includes('verified')) return;
   // After the repair, the first tests again: the circuit now reads as a healthy one.
   for (const r of readings.slice(0, 4)) await insert(meterShows(c.kind, 'good', r.request), 'verification');
+  // Codes cleared and read again after three key cycles (none returned), and the odometer as the vehicle left.
+  const { odometer } = await tx.vehicle.findUniqueOrThrow({ where: { id: vehicleId }, select: { odometer: true } });
+  await tx.repairOrder.update({
+    where: { id: ro.id },
+    data: { codesAfterMethod: 'cleared_then_key_cycles', codesAfterKeyCycles: 3, codesAfterCheckedAt: tick(6), odometerOut: odometer + 2 },
+  });
   await status('repaired', 'verified', tick(4), order.technician);
   for (const [position, review] of (order.reviews ?? []).entries()) {
     // Decided on the evidence as it stands, as the service records a decision.
