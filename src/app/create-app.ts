@@ -12,16 +12,10 @@ import { requestContext } from '../common/logging/request-context';
 import { currentRequestId } from '../common/logging/request-context';
 import { AppModule } from './app.module';
 import { noStoreOnApi } from './cache-control';
-import { MAX_JSON_BODY_DEPTH } from '../common/validation/json-depth';
 
 /** Body-parser failures (bad JSON, too large) answered in the same shape as every other error. */
 function bodyErrors(error: { type?: string; status?: number }, _req: Request, res: Response, next: NextFunction): void {
   if (!error?.type) return next(error);
-  if (error.type === 'body.too_deep') {
-    const message = `The request body nests objects and arrays more than ${MAX_JSON_BODY_DEPTH} levels deep (limit of JSON body depth: ${MAX_JSON_BODY_DEPTH}).`;
-    res.status(400).json({ error: { code: 'body.too_deep', message, findings: [{ code: 'body.too_deep', path: 'body', message: `at most ${MAX_JSON_BODY_DEPTH} levels of nesting` }], requestId: currentRequestId() } });
-    return;
-  }
   const [status, code, message] =
     error.type === 'entity.too.large'
       ? [413, 'body.too_large', 'The request body is larger than this service accepts.']
