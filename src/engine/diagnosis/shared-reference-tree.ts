@@ -1,0 +1,263 @@
+/**
+ * The shared 5 V reference tree for any number of sensors, generated from the list of sensors: a cause per sensor
+ * (shorted inside, dragging the reference down), the harness shorted to ground, the module's supply weak or dead,
+ * no fault now and unknown; a test per sensor (the reference at its connector with only that sensor unplugged), the
+ * reference with every sensor plugged and with all unplugged, and ohms to ground with all unplugged. The deciding
+ * test is unplugging the sensors one at a time: a rail that recovers to about 4.8–5.0 V only with one sensor
+ * unplugged names that sensor (common practice, no source); a weak supply recovers a little with each.
+ *
+ * Likelihoods come from the shared-reference circuit model by Monte Carlo. The model is symmetric in its sensors,
+ * so what a test predicts for a cause depends only on their roles (the sensor measured at, another sensor, the
+ * trunk, the measured branch, another branch): the cells are derived once per sensor count
+ * (`deriveSharedReferenceCells`, stored by scripts/derive-likelihoods.ts) and laid out for any list of sensors.
+ */
+import { defaultSharedReference, percentile, sampleSharedReadings, type SharedFault, type SharedRequest } from '../circuit';
+import type { MeasurementRequest } from '../vocabulary';
+import { partitionOf } from './compile-predictive';
+import { conditionInterval } from './outcome-rules';
+import { coreMass, QUANTILE_LEVELS, type Cell } from './predictive';
+import { SHARED_REFERENCE_SENSORS } from './tree-limits';
+import { TREE_FORMAT, type TestDocument, type TreeDocument } from './tree-schema';
+import storedCells from '../trees/derived/shared-reference-cells.json';
+
+export const TEST_ROLES = ['plugged', 'self_unplugged', 'all_unplugged', 'ohms_all_unplugged'] as const;
+export type TestRole = (typeof TEST_ROLES)[number];
+export const CAUSE_ROLES = ['sensor_measured', 'sensor_other', 'short_trunk', 'short_measured_branch', 'short_other_branch', 'supply_dead', 'supply_weak', 'supply_low', 'healthy'] as const;
+export type CauseRole = (typeof CAUSE_ROLES)[number];
+
+/**
+ * Fault forms (common practice, no source): a sensor shorted inside at 0.3–25 Ω, the harness at 0.01–25 Ω (a chafe
+ * through to metal or a wet partial one), a weak supply's output resistance 20 Ω–2 kΩ, a low set point 3.0–4.5 V.
+ */
+const ROLE_FAULTS: Record<CauseRole, (ids: string[]) => SharedFault[]> = {
+  sensor_measured: (ids) => [{ kind: 'sensor_loading', sensor: ids[0]!, ohms: [0.3, 25] }],
+  sensor_other: (ids) => [{ kind: 'sensor_loading', sensor: ids[1]!, ohms: [0.3, 25] }],
+  short_trunk: () => [{ kind: 'reference_short_ground', at: 'trunk', ohms: [0.01, 25] }],
+  short_measured_branch: (ids) => [{ kind: 'reference_short_ground', at: ids[0]!, ohms: [0.01, 25] }],
+  short_other_branch: (ids) => [{ kind: 'reference_short_ground', at: ids[1]!, ohms: [0.01, 25] }],
+  supply_dead: () => [{ kind: 'supply_dead' }],
+  supply_weak: () => [{ kind: 'supply_weak', ohms: [20, 2000] }],
+  supply_low: () => [{ kind: 'supply_low', volts: [3.0, 4.5] }],
+  healthy: () => [],
+};
+
+const ROLE_REQUESTS: Record<TestRole, (ids: string[]) => SharedRequest> = {
+  plugged: (ids) => ({ quantity: 'dc_volts', at: ids[0]!, unplugged: [], key: 'on' }),
+  self_unplugged: (ids) => ({ quantity: 'dc_volts', at: ids[0]!, unplugged: [ids[0]!], key: 'on' }),
+  all_unplugged: (ids) => ({ quantity: 'dc_volts', at: ids[0]!, unplugged: ids, key: 'on' }),
+  ohms_all_unplugged: (ids) => ({ quantity: 'ohms', at: ids[0]!, unplugged: ids, key: 'off' }),
+};
+
+/** Latent classes of a shared reference: a supply without a current limit, and one limited at 60–250 mA. */
+export const SHARED_CLASSES = [
+  { id: 'no_current_limit', weight: 0.5, limit: undefined },
+  { id: 'current_limited', weight: 0.5, limit: [0.06, 0.25] as [number, number] },
+] as const;
+
+/** Weights of the alternatives of the two causes that stand for several faults (common practice, no source). */
+const SUPPLY_FORMS: Array<[CauseRole, number]> = [['supply_dead', 0.4], ['supply_weak', 0.3], ['supply_low', 0.3]];
+const TRUNK_SHARE = 0.4;
+
+export interface StoredCell {
+  q: number[];
+  overload?: number;
+}
+export interface SharedCells {
+  cells: StoredCell[];
+  /** Per test role and cause role, the cell of each class. */
+  roles: Record<TestRole, Record<CauseRole, number[]>>;
+}
+export interface SharedCellsDocument {
+  seed: number;
+  samples: number;
+  counts: Record<string, SharedCells>;
+}
+
+function toCell(values: Float64Array): StoredCell {
+  let finite = values.length;
+  while (finite > 0 && !Number.isFinite(values[finite - 1]!)) finite--;
+  const head = values.subarray(0, finite);
+  const q = finite ? QUANTILE_LEVELS.map((l) => Number(percentile(head, l).toPrecision(4))) : [];
+  const overload = Number((1 - finite / values.length).toFixed(4));
+  return overload > 0 ? { q, overload } : { q };
+}
+
+/** The predictive cells of an `n`-sensor shared reference, by role, from the circuit model. */
+export function deriveSharedReferenceCells(n: number, opts: { seed: number; samples: number }): SharedCells {
+  const ids = Array.from({ length: n }, (_, i) => `s${i}`);
+  const cells: StoredCell[] = [];
+  const seen = new Map<string, number>();
+  const roles = {} as SharedCells['roles'];
+  for (const test of TEST_ROLES) {
+    roles[test] = {} as Record<CauseRole, number[]>;
+    for (const cause of CAUSE_ROLES) {
+      roles[test][cause] = SHARED_CLASSES.map((cls, c) => {
+        const circuit = defaultSharedReference(ids, { currentLimitAmps: cls.limit ? cls.limit[1] : undefined });
+        const sampled = sampleSharedReadings({ circuit, faults: ROLE_FAULTS[cause](ids), request: ROLE_REQUESTS[test](ids), samples: opts.samples, seed: opts.seed + 97 * c, spreads: cls.limit ? { currentLimitAmps: cls.limit } : {} });
+        if (!sampled.ok) return -1;
+        const cell = toCell(sampled.value);
+        const key = JSON.stringify(cell);
+        if (!seen.has(key)) seen.set(key, cells.push(cell) - 1);
+        return seen.get(key)!;
+      });
+    }
+  }
+  return { cells, roles };
+}
+
+export interface SharedSensor {
+  /** Lower-case id used in the tree's ids and in readings' `sensor` field. */
+  id: string;
+  /** What the technician calls it, e.g. "manifold pressure sensor". */
+  label: string;
+  /** Reaching its connector: minutes and steps (defaults: 3 minutes, "reach the connector"). */
+  reach?: { minutes: number; steps: string[] };
+}
+
+const VOLTS_OUTCOMES: TestDocument['outcomes'] = [
+  { id: 'low', label: 'Below 4.5 V: pulled down', condition: { all: [{ fact: 'value', operator: 'inRange', value: [-1, 4.5] }] } },
+  { id: 'ok', label: 'About 5 V (4.8 to 5.15 V)', condition: { all: [{ fact: 'value', operator: 'inRange', value: [4.8, 5.15] }] } },
+  { id: 'high', label: 'Above 5.3 V', condition: { all: [{ fact: 'value', operator: 'inRange', value: [5.3, 40] }] } },
+];
+const OHMS_OUTCOMES: TestDocument['outcomes'] = [
+  { id: 'short', label: 'Under 20 Ω: shorted to ground', condition: { all: [{ fact: 'value', operator: 'inRange', value: [-1, 20] }] } },
+  { id: 'normal', label: '200 Ω to 100 kΩ', condition: { all: [{ fact: 'value', operator: 'inRange', value: [200, 100000] }] } },
+  { id: 'open', label: 'Above 1 MΩ or overload', condition: { all: [{ fact: 'value', operator: 'greaterThanInclusive', value: 1000000 }] } },
+];
+const PRECONDITIONS = ['Battery charged (at least 12.2 V key off).', 'Trouble codes recorded before anything is unplugged.'];
+const base = { at: 'reference', against: 'battery_negative', location: 'sensor_connector', engine: 'off', jumpers: [] as TestDocument['request']['jumpers'] } as const;
+
+/** The hypothesis id of a sensor dragging the reference down. */
+export const loadingCause = (sensor: string) => `${sensor}_sensor_loading_reference`;
+
+/** A shared-reference tree for the given sensors, likelihoods laid out from the stored cells of their count. */
+export function sharedReferenceTree(sensors: SharedSensor[], meta: { id?: string; title?: string } = {}, stored: SharedCellsDocument = storedCells as SharedCellsDocument): TreeDocument {
+  const n = sensors.length;
+  if (n < SHARED_REFERENCE_SENSORS.min || n > SHARED_REFERENCE_SENSORS.max) throw new RangeError(`a shared reference has ${SHARED_REFERENCE_SENSORS.min} to ${SHARED_REFERENCE_SENSORS.max} sensors, not ${n}`);
+  const first = sensors[0]!;
+  const all = sensors.map((s) => `reach_${s.id}`);
+  const doc: TreeDocument = {
+    format: TREE_FORMAT,
+    id: meta.id ?? `shared-reference-${n}`,
+    version: '2.0.0',
+    circuitKind: 'shared_5v_reference',
+    title: meta.title ?? `Shared 5 V reference feeding ${n} sensors`,
+    settings: { likelihoodFloor: 0.02, concludeAt: 0.95 },
+    hypotheses: [
+      ...sensors.map((s) => ({ id: loadingCause(s.id), label: `${capital(s.label)} shorted inside, pulling the shared reference down`, prior: Number((0.55 / n).toFixed(4)), repair: { part: `${s.id}_sensor`, action: `Replace the ${s.label}.` } })),
+      { id: 'reference_short_ground', label: 'Shared reference wire shorted to ground in the harness', prior: 0.15, repair: { part: 'reference', action: 'Find and repair the chafe grounding the shared reference wire (check each branch to a sensor).' } },
+      { id: 'module_regulator', label: "Module's 5 V supply weak or dead", prior: 0.15, repair: { part: 'module', action: 'Confirm with the service information, then repair or replace the module.' } },
+      { id: 'no_fault_now', label: 'No fault on the shared reference now (an intermittent, or the fault is elsewhere)', prior: 0.1, repair: { part: 'none', action: 'No repair: the reference tests good now. Look for an intermittent with a wiggle test (flex the harness and connectors along the run while repeating the reading), then check each circuit on its own.' } },
+      { id: 'unknown', label: 'Not modelled by this tree (look further)', prior: 0.05, unknown: true, repair: { part: 'unknown', action: 'Go beyond this tree: intermittent wiring, another sensor on the same reference, or a cause the tree does not model.' } },
+    ],
+    setups: sensors.map((s) => ({ id: `reach_${s.id}`, label: `Reach the ${s.label} connector`, minutes: s.reach?.minutes ?? 3, steps: s.reach?.steps ?? [`Clear access to the ${s.label} connector.`] })),
+    tests: [
+      test('reference_plugged', `Shared reference at the ${first.label}, all plugged, key on`, ['Key on, engine off. Back-probe the connector with the sensor plugged in.', `At the ${first.label}: black lead on battery negative, red lead on the 5 V reference wire.`, 'Read DC volts.'], { ...base, quantity: 'dc_volts', connector: 'backprobed', key: 'on', sensor: first.id }, [`reach_${first.id}`], 2, VOLTS_OUTCOMES),
+      ...sensors.map((s) =>
+        test(`reference_${s.id}_unplugged`, `Shared reference with the ${s.label} unplugged`, [`Key off, unplug only the ${s.label}.`, 'Key on, engine off.', `Red lead in the harness-side reference terminal of the ${s.label}, black on battery negative.`, 'Read DC volts. If it recovers to about 5 V, this sensor was pulling the reference down.', 'Key off and plug the sensor back in.'], { ...base, quantity: 'dc_volts', connector: 'unplugged', key: 'on', sensor: s.id }, [`reach_${s.id}`], 2, VOLTS_OUTCOMES, [`${s.id}_sensor`, 'reference', 'module']),
+      ),
+      test('reference_all_unplugged', 'Shared reference with every sensor on it unplugged', [`Key off, unplug all ${n} sensors on the shared reference.`, 'Key on, engine off.', `Red lead in the harness-side reference terminal at the ${first.label}, black on battery negative.`, 'Read DC volts. Still low with nothing connected points at the harness or the module.'], { ...base, quantity: 'dc_volts', connector: 'unplugged', key: 'on', sensor: 'all' }, all, 2 + n / 2, VOLTS_OUTCOMES, ['reference', 'module']),
+      test('reference_ohms_all_unplugged', 'Shared reference to ground, ohms, every sensor unplugged, key off', [`Key off, all ${n} sensors on the shared reference unplugged.`, `Ohmmeter between the harness-side reference terminal at the ${first.label} and battery negative.`, 'Read ohms: near 0 Ω means the harness is shorted to ground.'], { ...base, quantity: 'ohms', connector: 'unplugged', key: 'off', sensor: 'all' }, all, 3, OHMS_OUTCOMES, ['reference', 'module']),
+    ],
+    derivation: { method: 'circuit_model_monte_carlo', note: 'Laid out from the shared-reference circuit model’s cells by role (derived per sensor count).' },
+  };
+  return applySharedReferenceCells(doc, stored);
+}
+
+/** The built-in three-sensor tree (`shared-reference`): throttle position, manifold pressure, fuel-tank pressure. */
+export const BUILT_IN_SHARED_SENSORS: SharedSensor[] = [
+  { id: 'throttle', label: 'throttle position sensor', reach: { minutes: 3, steps: ['Remove the intake duct cover over the throttle body.'] } },
+  { id: 'manifold', label: 'manifold pressure sensor', reach: { minutes: 4, steps: ['Remove the engine cover over the intake manifold.'] } },
+  { id: 'tank', label: 'fuel-tank pressure sensor', reach: { minutes: 15, steps: ['Raise the vehicle safely on a lift or stands.', 'Remove the shield over the tank sensor connector.'] } },
+];
+
+export const builtInSharedReferenceTree = (stored?: SharedCellsDocument) =>
+  sharedReferenceTree(BUILT_IN_SHARED_SENSORS, { id: 'shared-reference', title: 'Shared 5 V reference feeding several sensors' }, stored);
+
+/** Cells for every allowed sensor count (what scripts/derive-likelihoods.ts stores). */
+export function deriveAllSharedReferenceCells(opts: { seed: number; samples: number }): SharedCellsDocument {
+  const counts: Record<string, SharedCells> = {};
+  for (let n = SHARED_REFERENCE_SENSORS.min; n <= SHARED_REFERENCE_SENSORS.max; n++) counts[String(n)] = deriveSharedReferenceCells(n, opts);
+  return { seed: opts.seed, samples: opts.samples, counts };
+}
+
+const capital = (s: string) => s.charAt(0).toUpperCase() + s.slice(1);
+
+function test(id: string, label: string, procedure: string[], request: TestDocument['request'], setups: string[], minutes: number, outcomes: TestDocument['outcomes'], parts?: string[]): TestDocument {
+  return { id, label, procedure, request, setups, preconditions: PRECONDITIONS, cautions: [], minutes, ...(parts ? { parts } : {}), outcomes, likelihoods: {} };
+}
+
+/** The sensors of a shared-reference document, in the order of their causes. */
+export function sensorsOf(doc: TreeDocument): string[] {
+  return doc.hypotheses.map((h) => /^(.+)_sensor_loading_reference$/.exec(h.id)?.[1]).filter((s): s is string => s !== undefined);
+}
+
+function testRole(request: MeasurementRequest): TestRole {
+  if (request.quantity === 'ohms') return 'ohms_all_unplugged';
+  if (request.connector !== 'unplugged') return 'plugged';
+  return request.sensor === 'all' || request.sensor === undefined ? 'all_unplugged' : 'self_unplugged';
+}
+
+/**
+ * Lays the cells of the document's sensor count into its tests: predictive blocks, likelihood rows and the
+ * derivation (classes, alternatives). The measured sensor is the test's `sensor` (the first one for "all").
+ */
+export function applySharedReferenceCells(doc: TreeDocument, stored: SharedCellsDocument = storedCells as SharedCellsDocument): TreeDocument {
+  const sensors = sensorsOf(doc);
+  const table = stored.counts[String(sensors.length)];
+  if (!table) throw new RangeError(`no shared-reference cells for ${sensors.length} sensors`);
+  const nC = SHARED_CLASSES.length;
+  const shortWeights = [TRUNK_SHARE, ...sensors.map(() => (1 - TRUNK_SHARE) / sensors.length)];
+  const tests = doc.tests.map((t) => {
+    const role = testRole(t.request);
+    const measured = t.request.sensor && t.request.sensor !== 'all' ? t.request.sensor : sensors[0]!;
+    const cellsOf = (cause: CauseRole) => table.roles[role][cause];
+    const index: Record<string, number[]> = {};
+    const weights: Record<string, number[]> = {};
+    for (const h of doc.hypotheses) {
+      if (h.unknown) continue;
+      const sensor = /^(.+)_sensor_loading_reference$/.exec(h.id)?.[1];
+      let alts: CauseRole[];
+      let w: number[] = [1];
+      if (sensor !== undefined) alts = [sensor === measured ? 'sensor_measured' : 'sensor_other'];
+      else if (h.id === 'reference_short_ground') (alts = ['short_trunk', ...sensors.map((s): CauseRole => (s === measured ? 'short_measured_branch' : 'short_other_branch'))]), (w = shortWeights);
+      else if (h.id === 'module_regulator') (alts = SUPPLY_FORMS.map(([r]) => r)), (w = SUPPLY_FORMS.map(([, x]) => x));
+      else alts = ['healthy'];
+      index[h.id] = alts.flatMap(cellsOf);
+      weights[h.id] = w;
+    }
+    const partition = partitionOf(t.outcomes.map((o) => conditionInterval(o.condition)!));
+    const likelihoods = Object.fromEntries(
+      Object.entries(index).map(([h, cellIds]) => {
+        const row = new Float64Array(t.outcomes.length);
+        const wsum = weights[h]!.reduce((a, b) => a + b, 0);
+        cellIds.forEach((cellId, k) => {
+          const share = (weights[h]![Math.floor(k / nC)]! / wsum) * SHARED_CLASSES[k % nC]!.weight;
+          const raw = table.cells[cellId];
+          const cell: Cell | undefined = raw && { q: Float64Array.from(raw.q), overload: raw.overload ?? 0 };
+          const masses = partition.map((r) => (cell ? Math.max(0, coreMass(cell, r.lo, r.hi, t.request.quantity)) : 1));
+          const total = masses.reduce((a, b) => a + b, 0);
+          masses.forEach((m, o) => (row[o]! += share * (total > 0 ? m / total : 1 / masses.length)));
+        });
+        return [h, Object.fromEntries(t.outcomes.map((o, oi) => [o.id, Number(row[oi]!.toFixed(4))]))];
+      }),
+    );
+    // Only the cells this test uses, renumbered.
+    const used = [...new Set(Object.values(index).flat().filter((c) => c >= 0))].sort((a, b) => a - b);
+    const renumber = new Map(used.map((c, k) => [c, k]));
+    const ownIndex = Object.fromEntries(Object.entries(index).map(([h, ids]) => [h, ids.map((c) => renumber.get(c) ?? -1)]));
+    return { ...t, likelihoods, predictive: { cells: used.map((c) => table.cells[c]!), index: ownIndex } };
+  });
+  return {
+    ...doc,
+    tests,
+    derivation: {
+      ...doc.derivation,
+      method: 'circuit_model_monte_carlo',
+      seed: stored.seed,
+      samples: stored.samples,
+      classes: SHARED_CLASSES.map((c) => ({ id: c.id, weight: c.weight, circuits: [{ sensors: sensors.length, ...(c.limit ? { currentLimitAmps: c.limit } : {}) }] })),
+      alternatives: { reference_short_ground: shortWeights.map((x) => Number(x.toFixed(4))), module_regulator: SUPPLY_FORMS.map(([, x]) => x) },
+    },
+  };
+}
