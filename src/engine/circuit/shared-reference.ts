@@ -132,7 +132,7 @@ export function sharedNetlist(spec: SharedReferenceSpec, faults: SharedFault[], 
       netlist.add({ id: 'regulator_r', kind: 'resistor', nodes: ['reg', 'm_reference'], value: weak ? fixedOf(weak.ohms) : reg.outputOhms, ...(weak ? { param: { key: FAULT_OHMS, scale: 1 } } : {}) });
     }
   } else {
-    netlist.add({ id: 'regulator_off_r', kind: 'resistor', nodes: ['m_reference', MODULE_GROUND_NODE], value: reg.offOhms });
+    netlist.add({ id: 'regulator_off_r', kind: 'resistor', nodes: ['m_reference', MODULE_GROUND_NODE], value: reg.offOhms, param: { key: 'regulator.off_ohms', scale: 1 } });
   }
   netlist.add({ id: 'mc_trunk', kind: 'resistor', nodes: ['m_reference', 'mh_trunk'], value: spec.contactOhms });
   netlist.add({ id: 'trunk_a', kind: 'resistor', nodes: ['mh_trunk', 'mid_trunk'], value: spec.trunkOhms / 2, param: { key: 'wire.trunk', scale: 0.5 } });
@@ -158,7 +158,10 @@ export function sharedNetlist(spec: SharedReferenceSpec, faults: SharedFault[], 
   return netlist;
 }
 
-/** Part spreads of a shared reference (common practice, no source), as the single circuit's plus the trunk. */
+/**
+ * Part spreads of a shared reference (common practice, no source): the single circuit's, the trunk like any wire,
+ * and the unpowered output's resistance to ground from 200 Ω to 100 kΩ (modules differ widely).
+ */
 export interface SharedSpreads {
   wireOhms: [number, number];
   regulatorVolts: [number, number];
@@ -167,11 +170,13 @@ export interface SharedSpreads {
   sensorTolerance: number;
   /** The supply's current limit, drawn per sample when the circuit has one, A. */
   currentLimitAmps?: [number, number];
+  /** The unpowered 5 V output's resistance to module ground (drawn log-uniformly), Ω. */
+  offOhms: [number, number];
 }
 
 export function defaultSharedSpreads(spec: SharedReferenceSpec): SharedSpreads {
   const reg = spec.regulator.volts;
-  return { wireOhms: [0.05, 0.3], regulatorVolts: [reg - 0.1, reg + 0.1], batteryVolts: 0.2, biasSpread: 0.2, sensorTolerance: 0.02 };
+  return { wireOhms: [0.05, 0.3], regulatorVolts: [reg - 0.1, reg + 0.1], batteryVolts: 0.2, biasSpread: 0.2, sensorTolerance: 0.02, offOhms: [200, 100_000] };
 }
 
 const logUniform = (random: Random, [lo, hi]: [number, number]) => Math.exp(uniform(random, Math.log(lo), Math.log(hi)));
@@ -261,6 +266,7 @@ function drawParams(spec: SharedReferenceSpec, faults: SharedFault[], spreads: S
   out.set('regulator.volts', uniform(random, ...spreads.regulatorVolts));
   out.set('wire.trunk', uniform(random, ...spreads.wireOhms));
   if (spreads.currentLimitAmps) out.set('supply.limit_amps', uniform(random, ...spreads.currentLimitAmps));
+  out.set('regulator.off_ohms', logUniform(random, spreads.offOhms));
   const own = new Map<string, number>();
   spec.sensors.forEach((s, i) => {
     for (const role of ['ref', 'signal', 'ground']) out.set(p(i, `wire.${role}`), uniform(random, ...spreads.wireOhms));

@@ -14,6 +14,8 @@
 import { defaultSharedReference, percentile, sampleSharedReadings, type SharedFault, type SharedRequest } from '../circuit';
 import type { MeasurementRequest } from '../vocabulary';
 import { partitionOf } from './compile-predictive';
+import { loadTree } from './load-tree';
+import type { Tree } from './tree-model';
 import { conditionInterval } from './outcome-rules';
 import { coreMass, QUANTILE_LEVELS, type Cell } from './predictive';
 import { SHARED_REFERENCE_SENSORS } from './tree-limits';
@@ -22,24 +24,39 @@ import storedCells from '../trees/derived/shared-reference-cells.json';
 
 export const TEST_ROLES = ['plugged', 'self_unplugged', 'all_unplugged', 'ohms_all_unplugged'] as const;
 export type TestRole = (typeof TEST_ROLES)[number];
-export const CAUSE_ROLES = ['sensor_measured', 'sensor_other', 'short_trunk', 'short_measured_branch', 'short_other_branch', 'supply_dead', 'supply_weak', 'supply_low', 'healthy'] as const;
-export type CauseRole = (typeof CAUSE_ROLES)[number];
+/** Fault forms by severity (common practice, no source); how severe is one property of the circuit, shared by every test. */
+const SENSOR_SHORTS: Array<[number, number]> = [[0.3, 1], [1, 3], [3, 8], [8, 25]];
+const HARNESS_SHORTS: Array<[number, number]> = [[0.01, 0.1], [0.1, 0.5], [0.5, 2], [2, 8], [8, 25]];
+const WEAK_OUTPUTS: Array<[number, number]> = [[20, 60], [60, 200], [200, 600], [600, 2000]];
+const LOW_SET_POINTS: Array<[number, number]> = [[0, 0.1], [0.1, 0.3], [3.0, 3.75], [3.75, 4.5]];
+
+export const CAUSE_ROLES = [
+  ...SENSOR_SHORTS.map((_, k) => `sensor_measured_${k}`),
+  ...SENSOR_SHORTS.map((_, k) => `sensor_other_${k}`),
+  ...HARNESS_SHORTS.map((_, k) => `short_${k}`),
+  ...LOW_SET_POINTS.map((_, k) => `supply_set_${k}`),
+  ...WEAK_OUTPUTS.map((_, k) => `supply_weak_${k}`),
+  'healthy',
+];
+export type CauseRole = string;
 
 /**
- * Fault forms (common practice, no source): a sensor shorted inside at 0.3–25 Ω, the harness at 0.01–25 Ω (a chafe
- * through to metal or a wet partial one), a weak supply's output resistance 20 Ω–2 kΩ, a low set point 3.0–4.5 V.
+ * Fault forms (common practice, no source): a sensor shorted inside at 0.3–25 Ω; the harness shorted to ground at
+ * 0.01–25 Ω (a chafe through to metal or a wet partial one; where along the harness moves a reading by a few
+ * millivolts only, so it is drawn on the trunk); the supply dead (0–0.3 V), set low (3.0–4.5 V) or weak (output
+ * resistance 20 Ω–2 kΩ). Each range is split into alternatives: how severe a fault is holds for every test, so a
+ * rail that recovers fully with one sensor unplugged cannot be a supply that sagged to a third with all plugged.
  */
-const ROLE_FAULTS: Record<CauseRole, (ids: string[]) => SharedFault[]> = {
-  sensor_measured: (ids) => [{ kind: 'sensor_loading', sensor: ids[0]!, ohms: [0.3, 25] }],
-  sensor_other: (ids) => [{ kind: 'sensor_loading', sensor: ids[1]!, ohms: [0.3, 25] }],
-  short_trunk: () => [{ kind: 'reference_short_ground', at: 'trunk', ohms: [0.01, 25] }],
-  short_measured_branch: (ids) => [{ kind: 'reference_short_ground', at: ids[0]!, ohms: [0.01, 25] }],
-  short_other_branch: (ids) => [{ kind: 'reference_short_ground', at: ids[1]!, ohms: [0.01, 25] }],
-  supply_dead: () => [{ kind: 'supply_dead' }],
-  supply_weak: () => [{ kind: 'supply_weak', ohms: [20, 2000] }],
-  supply_low: () => [{ kind: 'supply_low', volts: [3.0, 4.5] }],
-  healthy: () => [],
-};
+function roleFaults(role: CauseRole, ids: string[]): SharedFault[] {
+  const [, kind, k] = /^(sensor_measured|sensor_other|short|supply_set|supply_weak|healthy)_?(\d*)$/.exec(role)!;
+  const i = Number(k);
+  if (kind === 'sensor_measured') return [{ kind: 'sensor_loading', sensor: ids[0]!, ohms: SENSOR_SHORTS[i]! }];
+  if (kind === 'sensor_other') return [{ kind: 'sensor_loading', sensor: ids[1]!, ohms: SENSOR_SHORTS[i]! }];
+  if (kind === 'short') return [{ kind: 'reference_short_ground', at: 'trunk', ohms: HARNESS_SHORTS[i]! }];
+  if (kind === 'supply_set') return [{ kind: 'supply_low', volts: LOW_SET_POINTS[i]! }];
+  if (kind === 'supply_weak') return [{ kind: 'supply_weak', ohms: WEAK_OUTPUTS[i]! }];
+  return [];
+}
 
 const ROLE_REQUESTS: Record<TestRole, (ids: string[]) => SharedRequest> = {
   plugged: (ids) => ({ quantity: 'dc_volts', at: ids[0]!, unplugged: [], key: 'on' }),
@@ -55,8 +72,13 @@ export const SHARED_CLASSES = [
 ] as const;
 
 /** Weights of the alternatives of the two causes that stand for several faults (common practice, no source). */
-const SUPPLY_FORMS: Array<[CauseRole, number]> = [['supply_dead', 0.4], ['supply_weak', 0.3], ['supply_low', 0.3]];
-const TRUNK_SHARE = 0.4;
+const SUPPLY_FORMS: Array<[CauseRole, number]> = [
+  ['supply_set_0', 0.25],
+  ['supply_set_1', 0.15],
+  ['supply_set_2', 0.15],
+  ['supply_set_3', 0.15],
+  ...WEAK_OUTPUTS.map((_, k): [CauseRole, number] => [`supply_weak_${k}`, 0.075]),
+];
 
 export interface StoredCell {
   q: number[];
@@ -92,10 +114,16 @@ export function deriveSharedReferenceCells(n: number, opts: { seed: number; samp
     roles[test] = {} as Record<CauseRole, number[]>;
     for (const cause of CAUSE_ROLES) {
       roles[test][cause] = SHARED_CLASSES.map((cls, c) => {
-        const circuit = defaultSharedReference(ids, { currentLimitAmps: cls.limit ? cls.limit[1] : undefined });
-        const sampled = sampleSharedReadings({ circuit, faults: ROLE_FAULTS[cause](ids), request: ROLE_REQUESTS[test](ids), samples: opts.samples, seed: opts.seed + 97 * c, spreads: cls.limit ? { currentLimitAmps: cls.limit } : {} });
-        if (!sampled.ok) return -1;
-        const cell = toCell(sampled.value);
+        // Half the draws with the measured sensor a potentiometer and its neighbour drawing 8 mA, half the other way.
+        const pooled: Float64Array[] = [];
+        for (const [k, first] of (['potentiometer', 'pressure'] as const).entries()) {
+          const kinds = ids.map((_, i) => ((i % 2 === 0) === (first === 'potentiometer') ? 'potentiometer' : 'pressure'));
+          const circuit = defaultSharedReference(ids, { kinds, currentLimitAmps: cls.limit ? cls.limit[1] : undefined });
+          const sampled = sampleSharedReadings({ circuit, faults: roleFaults(cause, ids), request: ROLE_REQUESTS[test](ids), samples: Math.round(opts.samples / 2), seed: opts.seed + 97 * c + 31 * k, spreads: cls.limit ? { currentLimitAmps: cls.limit } : {} });
+          if (!sampled.ok) return -1;
+          pooled.push(sampled.value);
+        }
+        const cell = toCell(Float64Array.from([...pooled[0]!, ...pooled[1]!]).sort());
         const key = JSON.stringify(cell);
         if (!seen.has(key)) seen.set(key, cells.push(cell) - 1);
         return seen.get(key)!;
@@ -131,7 +159,7 @@ const base = { at: 'reference', against: 'battery_negative', location: 'sensor_c
 export const loadingCause = (sensor: string) => `${sensor}_sensor_loading_reference`;
 
 /** A shared-reference tree for the given sensors, likelihoods laid out from the stored cells of their count. */
-export function sharedReferenceTree(sensors: SharedSensor[], meta: { id?: string; title?: string } = {}, stored: SharedCellsDocument = storedCells as SharedCellsDocument): TreeDocument {
+export function sharedReferenceTree(sensors: SharedSensor[], meta: { id?: string; title?: string } = {}, stored: SharedCellsDocument = storedCells as unknown as SharedCellsDocument): TreeDocument {
   const n = sensors.length;
   if (n < SHARED_REFERENCE_SENSORS.min || n > SHARED_REFERENCE_SENSORS.max) throw new RangeError(`a shared reference has ${SHARED_REFERENCE_SENSORS.min} to ${SHARED_REFERENCE_SENSORS.max} sensors, not ${n}`);
   const first = sensors[0]!;
@@ -202,12 +230,11 @@ function testRole(request: MeasurementRequest): TestRole {
  * Lays the cells of the document's sensor count into its tests: predictive blocks, likelihood rows and the
  * derivation (classes, alternatives). The measured sensor is the test's `sensor` (the first one for "all").
  */
-export function applySharedReferenceCells(doc: TreeDocument, stored: SharedCellsDocument = storedCells as SharedCellsDocument): TreeDocument {
+export function applySharedReferenceCells(doc: TreeDocument, stored: SharedCellsDocument = storedCells as unknown as SharedCellsDocument): TreeDocument {
   const sensors = sensorsOf(doc);
   const table = stored.counts[String(sensors.length)];
   if (!table) throw new RangeError(`no shared-reference cells for ${sensors.length} sensors`);
   const nC = SHARED_CLASSES.length;
-  const shortWeights = [TRUNK_SHARE, ...sensors.map(() => (1 - TRUNK_SHARE) / sensors.length)];
   const tests = doc.tests.map((t) => {
     const role = testRole(t.request);
     const measured = t.request.sensor && t.request.sensor !== 'all' ? t.request.sensor : sensors[0]!;
@@ -219,8 +246,8 @@ export function applySharedReferenceCells(doc: TreeDocument, stored: SharedCells
       const sensor = /^(.+)_sensor_loading_reference$/.exec(h.id)?.[1];
       let alts: CauseRole[];
       let w: number[] = [1];
-      if (sensor !== undefined) alts = [sensor === measured ? 'sensor_measured' : 'sensor_other'];
-      else if (h.id === 'reference_short_ground') (alts = ['short_trunk', ...sensors.map((s): CauseRole => (s === measured ? 'short_measured_branch' : 'short_other_branch'))]), (w = shortWeights);
+      if (sensor !== undefined) (alts = SENSOR_SHORTS.map((_, k) => `${sensor === measured ? 'sensor_measured' : 'sensor_other'}_${k}`)), (w = SENSOR_SHORTS.map(() => 1 / SENSOR_SHORTS.length));
+      else if (h.id === 'reference_short_ground') (alts = HARNESS_SHORTS.map((_, k) => `short_${k}`)), (w = HARNESS_SHORTS.map(() => 1 / HARNESS_SHORTS.length));
       else if (h.id === 'module_regulator') (alts = SUPPLY_FORMS.map(([r]) => r)), (w = SUPPLY_FORMS.map(([, x]) => x));
       else alts = ['healthy'];
       index[h.id] = alts.flatMap(cellsOf);
@@ -257,7 +284,25 @@ export function applySharedReferenceCells(doc: TreeDocument, stored: SharedCells
       seed: stored.seed,
       samples: stored.samples,
       classes: SHARED_CLASSES.map((c) => ({ id: c.id, weight: c.weight, circuits: [{ sensors: sensors.length, ...(c.limit ? { currentLimitAmps: c.limit } : {}) }] })),
-      alternatives: { reference_short_ground: shortWeights.map((x) => Number(x.toFixed(4))), module_regulator: SUPPLY_FORMS.map(([, x]) => x) },
+      alternatives: {
+        ...Object.fromEntries(sensors.map((s) => [loadingCause(s), SENSOR_SHORTS.map(() => 1 / SENSOR_SHORTS.length)])),
+        reference_short_ground: HARNESS_SHORTS.map(() => 1 / HARNESS_SHORTS.length),
+        module_regulator: SUPPLY_FORMS.map(([, x]) => x),
+      },
     },
   };
+}
+
+const loaded = new Map<string, Tree>();
+
+/** The loaded tree for a list of sensors (memoised by the sensors' ids and labels; the layout is pure). */
+export function sharedReferenceTreeFor(sensors: SharedSensor[], meta: { id?: string; title?: string } = {}): Tree {
+  const key = JSON.stringify([sensors, meta]);
+  const hit = loaded.get(key);
+  if (hit) return hit;
+  const result = loadTree(sharedReferenceTree(sensors, meta));
+  if (!result.ok) throw new Error(`generated shared-reference tree does not load: ${JSON.stringify(result.findings.slice(0, 3))}`);
+  if (loaded.size > 256) loaded.clear();
+  loaded.set(key, result.tree);
+  return result.tree;
 }
