@@ -44,9 +44,25 @@ export function groupTree(circuits: OrderCircuit[]): Tree {
   );
 }
 
-export function pointsAtReference(d: DiagnosisSummary): boolean {
+/** Below this the reference reads pulled down (the shared-reference tree's "low" outcome; common practice, no source). */
+export const REFERENCE_LOW_VOLTS = 4.5;
+
+/**
+ * A circuit points at its reference when its own diagnosis puts most weight on reference causes, or its latest
+ * reading of the reference, key on and plugged, is pulled down (a single-circuit tree has no cause for a rail
+ * another sensor drags down, so it may call that reading "not modelled").
+ */
+export function pointsAtReference(d: DiagnosisSummary, referenceVolts?: number): boolean {
   const mass = d.ranked.filter((h) => (REFERENCE_CAUSES as readonly string[]).includes(h.id)).reduce((a, h) => a + h.probability, 0);
-  return mass >= POINTS_AT_REFERENCE;
+  return mass >= POINTS_AT_REFERENCE || (referenceVolts !== undefined && referenceVolts < REFERENCE_LOW_VOLTS);
+}
+
+/** A key-on reading of the reference at the sensor with everything plugged (what says the rail is pulled down). */
+export function isPluggedReferenceReading(r: MeasurementRequest): boolean {
+  return (
+    r.quantity === 'dc_volts' && r.at === 'reference' && (r.against === 'battery_negative' || r.against === 'ground' || r.against === 'chassis_ground') &&
+    r.location === 'sensor_connector' && r.connector !== 'unplugged' && (r.otherConnector ?? 'plugged') !== 'unplugged' && r.key === 'on' && r.engine === 'off' && r.jumpers.length === 0
+  );
 }
 
 /**
@@ -86,8 +102,8 @@ export interface GroupView {
  * Whether the order view moves to a group's shared reference by itself: two or more of its circuits point at their
  * reference; or one does and the order holds a sensor reference-voltage code; or a shared-reference test was taken.
  */
-export function groupActivation(memberDiagnoses: Array<{ circuit: OrderCircuit; diagnosis: DiagnosisSummary }>, referenceCodes: string[], groupReadings: number): { active: boolean; why: string[] } {
-  const pointing = memberDiagnoses.filter((m) => pointsAtReference(m.diagnosis));
+export function groupActivation(memberDiagnoses: Array<{ circuit: OrderCircuit; diagnosis: DiagnosisSummary; referenceVolts?: number }>, referenceCodes: string[], groupReadings: number): { active: boolean; why: string[] } {
+  const pointing = memberDiagnoses.filter((m) => pointsAtReference(m.diagnosis, m.referenceVolts));
   const why: string[] = [];
   if (pointing.length >= 2) why.push(`${pointing.length} circuits on this reference point at it: ${pointing.map((m) => m.circuit.label).join(', ')}`);
   else if (pointing.length === 1 && referenceCodes.length) why.push(`${pointing[0]!.circuit.label} points at its reference and the order holds ${referenceCodes.join(', ')} (a sensor reference-voltage code)`);

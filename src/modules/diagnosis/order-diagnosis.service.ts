@@ -10,6 +10,7 @@ import {
   groupSensorId,
   groupTestOf,
   groupTree,
+  isPluggedReferenceReading,
   pointsAtReference,
   whereGroupTestIsTaken,
   type OrderCircuit,
@@ -57,7 +58,8 @@ export class OrderDiagnosisService {
     for (const circuit of context.circuits) {
       const own = readings.filter((m) => m.circuitId === circuit.id);
       const { tree, diagnosis } = await this.circuits.ofCircuit(actor, repairOrderId, circuit, {}, { readings: own, repairs });
-      perCircuit.push({ circuit, tree, diagnosis });
+      const reference = own.filter((m) => !m.supersededBy && !m.overload && m.phase === 'diagnosis' && isPluggedReferenceReading(requestOf(m))).at(-1);
+      perCircuit.push({ circuit, tree, diagnosis, referenceVolts: reference?.valueSi ?? undefined });
     }
     // Code evidence: a sensor reference-voltage code on the order backs a circuit that points at its reference.
     const referenceCodes = context.codes.filter(isReferenceVoltageCode);
@@ -100,7 +102,7 @@ export class OrderDiagnosisService {
         referenceGroupId: groupOf.get(p.circuit.id) ?? null,
         status: p.diagnosis.status,
         leading: p.diagnosis.ranked[0] ? rankedOf(p.diagnosis.ranked[0]) : null,
-        pointsAtReference: pointsAtReference(p.diagnosis),
+        pointsAtReference: pointsAtReference(p.diagnosis, p.referenceVolts),
       })),
       referenceGroups: groupViews.map((g) => ({ id: g.group.id, circuitIds: g.group.circuitIds, active: g.active, why: g.why, diagnosis: diagnosisView(g.tree, g.diagnosis) })),
       leadingCauses: causes.slice(0, CAUSES_SHOWN),
