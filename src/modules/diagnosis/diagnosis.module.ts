@@ -13,6 +13,6 @@ import { ReferenceGroupsModule } from '../reference-groups/reference-groups.modu
   imports: [RepairOrdersModule, forwardRef(() => MeasurementsModule), RepairsModule, FaultTreesModule, ReferenceGroupsModule],
   controllers: [DiagnosisController, OrderDiagnosisController],
   providers: [DiagnosisService, OrderDiagnosisService],
-  exports: [DiagnosisService],
+  exports: [DiagnosisService, OrderDiagnosisService],
 })
 export class DiagnosisModule {}
