@@ -12,7 +12,7 @@ import { join } from 'node:path';
 import { BUILT_IN_DERIVATION, deriveLikelihoods } from '../src/engine/diagnosis/derive-likelihoods';
 import { parseTreeDocument } from '../src/engine/diagnosis/tree-schema';
 import { canonicalJson } from '../src/engine/diagnosis/request-key';
-import { builtInSharedReferenceTree, deriveAllSharedReferenceCells } from '../src/engine/diagnosis/shared-reference-tree';
+import { builtInSharedReferenceTree, deriveAllSharedReferenceCells, SHARED_DERIVATION } from '../src/engine/diagnosis/shared-reference-tree';
 
 const compact = (value: unknown) => `${JSON.stringify(value, null, 2).replace(/\[\s*(-?[\d.e+-]+(?:,\s*-?[\d.e+-]+)*)\s*\]/g, (_m, body: string) => `[${body.split(/,\s*/).join(', ')}]`)}\n`;
 
@@ -22,7 +22,7 @@ let differs = false;
 // The shared reference's cells, by role, for every sensor count; its trees are laid out from them.
 const cellsFile = join(dir, 'derived', 'shared-reference-cells.json');
 const startedCells = Date.now();
-const cells = deriveAllSharedReferenceCells(BUILT_IN_DERIVATION);
+const cells = deriveAllSharedReferenceCells(SHARED_DERIVATION);
 const cellsSame = canonicalJson(cells) === canonicalJson(JSON.parse(readFileSync(cellsFile, 'utf8')));
 differs ||= !cellsSame;
 if (!check) writeFileSync(cellsFile, compact(cells));

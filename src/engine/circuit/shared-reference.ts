@@ -159,8 +159,9 @@ export function sharedNetlist(spec: SharedReferenceSpec, faults: SharedFault[], 
 }
 
 /**
- * Part spreads of a shared reference (common practice, no source): the single circuit's, the trunk like any wire,
- * and the unpowered output's resistance to ground from 200 Ω to 100 kΩ (modules differ widely).
+ * Part spreads of a shared reference (common practice, no source): the single circuit's, but a set point from
+ * 4.75 to 5.15 V (a 5 V reference a little low is still a working one); the trunk like any wire; the unpowered
+ * output's resistance to ground from 200 Ω to 100 kΩ (modules differ widely).
  */
 export interface SharedSpreads {
   wireOhms: [number, number];
@@ -176,7 +177,7 @@ export interface SharedSpreads {
 
 export function defaultSharedSpreads(spec: SharedReferenceSpec): SharedSpreads {
   const reg = spec.regulator.volts;
-  return { wireOhms: [0.05, 0.3], regulatorVolts: [reg - 0.1, reg + 0.1], batteryVolts: 0.2, biasSpread: 0.2, sensorTolerance: 0.02, offOhms: [200, 100_000] };
+  return { wireOhms: [0.05, 0.3], regulatorVolts: [reg - 0.25, reg + 0.15], batteryVolts: 0.2, biasSpread: 0.2, sensorTolerance: 0.02, offOhms: [200, 100_000] };
 }
 
 const logUniform = (random: Random, [lo, hi]: [number, number]) => Math.exp(uniform(random, Math.log(lo), Math.log(hi)));

@@ -25,10 +25,10 @@ import storedCells from '../trees/derived/shared-reference-cells.json';
 export const TEST_ROLES = ['plugged', 'self_unplugged', 'all_unplugged', 'ohms_all_unplugged'] as const;
 export type TestRole = (typeof TEST_ROLES)[number];
 /** Fault forms by severity (common practice, no source); how severe is one property of the circuit, shared by every test. */
-const SENSOR_SHORTS: Array<[number, number]> = [[0.3, 1], [1, 3], [3, 8], [8, 25]];
+const SENSOR_SHORTS: Array<[number, number]> = [[0.3, 0.6], [0.6, 1.2], [1.2, 3], [3, 8], [8, 25]];
 const HARNESS_SHORTS: Array<[number, number]> = [[0.01, 0.1], [0.1, 0.5], [0.5, 2], [2, 8], [8, 25]];
 const WEAK_OUTPUTS: Array<[number, number]> = [[20, 60], [60, 200], [200, 600], [600, 2000]];
-const LOW_SET_POINTS: Array<[number, number]> = [[0, 0.1], [0.1, 0.3], [3.0, 3.75], [3.75, 4.5]];
+const LOW_SET_POINTS: Array<[number, number]> = [[0, 0.1], [0.1, 0.3], [3.0, 3.75], [3.75, 4.6]];
 
 export const CAUSE_ROLES = [
   ...SENSOR_SHORTS.map((_, k) => `sensor_measured_${k}`),
@@ -65,16 +65,25 @@ const ROLE_REQUESTS: Record<TestRole, (ids: string[]) => SharedRequest> = {
   ohms_all_unplugged: (ids) => ({ quantity: 'ohms', at: ids[0]!, unplugged: ids, key: 'off' }),
 };
 
-/** Latent classes of a shared reference: a supply without a current limit, and one limited at 60–250 mA. */
-export const SHARED_CLASSES = [
-  { id: 'no_current_limit', weight: 0.5, limit: undefined },
-  { id: 'current_limited', weight: 0.5, limit: [0.06, 0.25] as [number, number] },
-] as const;
+/**
+ * Latent classes of a shared reference: a supply without a current limit, or one limited somewhere in 60–250 mA
+ * (common practice, no source), split in four so that the limit, like the severity, is one value for every test.
+ */
+export const SHARED_CLASSES: ReadonlyArray<{ id: string; weight: number; limit?: [number, number] }> = [
+  { id: 'no_current_limit', weight: 0.5 },
+  { id: 'limit_60_90_ma', weight: 0.125, limit: [0.06, 0.09] },
+  { id: 'limit_90_130_ma', weight: 0.125, limit: [0.09, 0.13] },
+  { id: 'limit_130_180_ma', weight: 0.125, limit: [0.13, 0.18] },
+  { id: 'limit_180_250_ma', weight: 0.125, limit: [0.18, 0.25] },
+];
+
+/** Seed and draws per cell of the shared reference's derivation (scripts/derive-likelihoods.ts). */
+export const SHARED_DERIVATION = { seed: 20_261_203, samples: 240 } as const;
 
 /** Weights of the alternatives of the two causes that stand for several faults (common practice, no source). */
 const SUPPLY_FORMS: Array<[CauseRole, number]> = [
-  ['supply_set_0', 0.25],
-  ['supply_set_1', 0.15],
+  ['supply_set_0', 0.2],
+  ['supply_set_1', 0.2],
   ['supply_set_2', 0.15],
   ['supply_set_3', 0.15],
   ...WEAK_OUTPUTS.map((_, k): [CauseRole, number] => [`supply_weak_${k}`, 0.075]),

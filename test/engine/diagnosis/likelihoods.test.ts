@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { builtInDocuments } from '../../../src/engine/diagnosis';
 import { BUILT_IN_DERIVATION, deriveLikelihoods } from '../../../src/engine/diagnosis/derive-likelihoods';
 import { parseTreeDocument } from '../../../src/engine/diagnosis/tree-schema';
-import { builtInSharedReferenceTree, deriveSharedReferenceCells, type SharedCellsDocument } from '../../../src/engine/diagnosis/shared-reference-tree';
+import { builtInSharedReferenceTree, deriveSharedReferenceCells, SHARED_DERIVATION, type SharedCellsDocument } from '../../../src/engine/diagnosis/shared-reference-tree';
 import storedSharedCells from '../../../src/engine/trees/derived/shared-reference-cells.json';
 
 // The stored predictive densities and tables must be what the circuit model gives (scripts/derive-likelihoods.ts,
@@ -25,8 +25,8 @@ describe('likelihood tables derived from the circuit model', () => {
   it('stores for the shared-reference tree the cells a recomputation of the three-sensor reference gives, laid out as the built-in tree', () => {
     const stored = parseTreeDocument(builtInDocuments().find((d) => d.id === 'shared-reference')).document!;
     const cells = storedSharedCells as SharedCellsDocument;
-    expect({ seed: cells.seed, samples: cells.samples }).toEqual(BUILT_IN_DERIVATION);
-    expect(deriveSharedReferenceCells(3, BUILT_IN_DERIVATION)).toEqual(cells.counts['3']);
+    expect({ seed: cells.seed, samples: cells.samples }).toEqual(SHARED_DERIVATION);
+    expect(deriveSharedReferenceCells(3, SHARED_DERIVATION)).toEqual(cells.counts['3']);
     expect(builtInSharedReferenceTree(cells)).toEqual(stored);
     expect(stored.derivation!.method).toBe('circuit_model_monte_carlo');
   }, 120_000);
