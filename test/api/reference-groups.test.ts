@@ -98,7 +98,9 @@ describe('reference groups and the order-wide diagnosis over HTTP', () => {
   it.each<[number, string, number]>([
     [3, 'ftp_sensor_loading_reference', 0],
     [3, 'reference_short_ground', 1],
+    [3, 'module_regulator', 0],
     [4, 'map_sensor_loading_reference', 0],
+    [4, 'reference_short_ground', 3],
     [4, 'module_regulator', 2],
   ])('moves to the shared reference of %i circuits by itself and finds %s (case %i)', async (n, cause, index) => {
     const names = SHARED_SENSOR_POOL.slice(0, n);

@@ -68,7 +68,8 @@ export function isPluggedReferenceReading(r: MeasurementRequest): boolean {
 /**
  * The test of a group tree a member circuit's reading answers, or undefined: the reference against battery negative
  * at that circuit's sensor connector, no jumpers, the module connector plugged; key on, engine off for volts
- * (plugged: all plugged; unplugged: only this sensor, or `sensor: "all"`), key off with `sensor: "all"` for ohms.
+ * (plugged, at the group's first circuit; unplugged: only this sensor, or `sensor: "all"`), key off with
+ * `sensor: "all"` for ohms.
  */
 export function groupTestOf(tree: Tree, memberIndex: number, r: MeasurementRequest): string | undefined {
   if (r.at !== 'reference' || r.against !== 'battery_negative' || r.location !== 'sensor_connector' || r.jumpers.length > 0) return undefined;
@@ -78,7 +79,8 @@ export function groupTestOf(tree: Tree, memberIndex: number, r: MeasurementReque
   let id: string | undefined;
   if (r.quantity === 'ohms' && r.key === 'off' && r.connector === 'unplugged' && all) id = 'reference_ohms_all_unplugged';
   else if (r.quantity === 'dc_volts' && r.key === 'on' && r.engine === 'off') {
-    if (r.connector !== 'unplugged') id = 'reference_plugged';
+    // The tree reads the plugged rail at its first sensor; the same reading elsewhere differs by the branch drops.
+    if (r.connector !== 'unplugged') id = memberIndex === 0 ? 'reference_plugged' : undefined;
     else id = all ? 'reference_all_unplugged' : `reference_${groupSensorId(memberIndex)}_unplugged`;
   }
   return id && tree.tests.some((t) => t.id === id) ? id : undefined;
