@@ -27,7 +27,7 @@ export type TestRole = (typeof TEST_ROLES)[number];
 /** Fault forms by severity (common practice, no source); how severe is one property of the circuit, shared by every test. */
 const SENSOR_SHORTS: Array<[number, number]> = [[0.3, 0.6], [0.6, 1.2], [1.2, 3], [3, 8], [8, 25]];
 const HARNESS_SHORTS: Array<[number, number]> = [[0.01, 0.1], [0.1, 0.5], [0.5, 2], [2, 8], [8, 25]];
-const WEAK_OUTPUTS: Array<[number, number]> = [[20, 60], [60, 200], [200, 600], [600, 2000]];
+const WEAK_OUTPUTS: Array<[number, number]> = [[20, 35], [35, 60], [60, 100], [100, 180], [180, 320], [320, 560], [560, 1000], [1000, 2000]];
 const LOW_SET_POINTS: Array<[number, number]> = [[0, 0.1], [0.1, 0.3], [3.0, 3.75], [3.75, 4.6]];
 
 export const CAUSE_ROLES = [
@@ -86,7 +86,7 @@ const SUPPLY_FORMS: Array<[CauseRole, number]> = [
   ['supply_set_1', 0.2],
   ['supply_set_2', 0.15],
   ['supply_set_3', 0.15],
-  ...WEAK_OUTPUTS.map((_, k): [CauseRole, number] => [`supply_weak_${k}`, 0.075]),
+  ...WEAK_OUTPUTS.map((_, k): [CauseRole, number] => [`supply_weak_${k}`, 0.3 / WEAK_OUTPUTS.length]),
 ];
 
 export interface StoredCell {
