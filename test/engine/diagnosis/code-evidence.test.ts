@@ -27,7 +27,7 @@ describe('a code is read as the share of each cause’s predicted voltage in its
     ['three-wire-5v', 'P0643', 'reference_short_voltage', 'reference_short_ground', 10, 'high reference: a short to voltage over a short to ground'],
     // The hand rows give a pulled-down reference 0.94 and a good one 0.03 below 4.5 V; "no fault now" is half anything.
     ['shared-reference', 'P0642', 'reference_short_ground', 'no_fault_now', 3, 'low shared reference: a short to ground over no fault now'],
-  ] as const)('on %s, %s makes %s likelier than %s at least %d times (%s)', (treeId, code, more, less, factor) => {
+  ] as const)('on %s, %s makes %s likelier than %s at least %d times (%s)', (treeId, code, more, less, factor, _why) => {
     const like = likeOf(trees[treeId]!, code);
     expect(like(more)).toBeGreaterThan(factor * like(less));
   });
