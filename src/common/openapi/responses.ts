@@ -126,7 +126,11 @@ export const Approval = z.looseObject({
   evidenceDigest: z.string().nullable(),
   currentEvidenceDigest: z.string(),
 });
-export const Verification = z.looseObject({ complete: z.boolean(), toMeasure: z.array(z.looseObject({ circuitId: id, readingId: id, testId: z.string() })) });
+export const Verification = z.looseObject({
+  complete: z.boolean(),
+  toMeasure: z.array(z.looseObject({ circuitId: id, readingId: id, testId: z.string() })),
+  codesReturned: z.array(z.looseObject({ code: z.string(), meaning: z.string(), circuitId: id, circuit: z.string() })),
+});
 
 export function ZResponse(schema: ZodType, status = 200, description = 'the answer'): MethodDecorator {
   return ApiResponse({ status, description, schema: openApiSchema(schema) as never });

@@ -35,5 +35,5 @@ export {
   OUT_OF_SPAN,
   windowsOf,
 } from './code-table';
-export { codeSensorOf, type CodeSensorMatch } from './sensor-terms';
+export { codeMayConcern, codeSensorOf, type CodeSensorMatch } from './sensor-terms';
 export { type Finding, parseBytes, type ParseBytesResult } from './raw-bytes';

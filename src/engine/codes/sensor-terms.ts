@@ -4,7 +4,7 @@
  * TP or APP circuit could be either, and codes of the set are not weighed.
  */
 import { sensorTerm } from '../sensors';
-import type { CodeSensor } from './code-table';
+import type { CodeRow, CodeSensor } from './code-table';
 
 export type CodeSensorMatch = { sensor: CodeSensor } | { ambiguous: CodeSensor[] };
 
@@ -30,4 +30,17 @@ export function codeSensorOf(text: string): CodeSensorMatch | undefined {
     if (Number.isInteger(n) && n >= 1 && n <= set.length) return { sensor: set[n - 1]! };
   }
   return { ambiguous: set };
+}
+
+/**
+ * Whether a code may concern a circuit, for a gate that must not let a returned fault through: a signal code of the
+ * circuit's sensor (of either sensor of an unnamed pair), or any 5 V reference code on a circuit fed by a 5 V
+ * reference (which one feeds it is in the service information, not known here).
+ */
+export function codeMayConcern(row: CodeRow, sensorText: string, circuitKind: string): boolean {
+  if (row.monitor === 'reference') return circuitKind === 'three_wire_5v';
+  const match = codeSensorOf(sensorText);
+  if (!match) return false;
+  const sensors = 'sensor' in match ? [match.sensor] : match.ambiguous;
+  return row.sensors.some((s) => sensors.includes(s));
 }
