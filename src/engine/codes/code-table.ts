@@ -17,7 +17,8 @@ export type CodeSensor = (typeof CODE_SENSORS)[number];
 
 /**
  * `circuit`: the list names no failure type (or we are not sure of it); `circuit_open` is the reference codes'
- * "Circuit/Open"; `intermittent` and `correlation` have no voltage window and change no cause's weight.
+ * "Circuit/Open". `range_performance`, `intermittent` and `correlation` set on a comparison (with other signals, over
+ * time), not on a voltage window, so they change no cause's weight.
  */
 export const FAILURE_TYPES = ['circuit', 'circuit_open', 'range_performance', 'low_input', 'high_input', 'intermittent', 'correlation'] as const;
 export type FailureType = (typeof FAILURE_TYPES)[number];
@@ -45,7 +46,6 @@ export const CODE_WINDOWS: Readonly<Record<Monitor, Partial<Record<FailureType, 
   signal: {
     low_input: { lo: -Infinity, hi: LOW_SIGNAL, words: `signal below about ${LOW_SIGNAL} V`, basis },
     high_input: { lo: HIGH_SIGNAL, hi: Infinity, words: `signal above about ${HIGH_SIGNAL} V`, basis },
-    range_performance: { lo: LOW_SIGNAL, hi: HIGH_SIGNAL, words: `signal inside ${LOW_SIGNAL}–${HIGH_SIGNAL} V but not believed`, basis },
   },
   reference: {
     low_input: { lo: -Infinity, hi: LOW_REFERENCE, words: `reference below about ${LOW_REFERENCE} V at the module`, basis },

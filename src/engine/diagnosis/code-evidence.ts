@@ -10,7 +10,7 @@
  * leaves the module's pin at 5 V. A "no fault now" cause stands for an intermittent: half the healthy circuit, half
  * anything (as its flipping readings are weighed). Several codes multiply (taken as independent).
  */
-import { codeRow, codeSensorOf, parseDtc, windowsOf, type CodeRow, type CodeSensor } from '../codes';
+import { codeRow, codeSensorOf, failureWords, parseDtc, windowsOf, type CodeRow, type CodeSensor } from '../codes';
 import { CIRCUIT_KINDS, type CircuitKind, type MeasurementRequest, type Quantity } from '../vocabulary';
 import { causeAlternatives, defaultCircuit, sampleReadings, type DefaultCircuitOptions, type Spreads } from '../circuit';
 import { BUILT_IN_DERIVATION, classesOf } from './derive-likelihoods';
@@ -143,7 +143,7 @@ export function codeLikelihoods(tree: Tree, code: string): CodeLikelihood {
   const row = codeRow(code);
   if (!row) return { ok: false, reason: `${code} has no row in the code table` };
   const win = windowsOf(row);
-  if (!win) return { ok: false, row, reason: `${row.failure === 'correlation' ? 'a correlation' : 'an intermittent'} code has no voltage window` };
+  if (!win) return { ok: false, row, reason: `a "${failureWords(row.failure)}" code has no voltage window (it sets on a comparison)` };
   const test = monitorTest(tree, row.monitor);
   let like: Float64Array | undefined;
   if (test?.predictive) like = fromCells(tree, test, win.windows);

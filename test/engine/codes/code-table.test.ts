@@ -91,7 +91,6 @@ describe('windows (common practice, no source: a 5 V module signal limit of abou
     ['P0122', [[-Infinity, 0.2]]],
     ['P0123', [[4.8, Infinity]]],
     ['P0120', [[-Infinity, 0.2], [4.8, Infinity]]],
-    ['P0121', [[0.2, 4.8]]],
     ['P0642', [[-Infinity, 4.5]]],
     ['P0643', [[5.5, Infinity]]],
     ['P0641', [[-Infinity, 4.5], [5.5, Infinity]]],
@@ -99,7 +98,7 @@ describe('windows (common practice, no source: a 5 V module signal limit of abou
     expect(windowsOf(codeRow(code)!)!.windows.map((w) => [w.lo, w.hi])).toEqual(windows);
   });
 
-  it.each([['P0124'], ['P2135'], ['P0454']])('gives %s (intermittent or correlation) no window', (code) => {
+  it.each([['P0121'], ['P0124'], ['P2135'], ['P0454'], ['P0116']])('gives %s (range/performance, intermittent or correlation: set on a comparison) no window', (code) => {
     expect(windowsOf(codeRow(code)!)).toBeUndefined();
   });
 });

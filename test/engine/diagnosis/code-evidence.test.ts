@@ -129,7 +129,7 @@ describe('codes that cannot be weighed are findings, not errors', () => {
     expect(d.ranked).toEqual((await diagnose(threeWire, [])).ranked);
   });
 
-  it.each([['P0124'], ['P2135']])('lists %s (intermittent or correlation: no voltage window) as not weighed, without a finding', async (code) => {
+  it.each([['P0121'], ['P0124'], ['P2135']])('lists %s (range/performance, intermittent or correlation: no voltage window) as not weighed, without a finding', async (code) => {
     const d = await diagnose(threeWire, [], { codes: { codes: [code], sensor: 'TP A' } });
     expect(d.codesWeighed).toEqual([expect.objectContaining({ code, weighed: false, effect: expect.stringContaining('no voltage window') })]);
     expect(d.findings.filter((f) => f.code.startsWith('codes.'))).toEqual([]);
