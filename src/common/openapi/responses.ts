@@ -73,7 +73,7 @@ export const Diagnosis = z.looseObject({
   nextTest: z.looseObject({ id: z.string(), label: z.string(), request }).nullable(),
   path: z.array(z.looseObject({ readingId: z.string(), verdict: z.string() })),
   conclusion: z.looseObject({ hypothesisId: z.string(), label: z.string(), probability: z.number(), repair: z.looseObject({ part: z.string(), action: z.string() }) }).nullable(),
-  codesWeighed: z.array(z.looseObject({ code: z.string(), meaning: z.string(), weighed: z.boolean(), effect: z.string(), window: z.string().optional() })),
+  codesWeighed: z.array(z.looseObject({ code: z.string(), meaning: z.string(), weighed: z.boolean(), effect: z.string(), window: z.string().optional() })).optional(),
   findings: z.array(finding),
 });
 export const MeasurementAnswer = z.union([

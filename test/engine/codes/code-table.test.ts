@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { buildCodeTable, CODE_TABLE, codeRow, codeSensorOf, genericMeaning, isReferenceVoltageCode, windowsOf } from '../../../src/engine/codes';
+import { buildCodeTable, CODE_TABLE, codeMayConcern, codeRow, codeSensorOf, genericMeaning, isReferenceVoltageCode, windowsOf } from '../../../src/engine/codes';
 
 const hex = (n: number) => `P${n.toString(16).toUpperCase().padStart(4, '0')}`;
 /** The codes of a range with decimal digits only: P212A–P212F sit inside P2120–P2135 in hex but are another sensor's series. */
@@ -135,5 +135,20 @@ describe('which table sensor a circuit names', () => {
 
   it.each([['O2S 1'], ['throttle'], ['']])('maps %j to no table sensor', (text) => {
     expect(codeSensorOf(text)).toBeUndefined();
+  });
+});
+
+describe('whether a code returned after a repair may concern the repaired circuit', () => {
+  it.each([
+    ['P0122', 'TP A', 'three_wire_5v', true],
+    ['P0122', 'TP', 'three_wire_5v', true],
+    ['P0222', 'TP sensor 1', 'three_wire_5v', false],
+    ['P0107', 'TP A', 'three_wire_5v', false],
+    ['P0118', 'ECT', 'two_wire_thermistor', true],
+    ['P0642', 'MAP', 'three_wire_5v', true],
+    ['P0642', 'ECT', 'two_wire_thermistor', false],
+    ['P0453', 'fuel tank pressure, rear', 'three_wire_5v', false],
+  ] as const)('%s on a %s circuit (%s): %s', (code, sensor, kind, expected) => {
+    expect(codeMayConcern(codeRow(code)!, sensor, kind)).toBe(expected);
   });
 });
