@@ -48,6 +48,9 @@ describe('a code is read as the share of each cause’s predicted voltage in its
 });
 
 // Each case: the codes, and a pair of causes whose order the codes turn round (the prior has the first one lower).
+// Expected numbers are computed from the table (prior × P(code | cause), normalised); which pair turns round follows
+// from the circuit laws above and the window (common practice, no source): e.g. a high signal from an open sensor
+// ground (the signal floats to the reference) over an open signal wire read through a 250 kΩ bias either way.
 const RANKING_CASES: Array<[string, string, CodeOptions, string, string]> = [
   ['a low-input code on TP A', 'three-wire-5v', { codes: ['P0122'], sensor: 'TP A' }, 'reference_short_ground', 'ground_open'],
   ['a high-input code on TP B', 'three-wire-5v', { codes: ['P0223'], sensor: 'TP sensor 2' }, 'signal_short_voltage', 'signal_short_ground'],
