@@ -40,6 +40,9 @@ describe('codes read after the repair, against "verified"', () => {
     expect(refused.status).toBe(409);
     expect(refused.body.error.code).toBe('status.codes_returned');
     expect(refused.body.error.message).toContain('P0122 (TP sensor 1)');
+    const { cookie } = await api.sessionOf(TECH_A);
+    const screen = await (await fetch(`${api.url}/bay/orders/${id}/circuits/${circuitId}`, { headers: { cookie } })).text();
+    expect(screen).toMatch(/<p class="notice">[\s\S]*Read again after the repair: <span class="code">P0122<\/span>[\s\S]*cannot be marked verified/);
   });
 
   it('lets a code of another sensor through to the reading checks, and verifies once the readings are healthy', async () => {

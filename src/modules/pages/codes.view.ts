@@ -1,6 +1,8 @@
 /** The order's trouble codes on the test screen: which ones weighed the causes of this circuit, and how. */
+import { codeMayConcern, codeRow } from '../../engine/codes';
 import type { Diagnosis } from '../../engine/diagnosis';
 import { html, type SafeHtml } from './html';
+import { ICON } from './layout.view';
 
 const sentence = (s: string) => s.charAt(0).toUpperCase() + s.slice(1) + (/[.!?]$/.test(s) ? '' : '.');
 
@@ -23,4 +25,14 @@ export function codesWeighedPanel(d: Pick<Diagnosis, 'codesWeighed'>): SafeHtml 
       ${aside.map((c) => html`<li class="code-aside"><p><span class="code">${c.code}</span> <span class="muted">${sentence(c.effect)}</span></p></li>`)}
     </ul>
   </section>`;
+}
+
+/** After the repair: codes read again that may concern this circuit keep the order from verified; say so up front. */
+export function returnedCodesNotice(codesAfter: readonly string[], circuit: { sensor: string; kind: string }): SafeHtml {
+  const back = codesAfter.filter((code) => {
+    const row = codeRow(code);
+    return row && codeMayConcern(row, circuit.sensor, circuit.kind);
+  });
+  if (back.length === 0) return html``;
+  return html`<p class="notice">${ICON.flag} <span>Read again after the repair: ${back.map((c) => html`<span class="code">${c}</span> `)}${back.length === 1 ? 'concerns' : 'concern'} this circuit. The repair cannot be marked verified until the codes are cleared and read again with none of them back.</span></p>`;
 }
