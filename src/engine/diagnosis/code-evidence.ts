@@ -172,15 +172,26 @@ function effectWords(tree: Tree, before: Float64Array, after: Float64Array): str
   return [up.length ? `raises ${list(up)}` : '', down.length ? `lowers ${list(down)}` : ''].filter(Boolean).join('; ');
 }
 
+export interface WeighedCodes {
+  /** The tree with its prior multiplied by the codes' likelihoods (the same tree when no code was weighed). */
+  tree: Tree;
+  codesWeighed: CodeWeighed[];
+  /** Π P(code | cause) over the weighed codes, per cause id (1 everywhere when none was). */
+  likelihood: Record<string, number>;
+  findings: Finding[];
+}
+
 /**
  * The tree with its prior multiplied by the likelihoods of the codes that concern this circuit, what each code did,
  * and findings for codes that could not be read or weighed. Codes about other sensors are listed as not weighed.
  */
-export function weighCodes(tree: Tree, options: CodeOptions | undefined): { tree: Tree; codesWeighed: CodeWeighed[]; findings: Finding[] } {
+export function weighCodes(tree: Tree, options: CodeOptions | undefined): WeighedCodes {
   const findings: Finding[] = [];
-  if (options === undefined) return { tree, codesWeighed: [], findings };
+  const product = new Float64Array(tree.hypotheses.length).fill(1);
+  const likelihood = () => Object.fromEntries(tree.hypotheses.map((h) => [h.id, product[h.index]!]));
+  if (options === undefined) return { tree, codesWeighed: [], likelihood: likelihood(), findings };
   if (!options || typeof options !== 'object' || !Array.isArray(options.codes)) {
-    return { tree, codesWeighed: [], findings: [finding('codes.invalid', 'options.codes', 'expected { codes: ["P0122", …], sensor: "TP A" }', 'warning')] };
+    return { tree, codesWeighed: [], likelihood: likelihood(), findings: [finding('codes.invalid', 'options.codes', 'expected { codes: ["P0122", …], sensor: "TP A" }', 'warning')] };
   }
   const match = typeof options.sensor === 'string' ? codeSensorOf(options.sensor) : undefined;
   const sensor = match && 'sensor' in match ? match.sensor : undefined;
@@ -220,7 +231,10 @@ export function weighCodes(tree: Tree, options: CodeOptions | undefined): { tree
     }
     const before = Float64Array.from(p);
     let z = 0;
-    for (let h = 0; h < p.length; h++) z += p[h] = p[h]! * result.like[h]!;
+    for (let h = 0; h < p.length; h++) {
+      product[h] = product[h]! * result.like[h]!;
+      z += p[h] = p[h]! * result.like[h]!;
+    }
     for (let h = 0; h < p.length; h++) p[h] = p[h]! / z;
     codesWeighed.push({
       code,
@@ -231,7 +245,7 @@ export function weighCodes(tree: Tree, options: CodeOptions | undefined): { tree
       likelihoods: Object.fromEntries(tree.hypotheses.map((h) => [h.id, Number(result.like[h.index]!.toPrecision(4))])),
     });
   });
-  if (!codesWeighed.some((c) => c.weighed)) return { tree, codesWeighed, findings };
+  if (!codesWeighed.some((c) => c.weighed)) return { tree, codesWeighed, likelihood: likelihood(), findings };
   const hypotheses = tree.hypotheses.map((h) => ({ ...h, prior: p[h.index]! }));
-  return { tree: { ...tree, hypotheses, logPrior: Float64Array.from(p, Math.log) }, codesWeighed, findings };
+  return { tree: { ...tree, hypotheses, logPrior: Float64Array.from(p, Math.log) }, codesWeighed, likelihood: likelihood(), findings };
 }

@@ -34,7 +34,7 @@ export type { DiagnosisStatus, NextTestReason } from './status-rules';
 export type { Verdict } from './reading-checks';
 export type { LoadOptions, LoadResult } from './load-tree';
 export type { Undecided } from './undecided';
-export { codeLikelihoods, weighCodes, type CodeLikelihood, type CodeOptions, type CodeWeighed } from './code-evidence';
+export { codeLikelihoods, weighCodes, type CodeLikelihood, type CodeOptions, type CodeWeighed, type WeighedCodes } from './code-evidence';
 export { TREE_FORMAT } from './tree-schema';
 export { TREE_LIMITS, checkTreeLimits, jsonDepth, treeLimitsTable, type TreeLimitName } from './tree-limits';
 export { requestKey } from './request-key';

@@ -162,6 +162,15 @@ describe('per-cause likelihoods for other callers', () => {
     expect(!r.ok && r.reason).toContain(reason);
   });
 
+  it('gives the product of the weighed codes’ likelihoods per cause, for a reference shared by several sensors', () => {
+    const w = weighCodes(shared, { codes: ['P0652', 'P0107'], sensor: 'MAP', reference: 'B' });
+    const [ref, map] = [codeLikelihoods(shared, 'P0652'), codeLikelihoods(shared, 'P0107')];
+    // P0107 has no key-on signal reading on the shared-reference tree: listed, not weighed
+    expect(map.ok).toBe(false);
+    for (const h of shared.hypotheses) expect(w.likelihood[h.id]).toBeCloseTo(ref.ok ? ref.like[h.index]! : NaN, 12);
+    expect(w.codesWeighed.map((c) => [c.code, c.weighed])).toEqual([['P0652', true], ['P0107', false]]);
+  });
+
   it('is deterministic: the same tree and code give the same numbers', () => {
     const weighed = (t: Tree) => weighCodes(t, { codes: ['P0641'], sensor: 'MAP', reference: 'A' }).codesWeighed;
     expect(weighed(threeWire)).toEqual(weighed(threeWire));
