@@ -159,7 +159,7 @@ export function drawConcern(ctx: RenderContext): void {
     ? [{ cells: [[{ text: 'After repair', font: 'bold' as const, size: SIZE.table }], [{ text: '—', size: SIZE.table }], [{ text: 'NOT RECORDED: nobody recorded reading the codes after the repair', font: 'bold' as const, size: SIZE.table, color: COLOR.fail }], [{ text: '', size: SIZE.table }]] }]
     : after.codes.length
       ? rows('After repair', after.codes)
-      : [{ cells: [[{ text: 'After repair', font: 'bold' as const, size: SIZE.table }], [{ text: '—', size: SIZE.table }], [{ text: 'No codes returned', size: SIZE.table }], [{ text: '', size: SIZE.table }]] }];
+      : [{ cells: [[{ text: 'After repair', font: 'bold' as const, size: SIZE.table }], [{ text: '—', size: SIZE.table }], [{ text: NONE_RETURNED[after.check.method](after.check.keyCycles), size: SIZE.table }], [{ text: '', size: SIZE.table }]] }];
   drawTable(flow, {
     caption: 'Trouble codes',
     columns: [
@@ -184,6 +184,13 @@ const METHOD_WORDS: Record<CodeCheckMethod, (keyCycles: number | null) => string
   cleared_then_key_cycles: (n) => `codes cleared, then read again after ${n ?? 'several'} key cycle${n === 1 ? '' : 's'}`,
   road_test: () => 'codes cleared, then read again after a road test',
   rescanned: () => 'codes read again with the scan tool after the repair (not cleared first)',
+};
+
+/** The after-repair row when no code came back: how they were read, in one line. */
+const NONE_RETURNED: Record<CodeCheckMethod, (keyCycles: number | null) => string> = {
+  cleared_then_key_cycles: (n) => `Codes cleared, none returned after ${n ?? 'several'} key cycle${n === 1 ? '' : 's'}`,
+  road_test: () => 'Codes cleared, none returned after a road test',
+  rescanned: () => 'None stored on a re-scan after the repair (not cleared first)',
 };
 
 /** "84215" → "84,215" without locale data (the integer part only). */

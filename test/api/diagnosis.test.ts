@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { builtInDocuments, builtInTrees } from '../../src/engine/diagnosis';
+import { builtInDocuments, builtInTrees, codeLikelihoods, diagnose } from '../../src/engine/diagnosis';
 import { FOREMAN_A, newVehicle, TECH_A, TECH_B } from '../support/fixtures';
 import { startApi, type TestApi } from '../support/http';
 import { diagnoseToEnd, simulatedReading } from '../support/simulate';
@@ -124,5 +124,51 @@ describe('diagnosis over HTTP, driven by readings simulated from the circuit mod
     expect(broken.body.error.findings[0].path).toMatch(/^body\.hypotheses/);
     expect((await api.call('POST', '/api/fault-trees', { user: TECH_A, body: own })).status).toBe(403);
     expect((await api.call('GET', `/api/fault-trees/${circuit.body.faultTree.id}`, { user: TECH_B })).status).toBe(404);
+  });
+
+  describe('the order’s trouble codes', () => {
+    const tree = builtInTrees()['three-wire-5v']!;
+    async function coded(codes: string[], sensor: string) {
+      const ro = (await api.call('POST', '/api/repair-orders', { user: FOREMAN_A, body: { vehicle: newVehicle(), complaint: 'Reduced power', codes, technicianId: TECH_A } })).body;
+      const circuit = (await api.call('POST', `/api/repair-orders/${ro.id}/circuits`, { user: TECH_A, body: { kind: 'three_wire_5v', sensor, label: `${sensor} circuit` } })).body;
+      const diagnosis = (await api.call('GET', `/api/repair-orders/${ro.id}/circuits/${circuit.id}/diagnosis`, { user: TECH_A })).body;
+      return { ro, circuit, diagnosis };
+    }
+
+    it('weighs the codes of the circuit’s sensor into the ranking, as the engine does with the same codes', async () => {
+      const { diagnosis } = await coded(['P0122', 'P0107', 'P1234'], 'TP A');
+      const engine = await diagnose(tree, [], { codes: { codes: ['P0122', 'P0107', 'P1234'], sensor: 'TP A' } });
+      for (const h of engine.ranked) expect(diagnosis.ranked.find((x: { id: string }) => x.id === h.id).probability).toBeCloseTo(h.probability, 3);
+      expect(diagnosis.codesWeighed).toEqual([
+        expect.objectContaining({ code: 'P0122', weighed: true, window: expect.stringContaining('0.2 V') }),
+        expect.objectContaining({ code: 'P0107', weighed: false, effect: expect.stringContaining('concerns MAP') }),
+        expect.objectContaining({ code: 'P1234', weighed: false }),
+      ]);
+      expect(diagnosis.findings).toContainEqual(expect.objectContaining({ code: 'codes.not_in_table', path: 'options.codes.codes[2]' }));
+      // A low-input code: the signal short to ground ahead of the short to voltage by at least the code's likelihood ratio (computed from the table).
+      const like = codeLikelihoods(tree, 'P0122');
+      const index = (id: string) => tree.hypotheses.find((h) => h.id === id)!.index;
+      const ratio = like.ok ? like.like[index('signal_short_ground')]! / like.like[index('signal_short_voltage')]! : Infinity;
+      const at = (id: string) => diagnosis.ranked.find((x: { id: string }) => x.id === id).probability;
+      expect(at('signal_short_ground') / at('signal_short_voltage')).toBeGreaterThan(ratio);
+    });
+
+    it('leaves the prior alone for a circuit whose sensor names no single table sensor, and says so', async () => {
+      const { diagnosis } = await coded(['P0122'], 'TP');
+      const plain = await diagnose(tree, []);
+      for (const h of plain.ranked) expect(diagnosis.ranked.find((x: { id: string }) => x.id === h.id).probability).toBeCloseTo(h.probability, 3);
+      expect(diagnosis.codesWeighed).toEqual([expect.objectContaining({ code: 'P0122', weighed: false })]);
+      expect(diagnosis.findings).toContainEqual(expect.objectContaining({ code: 'codes.sensor_unknown' }));
+    });
+
+    it('follows the order’s codes when they are changed', async () => {
+      const { ro, circuit, diagnosis } = await coded([], 'MAP');
+      expect(diagnosis.codesWeighed).toEqual([]);
+      const patched = await api.call('PATCH', `/api/repair-orders/${ro.id}`, { user: FOREMAN_A, body: { version: ro.version, codes: ['P0108'] } });
+      expect(patched.status).toBe(200);
+      const after = (await api.call('GET', `/api/repair-orders/${ro.id}/circuits/${circuit.id}/diagnosis`, { user: TECH_A })).body;
+      expect(after.codesWeighed).toEqual([expect.objectContaining({ code: 'P0108', weighed: true })]);
+      expect(after.ranked).not.toEqual(diagnosis.ranked);
+    });
   });
 });

@@ -148,6 +148,23 @@ describe.each(BACKENDS)('bay and board pages over HTTP on the %s database', (bac
     expect(plain).not.toContain('Fuel vapour');
   });
 
+  it('shows on the test screen which of the order’s codes weighed the causes, in plain words, without the caution colour', async () => {
+    const order = await api.call('POST', '/api/repair-orders', { user: TECH_A, body: { vehicle: newVehicle(), complaint: 'Reduced power', codes: ['P0123', 'P0107'] } });
+    const circuit = await api.call('POST', `/api/repair-orders/${order.body.id}/circuits`, { user: TECH_A, body: { kind: 'three_wire_5v', sensor: 'TP A', label: 'TP sensor 1' } });
+    const text = await (await page(`/bay/orders/${order.body.id}/circuits/${circuit.body.id}`, TECH_A)).text();
+    const panel = text.slice(text.indexOf('id="codes-h"'), text.indexOf('</section>', text.indexOf('id="codes-h"')));
+    // P0123: TP "A" circuit high input (SAE J2012, generic code list); window: common practice, no source
+    expect(panel).toContain('<span class="code">P0123</span>');
+    expect(panel).toContain('high input');
+    expect(panel).toContain('Read as: signal above about 4.8 V');
+    expect(panel).toContain('It makes likelier:');
+    const [likelier, less] = panel.slice(panel.indexOf('It makes likelier:')).split('Less likely:');
+    expect(likelier).toMatch(/signal wire shorted to a battery-voltage circuit \(4\.0 % → \d+ %\)/);
+    expect(less).toContain('5 V reference wire shorted to ground');
+    expect(panel).toContain('Not weighed: concerns MAP, not this circuit.');
+    expect(panel).not.toContain('caution');
+  });
+
   it('renders what a person typed as inert text: complaint, circuit label and a reading note', async () => {
     const evil = '<script>alert(1)</script><img src=x onerror=alert(2)>';
     const order = await api.call('POST', '/api/repair-orders', { user: TECH_A, body: { vehicle: newVehicle(), complaint: evil } });

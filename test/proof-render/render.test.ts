@@ -111,6 +111,23 @@ describe('what the proof states, read back with pdfjs-dist', () => {
   });
 });
 
+describe('codes after the repair, as the proof states them', () => {
+  const codesAfter = (afterRepair: ProofView['troubleCodes']['afterRepair']): ProofView => approvedOnItsEvidence({ ...sampleView(), troubleCodes: { ...sampleView().troubleCodes, afterRepair } });
+  const checkedAt = '2025-03-11T13:30:00-05:00';
+  it.each([
+    ['nobody recorded them', { check: null, codes: [] }, 'NOT RECORDED'],
+    ['cleared and three key cycles, none back', { check: { method: 'cleared_then_key_cycles' as const, keyCycles: 3, checkedAt }, codes: [] }, 'Codes cleared, none returned after 3 key cycles'],
+    ['cleared and one key cycle, none back', { check: { method: 'cleared_then_key_cycles' as const, keyCycles: 1, checkedAt }, codes: [] }, 'Codes cleared, none returned after 1 key cycle'],
+    ['cleared and a road test, none back', { check: { method: 'road_test' as const, keyCycles: null, checkedAt }, codes: [] }, 'Codes cleared, none returned after a road test'],
+    ['a code back after a road test', { check: { method: 'road_test' as const, keyCycles: null, checkedAt }, codes: [{ code: 'P0122', description: 'TP A low input', status: 'current' }] }, 'P0122'],
+  ])('when %s, says %j', async (_name, afterRepair, words) => {
+    const text = allText(await readPdf(await renderProof(codesAfter(afterRepair as ProofView['troubleCodes']['afterRepair'])))).replace(/\s+/g, ' ');
+    expect(text).toContain(words);
+    if (afterRepair.check === null) expect(text).not.toContain('none returned');
+    else expect(text).not.toContain('NOT RECORDED');
+  });
+});
+
 describe('layout', () => {
   it('keeps every line inside the margins and above the footer, on A4 and on Letter', async () => {
     for (const paper of ['A4', 'LETTER'] as const) {

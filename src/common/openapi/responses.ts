@@ -73,6 +73,7 @@ export const Diagnosis = z.looseObject({
   nextTest: z.looseObject({ id: z.string(), label: z.string(), request }).nullable(),
   path: z.array(z.looseObject({ readingId: z.string(), verdict: z.string() })),
   conclusion: z.looseObject({ hypothesisId: z.string(), label: z.string(), probability: z.number(), repair: z.looseObject({ part: z.string(), action: z.string() }) }).nullable(),
+  codesWeighed: z.array(z.looseObject({ code: z.string(), meaning: z.string(), weighed: z.boolean(), effect: z.string(), window: z.string().optional() })).optional(),
   findings: z.array(finding),
 });
 export const ReferenceGroup = z.looseObject({ id, repairOrderId: id, circuitIds: z.array(id), source: z.enum(['technician', 'wire_identification']), note: z.string(), createdBy: person, createdAt: time });
@@ -157,7 +158,11 @@ export const Approval = z.looseObject({
   evidenceDigest: z.string().nullable(),
   currentEvidenceDigest: z.string(),
 });
-export const Verification = z.looseObject({ complete: z.boolean(), toMeasure: z.array(z.looseObject({ circuitId: id, readingId: id, testId: z.string() })) });
+export const Verification = z.looseObject({
+  complete: z.boolean(),
+  toMeasure: z.array(z.looseObject({ circuitId: id, readingId: id, testId: z.string() })),
+  codesReturned: z.array(z.looseObject({ code: z.string(), meaning: z.string(), circuitId: id, circuit: z.string() })),
+});
 
 export function ZResponse(schema: ZodType, status = 200, description = 'the answer'): MethodDecorator {
   return ApiResponse({ status, description, schema: openApiSchema(schema) as never });

@@ -19,4 +19,21 @@ export {
   genericMeaning,
   isReferenceVoltageCode,
 } from './generic-meanings';
+export {
+  buildCodeTable,
+  CODE_SENSORS,
+  CODE_TABLE,
+  CODE_WINDOWS,
+  codeRow,
+  type CodeRow,
+  type CodeSensor,
+  type CodeWindow,
+  FAILURE_TYPES,
+  type FailureType,
+  failureWords,
+  type Monitor,
+  OUT_OF_SPAN,
+  windowsOf,
+} from './code-table';
+export { codeMayConcern, codeSensorOf, type CodeSensorMatch } from './sensor-terms';
 export { type Finding, parseBytes, type ParseBytesResult } from './raw-bytes';

@@ -12,6 +12,7 @@ import { argmax, type PolicyModel, type PolicyState } from './policy';
 import { checkReadingShapes, checkRepairs, verdictOf, type CheckedReading, type ReadingContext } from './reading-checks';
 import { jumperSafety } from './safety-rules';
 import { decide, type ResolvedOptions, type TestProgress } from './status-rules';
+import { weighCodes } from './code-evidence';
 import { undecided } from './undecided';
 import type { Test, Tree } from './tree-model';
 import type { Diagnosis, DiagnosisOptions, NextTest, PathEntry, Reading, Repair } from './index';
@@ -96,8 +97,13 @@ function outcomesOf(test: Test, r: CheckedReading): Promise<string[]> | string[]
 }
 
 /** See `diagnose` in index.ts. */
-export async function runDiagnosis(tree: Tree, readings: readonly Reading[], repairs: readonly Repair[], options: DiagnosisOptions): Promise<Diagnosis> {
+export async function runDiagnosis(untouched: Tree, readings: readonly Reading[], repairs: readonly Repair[], allOptions: DiagnosisOptions): Promise<Diagnosis> {
+  // The order's trouble codes weigh the prior before any reading (code-evidence.ts).
+  const { codes, ...options } = allOptions;
+  const coded = weighCodes(untouched, codes);
+  const tree = coded.tree;
   const { resolved, findings } = resolve(tree, options);
+  findings.push(...coded.findings);
   const shapes = checkReadingShapes(tree, Array.isArray(readings) ? readings : []);
   if (!Array.isArray(readings)) findings.push(finding('readings.not_array', 'readings', 'expected an array of readings'));
   const repairCheck = checkRepairs(Array.isArray(repairs) ? repairs : []);
@@ -208,6 +214,7 @@ export async function runDiagnosis(tree: Tree, readings: readonly Reading[], rep
     undecided: decision.status === 'exhausted' ? undecided(tree, ranked) : null,
     logZ: post.logZ,
     logEvidenceVsChance: post.logEvidenceVsChance,
+    codesWeighed: coded.codesWeighed,
     findings: [...findings, ...decision.findings],
   };
 }

@@ -21,6 +21,7 @@ import type { Caution, Tree } from './tree-model';
 import type { BandsDocument, TreeDocument } from './tree-schema';
 import type { Verdict } from './reading-checks';
 import type { Undecided } from './undecided';
+import type { CodeOptions, CodeWeighed } from './code-evidence';
 import threeWire from '../trees/three-wire-5v.json';
 import twoWire from '../trees/two-wire-thermistor.json';
 import sharedReference from '../trees/shared-reference.json';
@@ -33,6 +34,7 @@ export type { DiagnosisStatus, NextTestReason } from './status-rules';
 export type { Verdict } from './reading-checks';
 export type { LoadOptions, LoadResult } from './load-tree';
 export type { Undecided } from './undecided';
+export { codeLikelihoods, weighCodes, type CodeLikelihood, type CodeOptions, type CodeWeighed, type WeighedCodes } from './code-evidence';
 export { TREE_FORMAT } from './tree-schema';
 export { TREE_LIMITS, checkTreeLimits, jsonDepth, treeLimitsTable, type TreeLimitName } from './tree-limits';
 export { requestKey } from './request-key';
@@ -107,6 +109,11 @@ export interface DiagnosisOptions {
    * lookahead and a `diagnosis.planning_budget_spent` finding says so. 0 always takes the cheap choice.
    */
   planningBudgetMs?: number;
+  /**
+   * The order's trouble codes and the circuit's sensor: codes that concern this sensor's circuit multiply the prior
+   * by P(code | cause) before any reading is weighed; others are listed as not weighed.
+   */
+  codes?: CodeOptions;
 }
 
 export interface PathEntry {
@@ -173,6 +180,8 @@ export interface Diagnosis {
   undecided: Undecided | null;
   logZ: number;
   logEvidenceVsChance: number;
+  /** The order's codes: which were weighed on this circuit, the window each was read as and what it did. */
+  codesWeighed: CodeWeighed[];
   findings: Finding[];
 }
 

@@ -76,7 +76,10 @@ export class DiagnosisService {
       ? []
       : repairs.filter((r) => r.circuitId === null || r.circuitId === circuitId).map((r) => ({ id: r.id, part: r.part, at: r.at.toISOString() }));
     const counted = options.asDiagnosed ? readings.filter((m) => m.phase === 'diagnosis') : readings;
-    const diagnosis = await diagnose(tree, counted.map(engineReading), engineRepairs, { concludeAt: this.config.concludeAt });
+    // The codes read at intake weigh the causes of this circuit's sensor (which 5 V reference feeds it is not stored).
+    const coded = await this.orders.codesForCircuit(repairOrderId, circuitId);
+    const codes = coded ? { codes: coded.repairOrder.codes, sensor: coded.sensor } : undefined;
+    const diagnosis = await diagnose(tree, counted.map(engineReading), engineRepairs, { concludeAt: this.config.concludeAt, codes });
     return { tree, diagnosis, readings };
   }
 }

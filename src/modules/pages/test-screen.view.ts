@@ -9,6 +9,7 @@ import { cautionList, conclusionCard, diagnosisStatus, pathList, proofLink, rank
 import { requestKey } from '../../engine/diagnosis';
 import { conditions, formatEntered, leads, PART_WORDS, padUnits, percent, predictedRange } from './words';
 import { repairable } from './diagnosis-state';
+import { codesWeighedPanel, returnedCodesNotice } from './codes.view';
 
 const REASON_WORDS: Record<string, string> = {
   recheck_indeterminate: 'The last reading fell between two outcomes. Check the probe points and the connector, then measure again.',
@@ -116,6 +117,7 @@ function verificationPanel(order: OrderDetail, c: CircuitDiagnosis, entry: Entry
   const items = c.verification;
   const done = items.filter((v) => v.after).length;
   return html`<section class="panel" aria-labelledby="verify-h"><h2 id="verify-h">Prove the repair: ${done} of ${items.length} taken again</h2>
+    ${returnedCodesNotice(order.codesAfter, c.circuit)}
     <ul class="verify-list">${items.map(
       (v) => html`<li class="${v.after ? 'done' : 'todo'}">
         <span>${v.after ? ICON.check : ICON.pending} ${v.label}</span>
@@ -160,6 +162,7 @@ export function testScreenPage(actor: Actor, order: OrderDetail, c: CircuitDiagn
       </div>
       <div class="test-side">
         <section class="panel" aria-labelledby="causes-h"><h2 id="causes-h">${c.atRepair ? 'Causes as diagnosed before the repair' : 'Likely causes'}</h2>${rankedCauses(c.atRepair ?? d)}</section>
+        ${codesWeighedPanel(c.atRepair ?? d)}
         <section class="panel" aria-labelledby="path-h"><h2 id="path-h">Readings so far</h2>${pathList(c, (r) => (r.phase === correctable ? `${base}?correct=${r.id}` : undefined))}</section>
       </div>
     </div>`,

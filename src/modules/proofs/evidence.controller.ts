@@ -29,9 +29,10 @@ export class EvidenceController {
 
   @Get('verification')
   @ZResponse(Verification)
-  @ApiOperation({ summary: 'The readings that decided each repaired circuit’s cause and are still to be taken again, healthy, before the order is verified' })
+  @ApiOperation({ summary: 'The readings that decided each repaired circuit’s cause and are still to be taken again, healthy, and any code read after the repair that concerns a repaired circuit, before the order is verified' })
   async verification(@CurrentActor() actor: Actor, @UuidParam('id') id: string) {
     const toMeasure = await this.evidence.retests(actor, id);
-    return { complete: toMeasure.length === 0, toMeasure };
+    const codesReturned = await this.evidence.codesReturned(actor, id);
+    return { complete: toMeasure.length === 0 && codesReturned.length === 0, toMeasure, codesReturned };
   }
 }

@@ -4,6 +4,7 @@
  */
 import { Injectable } from '@nestjs/common';
 import { ConflictException, NotFoundException } from '../../common/errors/domain.exception';
+import { codeMayConcern, codeRow } from '../../engine/codes';
 import { retestsStillNeeded, type Retest } from '../../engine/diagnosis';
 import { evidenceDigest, type ProofView } from '../../proof-render';
 import { DiagnosisService, engineReading } from '../diagnosis/diagnosis.service';
@@ -20,6 +21,14 @@ import { toDetailView } from '../repair-orders/repair-orders.view';
 const PROVABLE = new Set(['repaired', 'verified', 'closed']);
 
 export type ApprovalState = 'none' | 'approved' | 'stale' | 'returned' | 'withdrawn';
+
+/** A code read after the repair that may concern a repaired circuit: the fault may not be fixed. */
+export interface ReturnedCode {
+  code: string;
+  meaning: string;
+  circuitId: string;
+  circuit: string;
+}
 
 export interface RetestOfCircuit extends Retest {
   circuitId: string;
@@ -111,6 +120,20 @@ export class EvidenceService {
     });
     const order = await this.orders.find(orderScope(actor), repairOrderId);
     return toDetailView(order!);
+  }
+
+  /** Codes read after the repair that may concern a circuit a repair was on (a repair on no circuit is on them all). */
+  async codesReturned(actor: Actor, repairOrderId: string): Promise<ReturnedCode[]> {
+    const order = await this.orders.find(orderScope(actor), repairOrderId);
+    if (!order) throw new NotFoundException('repair_order', repairOrderId);
+    if (order.codesAfter.length === 0) return [];
+    const repairs = await this.repairs.listForOrder(repairOrderId);
+    const repaired = order.circuits.filter((c) => repairs.some((r) => r.circuitId === null || r.circuitId === c.id));
+    return order.codesAfter.flatMap((code) => {
+      const row = codeRow(code);
+      if (!row) return [];
+      return repaired.filter((c) => codeMayConcern(row, c.sensor, c.kind)).map((c) => ({ code, meaning: row.meaning, circuitId: c.id, circuit: c.label }));
+    });
   }
 
   /** Per repaired circuit, the deciding readings still to take again (or still reading the fault) since its repair. */

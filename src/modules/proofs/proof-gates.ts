@@ -1,6 +1,7 @@
 /**
- * What "verified" and "closed" rest on: a repair counts as verified once every reading that decided the cause has
- * been taken again since the repair and reads where the healthy circuit does; an order closes only with the
+ * What "verified" and "closed" rest on: a repair counts as verified once no code read after it concerns a repaired
+ * circuit and every reading that decided the cause has been taken again since the repair and reads where the healthy
+ * circuit does; an order closes only with the
  * foreman's approval of the evidence as it is now.
  */
 import { Injectable, type OnModuleInit } from '@nestjs/common';
@@ -27,6 +28,15 @@ export class ProofGates implements OnModuleInit {
   }
 
   private async requireRetests(actor: Actor, order: GatedOrder): Promise<void> {
+    const returned = await this.evidence.codesReturned(actor, order.id);
+    if (returned.length > 0) {
+      const words = returned.map((r) => `${r.code} (${r.circuit})`);
+      throw new ConflictException(
+        'status.codes_returned',
+        `${order.number} cannot be verified: a code read after the repair concerns a repaired circuit: ${words.join(', ')}. Diagnose again, repair, then clear and read the codes again.`,
+        { codesReturned: returned },
+      );
+    }
     const missing = await this.evidence.retests(actor, order.id);
     if (missing.length === 0) return;
     const words = missing.map((m) => `${m.circuit}: ${m.test} (${m.state === 'not_measured' ? 'not taken since the repair' : 'still outside the healthy range'})`);

@@ -82,6 +82,11 @@ export class RepairOrdersRepository extends PrismaRepository {
     return db.repairOrder.findFirst({ where: { id, ...scopeWhere(scope) }, select: HEADER });
   }
 
+  /** The order's trouble codes and a circuit's sensor (what a diagnosis weighs the codes against), in one query. */
+  codesForCircuit(repairOrderId: string, circuitId: string, db: Db = this.prisma) {
+    return db.circuit.findFirst({ where: { id: circuitId, repairOrderId }, select: { sensor: true, repairOrder: { select: { codes: true } } } });
+  }
+
   /** The header and the order's circuits (what a reading may name, and which fault tree each one follows), in one query. */
   findHeaderWithCircuits(scope: OrderScope, id: string, db: Db = this.prisma) {
     return db.repairOrder.findFirst({

@@ -99,25 +99,28 @@ describe('systemOf and scopeOf', () => {
   });
 });
 
-describe('generic meanings (SAE J2012 generic code list)', () => {
+describe('generic meanings (SAE J2012, generic code list)', () => {
   it.each([
     ['P0122', 'throttle_pedal_position_a', 'low input', 'three_wire_5v'],
     ['P0123', 'throttle_pedal_position_a', 'high input', 'three_wire_5v'],
     ['P0120', 'throttle_pedal_position_a', undefined, 'three_wire_5v'],
-    ['P0124', 'throttle_pedal_position_a', undefined, 'three_wire_5v'],
+    ['P0124', 'throttle_pedal_position_a', 'intermittent', 'three_wire_5v'],
     ['P0105', 'map_baro', undefined, 'three_wire_5v'],
-    ['P0108', 'map_baro', undefined, 'three_wire_5v'],
+    ['P0108', 'map_baro', 'high input', 'three_wire_5v'],
     ['P0115', 'coolant_temperature', undefined, 'two_wire_thermistor'],
-    ['P0118', 'coolant_temperature', undefined, 'two_wire_thermistor'],
-    ['P0641', 'reference_a', undefined, 'three_wire_5v'],
-    ['P0643', 'reference_a', undefined, 'three_wire_5v'],
-    ['P0651', 'reference_b', undefined, 'three_wire_5v'],
-    ['P0653', 'reference_b', undefined, 'three_wire_5v'],
-    ['P0697', 'reference_c', undefined, 'three_wire_5v'],
-    ['p0699', 'reference_c', undefined, 'three_wire_5v'],
+    ['P0118', 'coolant_temperature', 'high input', 'two_wire_thermistor'],
+    ['P0112', 'intake_air_temperature', 'low input', 'two_wire_thermistor'],
+    ['P0452', 'fuel_tank_pressure', 'low input', 'three_wire_5v'],
+    ['P2127', 'pedal_position_e', 'low input', 'three_wire_5v'],
+    ['P0641', 'reference_a', 'circuit/open', 'three_wire_5v'],
+    ['P0643', 'reference_a', 'high input', 'three_wire_5v'],
+    ['P0651', 'reference_b', 'circuit/open', 'three_wire_5v'],
+    ['P0653', 'reference_b', 'high input', 'three_wire_5v'],
+    ['P0697', 'reference_c', 'circuit/open', 'three_wire_5v'],
+    ['p0699', 'reference_c', 'high input', 'three_wire_5v'],
   ])('tables %s in group %s (variant %s) on a %s circuit', (code, group, variant, circuitKind) => {
     const meaning = genericMeaning(code);
-    expect(meaning).toMatchObject({ code: code.toUpperCase(), group, circuitKind, source: 'SAE J2012 generic code list' });
+    expect(meaning).toMatchObject({ code: code.toUpperCase(), group, circuitKind, source: 'SAE J2012, generic code list' });
     expect(meaning?.variant).toBe(variant);
     expect(meaning?.meaning).toContain('generic SAE meaning');
   });
@@ -134,8 +137,8 @@ describe('generic meanings (SAE J2012 generic code list)', () => {
     expect(isReferenceVoltageCode(code)).toBe(true);
   });
 
-  it('tables exactly the 22 codes of the listed ranges', () => {
-    // 4 MAP/BARO + 4 coolant + 5 throttle/pedal + 3 × 3 reference = 22 (computed from the SAE J2012 ranges listed above)
-    expect(GENERIC_MEANINGS.size).toBe(22);
+  it('gives a meaning for every row of the code table', () => {
+    // 5 TP A + 5 TP B + 16 P2120–P2135 + 4 MAP + 4 IAT + 4 ECT + 5 FTP + 3 × 3 reference = 52 (counted from the SAE J2012 ranges tabled)
+    expect(GENERIC_MEANINGS.size).toBe(52);
   });
 });
