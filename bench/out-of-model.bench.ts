@@ -13,14 +13,17 @@
  * A healthy circuit is right only when proven `no_fault_now`; proven as a wire or part fault it is also counted
  * on its own line, the worst error.
  */
-import { builtInTrees } from '../src/engine/diagnosis';
+import { builtInTrees, sharedReferenceTreeFor } from '../src/engine/diagnosis';
 import { checklistChooser, type TestChooser } from '../src/engine/diagnosis/drive';
-import { OOM_CAUSES, oomCases, type OomTreeId } from '../test/support/out-of-model/cases';
+import { OOM_CAUSES, oomCases, type OomCase, type OomTreeId } from '../test/support/out-of-model/cases';
+import { drawSharedCaseN, sharedCauses, SHARED_SENSOR_POOL } from '../test/support/out-of-model/shared-reference';
 import { addRun, emptyTally, runOomCase, STEP_CAP, type Tally } from '../test/support/out-of-model/drive';
 import type { BenchResult } from './run';
 
 const PER_CAUSE = Number(process.env.OOM_PER_CAUSE ?? 40);
 const SEED = 20261203;
+/** Sensor counts of the shared-reference section. */
+const SHARED_COUNTS = [3, 4, 6, 8];
 export const TARGETS = { right: 0.95, confidentlyWrong: 0.01, p99Ms: 5 } as const;
 
 const pct = (n: number, d: number) => (d === 0 ? '–' : `${((100 * n) / d).toFixed(1)} %`);
@@ -99,10 +102,36 @@ export default async (): Promise<BenchResult[]> => {
     { target: `recompute p99 ≤ ${TARGETS.p99Ms} ms`, engine: `${worstP99.toFixed(3)} ms`, 'fixed checklist': '–', 'engine: met?': met(worstP99 <= TARGETS.p99Ms) },
   ];
   const setting = `${PER_CAUSE} cases per true cause and tree (seed ${SEED}), step cap ${STEP_CAP} readings.`;
+  // References shared by N sensors: the tree generated for the sensors, cases with their own part values.
+  const sharedRows: BenchResult['rows'] = [];
+  const sharedTotals: BenchResult['rows'] = [];
+  const sharedWrong: string[] = [];
+  for (const n of SHARED_COUNTS) {
+    const names = SHARED_SENSOR_POOL.slice(0, n);
+    const tree = sharedReferenceTreeFor(names.map((id) => ({ id, label: `${id.toUpperCase()} sensor` })));
+    const all = emptyTally();
+    for (const cause of sharedCauses(names)) {
+      const t = emptyTally();
+      for (let i = 0; i < PER_CAUSE; i++) {
+        const c = drawSharedCaseN(names, cause, i, SEED);
+        const run = await runOomCase(tree, { tree: 'shared-reference', ...c } as OomCase);
+        addRun(t, run);
+        addRun(all, run);
+        if (run.verdict === 'confidently_wrong') sharedWrong.push(`${n} sensors: ${cause} (${c.variant}) → ${run.proven}`);
+      }
+      sharedRows.push(row(`shared reference, ${n} sensors`, cause, 'engine', t));
+    }
+    sharedTotals.push({ ...row(`shared reference, ${n} sensors`, 'all', 'engine', all), 'healthy proven as a wire or part fault': all.healthyBlamed });
+  }
   return [
     { title: 'Out-of-model diagnosis: targets (all trees together)', rows: targets, notes: [setting] },
     { title: 'Out-of-model diagnosis: per tree', rows: totals },
     { title: 'Out-of-model diagnosis: per tree and true cause', rows: perCause, notes: confusions },
     { title: 'Out-of-model diagnosis: recompute latency of one diagnose() call (engine)', rows: latencyRows },
+    {
+      title: 'Out-of-model diagnosis: references shared by N sensors (generated tree), per true cause',
+      rows: [...sharedTotals, ...sharedRows],
+      notes: [`${PER_CAUSE} cases per true cause and sensor count (seed ${SEED}).`, ...(sharedWrong.length ? [`confidently wrong: ${sharedWrong.slice(0, 12).join('; ')}.`] : [])],
+    },
   ];
 };

@@ -15,6 +15,7 @@ import { HealthModule } from '../modules/health/health.module';
 import { IdentityModule } from '../modules/identity/identity.module';
 import { MeasurementsModule } from '../modules/measurements/measurements.module';
 import { PagesModule } from '../modules/pages/pages.module';
+import { ReferenceGroupsModule } from '../modules/reference-groups/reference-groups.module';
 import { RepairOrdersModule } from '../modules/repair-orders/repair-orders.module';
 import { RepairsModule } from '../modules/repairs/repairs.module';
 import { ReviewsModule } from '../modules/reviews/reviews.module';
@@ -50,6 +51,7 @@ export class AppModule {
         IdentityModule,
         RepairOrdersModule,
         CircuitsModule,
+        ReferenceGroupsModule,
         MeasurementsModule,
         RepairsModule,
         FaultTreesModule,

@@ -24,6 +24,7 @@ export const LIMITS = {
     orderNumber: 20,
     circuitLabel: 80,
     circuitSensor: 64,
+    referenceGroupNote: 500,
     personName: 120,
     shopName: 200,
     shopAddressLine: 200,

@@ -23,6 +23,9 @@ const koeoBackprobe = { location: 'sensor_connector', connector: 'backprobed', k
 interface ShopA {
   id: string;
   circuitId: string;
+  /** A second three-wire circuit, grouped with the first on one 5 V reference. */
+  circuit2Id: string;
+  groupId: string;
   treeRowId: string;
   userId: string;
   vin: string;
@@ -36,10 +39,12 @@ const BODIES: Record<string, (a: ShopA) => unknown> = {
   'post /api/repair-orders/{id}/status': () => ({ to: 'diagnosing' }),
   'post /api/repair-orders/{id}/circuits': () => ({ kind: 'three_wire_5v', sensor: 'MAP', label: 'MAP', cavities: { A: 'reference', B: 'signal', C: 'ground' } }),
   'post /api/repair-orders/{id}/measurements': (a) => ({ circuitId: a.circuitId, quantity: 'dc_volts', at: 'signal', against: 'battery_negative', ...koeoBackprobe, value: 4.87, unit: 'V' }),
+  'post /api/repair-orders/{id}/reference-groups': (a) => ({ circuitIds: [a.circuitId, a.circuit2Id] }),
   'post /api/repair-orders/{id}/repairs': (a) => ({ circuitId: a.circuitId, part: 'signal', action: 'Spliced the signal wire' }),
   'post /api/repair-orders/{id}/reviews': () => ({ decision: 'approved' }),
   'post /api/repair-orders/{id}/codes-after': () => ({ version: 1, codes: [], method: 'road_test' }),
   'post /api/users/{id}/deactivate': () => undefined,
+  'delete /api/repair-orders/{id}/reference-groups/{groupId}': () => undefined,
 };
 
 /** Routes that are about the caller's own credential, not shop data. */
@@ -68,12 +73,15 @@ describe.each(BACKENDS)('shop isolation on every route on the %s database', (bac
       body: { kind: 'three_wire_5v', sensor: 'TP', label: `TP ${MARKER}`, cavities: { A: 'reference', B: 'signal', C: 'ground' } },
     });
     expect(circuit.status).toBe(201);
+    const circuit2 = await api.call('POST', `/api/repair-orders/${ro.body.id}/circuits`, { user: TECH_A, body: { kind: 'three_wire_5v', sensor: 'MAP', label: 'MAP' } });
+    const group = await api.call('POST', `/api/repair-orders/${ro.body.id}/reference-groups`, { user: TECH_A, body: { circuitIds: [circuit.body.id, circuit2.body.id] } });
+    expect(group.status).toBe(201);
     const reading = await api.call('POST', `/api/repair-orders/${ro.body.id}/measurements`, { user: TECH_A, body: BODIES['post /api/repair-orders/{id}/measurements']!({ circuitId: circuit.body.id } as ShopA) });
     expect(reading.status).toBe(201);
     const own = { ...(builtInDocuments()[0] as unknown as Record<string, unknown>), id: 'shop-a-private', title: `Tree ${MARKER}` };
     const tree = await api.call('POST', '/api/fault-trees', { user: FOREMAN_A, body: own });
     expect(tree.status).toBe(201);
-    a = { id: ro.body.id, circuitId: circuit.body.id, treeRowId: tree.body.tree.rowId ?? tree.body.tree.id, userId: TECH_A2, vin: ro.body.vehicle.vin, digest: 'ab'.repeat(32) };
+    a = { id: ro.body.id, circuitId: circuit.body.id, circuit2Id: circuit2.body.id, groupId: group.body.id, treeRowId: tree.body.tree.rowId ?? tree.body.tree.id, userId: TECH_A2, vin: ro.body.vehicle.vin, digest: 'ab'.repeat(32) };
     // What shop B must never read: what shop A typed, its order number, a reading's id, its people and shop name.
     // (The ids B itself sent may come back in a not-found message: B knew them already.)
     markers = [MARKER, ro.body.number, reading.body.id ?? reading.body.items?.[0]?.id, 'Tech One', 'Fore Person', 'Test Bay One'].filter(Boolean);
@@ -155,7 +163,8 @@ describe.each(BACKENDS)('shop isolation on every route on the %s database', (bac
     const ro = await api.call('GET', `/api/repair-orders/${a.id}`, { user: FOREMAN_A });
     expect(ro.body).toMatchObject({ status: 'diagnosing', version: expect.any(Number), cause: '' });
     const circuits = await api.call('GET', `/api/repair-orders/${a.id}/circuits`, { user: FOREMAN_A });
-    expect(circuits.body.items).toHaveLength(1);
+    expect(circuits.body.items).toHaveLength(2);
+    expect((await api.call('GET', `/api/repair-orders/${a.id}/reference-groups`, { user: FOREMAN_A })).body.items).toHaveLength(1);
     const tech = await api.call('GET', '/api/users', { user: FOREMAN_A });
     expect(tech.body.items.find((u: { id: string }) => u.id === TECH_A2)).toMatchObject({ active: true });
   });

@@ -48,10 +48,16 @@ describe.each(BACKENDS)('response schemas in the OpenAPI document on the %s data
       user: TECH_A,
       body: { ...diagnosis.nextTest.request, circuitId: circuit.body.id, value: 0.75, unit: 'V' },
     });
-    expect(reading.status).toBe(201);
+    expect(reading.status, JSON.stringify(reading.body)).toBe(201);
     R.MeasurementAnswer.parse(reading.body);
     R.Measurement.parse(reading.body);
     R.MeasurementList.parse((await api.call('GET', `/api/repair-orders/${id}/measurements`, { user: TECH_A })).body);
+    const second = await api.call('POST', `/api/repair-orders/${id}/circuits`, { user: TECH_A, body: { kind: 'three_wire_5v', sensor: 'MAP', label: 'MAP 1' } });
+    const group = await api.call('POST', `/api/repair-orders/${id}/reference-groups`, { user: TECH_A, body: { circuitIds: [circuit.body.id, second.body.id] } });
+    R.ReferenceGroup.parse(group.body);
+    R.ReferenceGroupList.parse((await api.call('GET', `/api/repair-orders/${id}/reference-groups`, { user: TECH_A })).body);
+    R.OrderDiagnosis.parse((await api.call('GET', `/api/repair-orders/${id}/diagnosis`, { user: TECH_A })).body);
+    R.ReferenceGroupCleared.parse((await api.call('DELETE', `/api/repair-orders/${id}/reference-groups/${group.body.id}`, { user: TECH_A })).body);
     R.Health.parse((await api.call('GET', '/api/health', {})).body);
     R.Me.parse((await api.call('GET', '/api/me', { user: TECH_A })).body);
     R.UserList.parse((await api.call('GET', '/api/users', { user: FOREMAN_A })).body);

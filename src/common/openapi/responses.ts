@@ -76,6 +76,37 @@ export const Diagnosis = z.looseObject({
   codesWeighed: z.array(z.looseObject({ code: z.string(), meaning: z.string(), weighed: z.boolean(), effect: z.string(), window: z.string().optional() })).optional(),
   findings: z.array(finding),
 });
+export const ReferenceGroup = z.looseObject({ id, repairOrderId: id, circuitIds: z.array(id), source: z.enum(['technician', 'wire_identification']), note: z.string(), createdBy: person, createdAt: time });
+export const ReferenceGroupList = list(ReferenceGroup);
+export const ReferenceGroupCleared = z.strictObject({ id, cleared: z.literal(true) });
+const circuitSummary = z.looseObject({
+  circuitId: id,
+  label: z.string(),
+  kind: z.string(),
+  referenceGroupId: id.nullable(),
+  status: z.enum(['testing', 'concluded', 'recheck', 'crank_and_reread', 'exhausted']),
+  leading: ranked.nullable(),
+  pointsAtReference: z.boolean(),
+});
+const orderCause = ranked.extend({ circuitId: id.nullable(), referenceGroupId: id.nullable() });
+export const OrderDiagnosis = z.looseObject({
+  repairOrderId: id,
+  circuits: z.array(circuitSummary),
+  referenceGroups: z.array(
+    z.looseObject({
+      id,
+      circuitIds: z.array(id),
+      active: z.boolean(),
+      why: z.array(z.string()),
+      diagnosis: Diagnosis,
+    }),
+  ),
+  leadingCauses: z.array(orderCause),
+  nextTest: z
+    .looseObject({ id: z.string(), label: z.string(), request, circuitId: id, referenceGroupId: id.nullable(), procedure: z.array(z.string()) })
+    .nullable(),
+  findings: z.array(finding),
+});
 export const MeasurementAnswer = z.union([
   Measurement,
   z.looseObject({ items: z.array(Measurement) }),

@@ -50,3 +50,19 @@ export { Netlist, CompiledNetlist, LEAK_OHMS, GROUND_NODE, solveNodeVoltages, ty
 export { mulberry32, type Random } from './prng';
 export { OHMS_POWERED_LIMIT_VOLTS, FUSED_JUMPER_OHMS } from './measure';
 export { pressureFraction, thermistorOhms } from './sensors';
+export {
+  defaultSharedReference,
+  defaultSharedSpreads,
+  predictSharedReading,
+  sampleSharedReadings,
+  sharedEvaluator,
+  sharedNetlist,
+  sharedNode,
+  validateShared,
+  type SharedFault,
+  type SharedReferenceSpec,
+  type SharedRequest,
+  type SharedSensorSpec,
+  type SharedSpreads,
+  type Severity,
+} from './shared-reference';

@@ -52,8 +52,8 @@ function monitorTest(tree: Tree, monitor: CodeRow['monitor']): Test | undefined 
   if (monitor === 'signal') return tree.tests.find((t) => keyOn(t) && t.request.quantity === SIGNAL_MONITOR.quantity && t.request.at === SIGNAL_MONITOR.at && t.request.connector === SIGNAL_MONITOR.connector);
   const atModule = tree.tests.find((t) => keyOn(t) && t.predictive && t.request.quantity === 'dc_volts' && t.request.at === 'reference' && t.request.location === 'module_connector' && t.request.connector === 'plugged');
   if (atModule || isModelTree(tree)) return atModule;
-  // A hand-given tree: its reference reading with the sensor mated stands for the module's.
-  return tree.tests.find((t) => keyOn(t) && !t.predictive && t.request.quantity === 'dc_volts' && t.request.at === 'reference' && t.request.connector !== 'unplugged');
+  // A hand-given tree, or the shared reference (no module-pin reading): its reference with the sensor mated stands for the module's.
+  return tree.tests.find((t) => keyOn(t) && t.request.quantity === 'dc_volts' && t.request.at === 'reference' && t.request.connector !== 'unplugged');
 }
 
 const isModelTree = (tree: Tree) => tree.document.derivation?.method === 'circuit_model_monte_carlo' && (CIRCUIT_KINDS as readonly string[]).includes(tree.circuitKind);

@@ -190,6 +190,9 @@ export function loadTree(json: unknown, options: LoadOptions = {}): LoadResult {
   return load(json, options);
 }
 
+export { loadingCause, sharedReferenceTree, sharedReferenceTreeFor, sensorsOf as sharedReferenceSensors, type SharedSensor } from './shared-reference-tree';
+export { SHARED_REFERENCE_SENSORS } from './tree-limits';
+
 let builtIns: Record<string, Tree> | undefined;
 
 /** The built-in trees (three-wire 5 V, two-wire thermistor, shared 5 V reference), keyed by tree id. */

@@ -25,6 +25,9 @@ export const TREE_LIMITS = {
   searchCost: { max: 400_000, what: 'next-test search cost: causes × (outcomes summed over all tests)²' },
 } as const satisfies Record<string, TreeLimit>;
 
+/** Sensors on one shared 5 V reference: a generated tree, and a reference group on a repair order, has this many. */
+export const SHARED_REFERENCE_SENSORS = { min: 2, max: 8 } as const;
+
 export type TreeLimitName = keyof typeof TREE_LIMITS;
 
 const over = (name: TreeLimitName, path: string, actual: number): Finding =>

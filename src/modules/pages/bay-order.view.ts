@@ -1,6 +1,6 @@
 /** One repair order at the bay: its circuits, adding one (or identifying the wires first), repairs, sign-off. */
 import type { Actor } from '../identity/actor';
-import type { CircuitDiagnosis, OrderDetail, RepairItem, ReviewList } from './bay.service';
+import type { CircuitDiagnosis, OrderDetail, OrderOverview, RepairItem, ReviewList } from './bay.service';
 import { html, type SafeHtml } from './html';
 import { ICON, page } from './layout.view';
 import { diagnosisStatus, orderHeader, proofLink, repairsList, reviewsList } from './parts.view';
@@ -33,6 +33,31 @@ function circuitCard(order: OrderDetail, c: CircuitDiagnosis): SafeHtml {
       · ${c.readings.length} reading${c.readings.length === 1 ? '' : 's'}</div>
     <a class="button primary" href="/bay/orders/${order.id}/circuits/${c.circuit.id}">${order.status === 'repaired' ? 'Verify the repair' : 'Test this circuit'}</a>
   </li>`;
+}
+
+/** The order's shared 5 V references (which circuits) and the next test for the whole order. */
+function sharedReferencePanel(order: OrderDetail, overview: OrderOverview | undefined): SafeHtml {
+  if (!overview || (!overview.referenceGroups.length && !overview.nextTest)) return html``;
+  const labelOf = (id: string) => overview.circuits.find((c) => c.circuitId === id)?.label ?? 'a circuit no longer on the order';
+  const next = overview.nextTest;
+  const top = overview.leadingCauses[0];
+  return html`<section class="panel" id="order-view" aria-labelledby="order-view-h">
+    <h2 id="order-view-h">The whole order</h2>
+    ${overview.referenceGroups.map(
+      (g) => html`<div class="shared-reference">
+        <p><strong>One 5 V reference feeds:</strong> ${g.circuitIds.map(labelOf).join(', ')}</p>
+        ${g.active
+          ? html`<p>${diagnosisStatus(g.diagnosis)} Diagnosed as one: ${g.why.join('; ')}.${g.diagnosis.ranked[0] ? html` Leading cause: ${g.diagnosis.ranked[0].label} (${percent(g.diagnosis.ranked[0].probability)})` : ''}</p>`
+          : html`<p class="muted">Each circuit is diagnosed on its own until two of them point at this reference.</p>`}
+      </div>`,
+    )}
+    ${top ? html`<p>Leading cause across the order: ${top.label} (${percent(top.probability)})${top.circuitId ? html` · ${labelOf(top.circuitId)}` : ''}</p>` : ''}
+    ${next
+      ? html`<div class="next-for-order"><p><strong>Next test for the order:</strong> ${next.label} <span class="muted">at the ${labelOf(next.circuitId)} connector</span></p>
+          <ol>${next.procedure.map((step) => html`<li>${step}</li>`)}</ol>
+          ${next.referenceGroupId ? '' : html`<a class="button" href="/bay/orders/${order.id}/circuits/${next.circuitId}">Take it on ${labelOf(next.circuitId)}</a>`}</div>`
+      : ''}
+  </section>`;
 }
 
 function cavityRows(prefill: Prefill, kind: string): SafeHtml {
@@ -73,7 +98,7 @@ function addCircuitForm(order: OrderDetail, prefill: Prefill): SafeHtml {
 
 export function orderPage(
   actor: Actor,
-  data: { order: OrderDetail; circuits: CircuitDiagnosis[]; repairs: RepairItem[]; reviews: ReviewList; approval?: Approval; toMeasure?: Array<{ circuit: string; test: string; state: string }> },
+  data: { order: OrderDetail; circuits: CircuitDiagnosis[]; repairs: RepairItem[]; reviews: ReviewList; approval?: Approval; toMeasure?: Array<{ circuit: string; test: string; state: string }>; overview?: OrderOverview },
   prefill: Prefill,
 ): SafeHtml {
   const { order, circuits, repairs, reviews } = data;
@@ -91,6 +116,7 @@ export function orderPage(
       <h2 id="circuits-h">Circuits under test</h2>
       ${circuits.length ? html`<ul class="circuit-list">${circuits.map((c) => circuitCard(order, c))}</ul>` : html`<p class="empty">No circuit yet: add the one the trouble code points at.</p>`}
     </section>
+    ${sharedReferencePanel(order, data.overview)}
     ${finished ? '' : addCircuitForm(order, prefill)}
     <section class="panel" aria-labelledby="repairs-h"><h2 id="repairs-h">Repairs</h2>${repairsList(repairs)}</section>
     ${

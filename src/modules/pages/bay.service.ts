@@ -3,6 +3,7 @@ import { NotFoundException } from '../../common/errors/domain.exception';
 import { requestKey, type Caution, type Diagnosis, type Tree, type WorkContext } from '../../engine/diagnosis';
 import type { MeasurementRequest } from '../../engine/vocabulary';
 import { DiagnosisService } from '../diagnosis/diagnosis.service';
+import { OrderDiagnosisService } from '../diagnosis/order-diagnosis.service';
 import { diagnosisView } from '../diagnosis/diagnosis.view';
 import type { Actor } from '../identity/actor';
 import type { MeasurementRow } from '../measurements/measurements.repository';
@@ -68,12 +69,15 @@ export interface Entry {
 
 const OPEN: NonNullable<ListRepairOrders['status']> = ['open', 'diagnosing', 'repaired', 'verified'];
 
+export type OrderOverview = Awaited<ReturnType<OrderDiagnosisService['forOrder']>>;
+
 /** Gathers what the technician's pages show, from the same services the API uses. */
 @Injectable()
 export class BayService {
   constructor(
     private readonly orders: RepairOrdersService,
     private readonly diagnoses: DiagnosisService,
+    private readonly orderDiagnoses: OrderDiagnosisService,
     private readonly repairs: RepairsService,
     private readonly reviews: ReviewsService,
   ) {}
@@ -95,7 +99,8 @@ export class BayService {
     const [repairs, reviews] = await Promise.all([this.repairs.list(actor, id), this.reviews.list(actor, id)]);
     const circuits: CircuitDiagnosis[] = [];
     for (const c of order.circuits) circuits.push(await this.circuit(actor, order, c.id, repairs.items));
-    return { order, circuits, repairs: repairs.items, reviews };
+    const overview = await this.orderDiagnoses.forOrder(actor, id);
+    return { order, circuits, repairs: repairs.items, reviews, overview };
   }
 
   /** `repairs`: the order's repairs when the caller has them already. */

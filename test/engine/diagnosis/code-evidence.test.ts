@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { builtInTrees, codeLikelihoods, diagnose, weighCodes, type CodeOptions, type Tree } from '../../../src/engine/diagnosis';
+import { builtInDocuments, builtInTrees, codeLikelihoods, diagnose, loadTree, weighCodes, type CodeOptions, type Tree } from '../../../src/engine/diagnosis';
 
 const trees = builtInTrees();
 const threeWire = trees['three-wire-5v']!;
@@ -25,7 +25,7 @@ describe('a code is read as the share of each cause’s predicted voltage in its
     ['two-wire-thermistor', 'P0118', 'signal_open', 'signal_short_ground', 10, 'high ECT signal: an open signal over a short to ground'],
     ['three-wire-5v', 'P0642', 'reference_short_ground', 'reference_open', 10, 'low reference at the module: a short to ground over an open (no current, no drop at the module pin)'],
     ['three-wire-5v', 'P0643', 'reference_short_voltage', 'reference_short_ground', 10, 'high reference: a short to voltage over a short to ground'],
-    // The hand rows give a pulled-down reference 0.94 and a good one 0.03 below 4.5 V; "no fault now" is half anything.
+    // The shared reference's densities below 4.5 V: a pulled-down reference most of its mass, a good one none; "no fault now" is half anything.
     ['shared-reference', 'P0642', 'reference_short_ground', 'no_fault_now', 3, 'low shared reference: a short to ground over no fault now'],
   ] as const)('on %s, %s makes %s likelier than %s at least %d times (%s)', (treeId, code, more, less, factor, _why) => {
     const like = likeOf(trees[treeId]!, code);
@@ -146,12 +146,16 @@ describe('codes that cannot be weighed are findings, not errors', () => {
 });
 
 describe('per-cause likelihoods for other callers', () => {
-  it('gives the shared-reference tree the likelihoods of its own "below 4.5 V" outcome for a low reference code (hand rows)', () => {
-    const r = codeLikelihoods(shared, 'P0652');
+  it('gives a hand-given shared-reference tree the likelihoods of its own "below 4.5 V" outcome for a low reference code (hand rows)', () => {
+    const doc = builtInDocuments().find((d) => d.id === 'shared-reference')!;
+    const loaded = loadTree({ ...doc, tests: doc.tests.map((t) => ({ ...t, predictive: undefined })), derivation: { method: 'hand' } });
+    if (!loaded.ok) throw new Error(JSON.stringify(loaded.findings));
+    const hand = loaded.tree;
+    const r = codeLikelihoods(hand, 'P0652');
     expect(r.ok).toBe(true);
-    const test = shared.tests.find((t) => t.id === 'reference_plugged')!;
+    const test = hand.tests.find((t) => t.id === 'reference_plugged')!;
     const low = test.outcomes.find((o) => o.id === 'low')!.index;
-    for (const h of shared.hypotheses.filter((x) => x.index !== shared.healthyIndex)) {
+    for (const h of hand.hypotheses.filter((x) => x.index !== hand.healthyIndex)) {
       expect(r.ok && r.like[h.index]).toBeCloseTo(test.like[h.index * test.outcomes.length + low]!, 10);
     }
   });

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { builtInTrees, diagnose, type Reading, type TreeRequest } from '../../../src/engine/diagnosis';
+import { builtInDocuments, builtInTrees, diagnose, loadTree, type Reading, type TreeRequest } from '../../../src/engine/diagnosis';
 
 const tree = builtInTrees()['three-wire-5v']!;
 const requestOf = (testId: string): TreeRequest => structuredClone(tree.tests.find((t) => t.id === testId)!.request);
@@ -191,12 +191,18 @@ describe('the shared 5 V reference tree', () => {
   const answer = (testId: string) =>
     testId === 'reference_ohms_all_unplugged' ? 1000 : ['reference_tank_unplugged', 'reference_all_unplugged'].includes(testId) ? 5.0 : 1.2;
 
+  // The same tree with its tables as a shop would give them by hand (no predictive densities).
+  const handDoc = structuredClone(builtInDocuments().find((d) => d.id === 'shared-reference')!);
+  const loadedHand = loadTree({ ...handDoc, tests: handDoc.tests.map((t) => ({ ...t, predictive: undefined })), derivation: { method: 'hand' } });
+  if (!loadedHand.ok) throw new Error(JSON.stringify(loadedHand.findings));
+  const hand = loadedHand.tree;
+
   it('asks for a re-check when a reading lands in a guard band of a hand-given tree, and sets the test aside after two tries', async () => {
-    const once = await diagnose(shared, [at('reference_plugged', 4.7, 'g1')]);
+    const once = await diagnose(hand, [at('reference_plugged', 4.7, 'g1')]);
     expect(once.status).toBe('recheck');
     expect(once.nextTest!.recheckOf).toBe('g1');
     expect(once.path[0]!.verdict).toBe('indeterminate');
-    const twice = await diagnose(shared, [at('reference_plugged', 4.7, 'g1'), at('reference_plugged', 4.72, 'g2')]);
+    const twice = await diagnose(hand, [at('reference_plugged', 4.7, 'g1'), at('reference_plugged', 4.72, 'g2')]);
     expect(twice.nextTest!.id).not.toBe('reference_plugged');
     expect(twice.findings.some((f) => f.code === 'diagnosis.test_unresolved')).toBe(true);
   });

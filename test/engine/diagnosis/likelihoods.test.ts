@@ -2,6 +2,8 @@ import { describe, expect, it } from 'vitest';
 import { builtInDocuments } from '../../../src/engine/diagnosis';
 import { BUILT_IN_DERIVATION, deriveLikelihoods } from '../../../src/engine/diagnosis/derive-likelihoods';
 import { parseTreeDocument } from '../../../src/engine/diagnosis/tree-schema';
+import { builtInSharedReferenceTree, deriveSharedReferenceCells, SHARED_DERIVATION, type SharedCellsDocument } from '../../../src/engine/diagnosis/shared-reference-tree';
+import storedSharedCells from '../../../src/engine/trees/derived/shared-reference-cells.json';
 
 // The stored predictive densities and tables must be what the circuit model gives (scripts/derive-likelihoods.ts,
 // fixed seed, 360 draws per cause and class). A change to the circuit model, a tree's classes or its outcome ranges
@@ -20,12 +22,14 @@ describe('likelihood tables derived from the circuit model', () => {
     // About a million circuit solves: a recomputation, not a timing; allow a busy machine.
   }, 300_000);
 
-  it('keeps the hand-given tables of the shared-reference tree (the circuit model has no multi-sensor reference)', () => {
+  it('stores for the shared-reference tree the cells a recomputation of the three-sensor reference gives, laid out as the built-in tree', () => {
     const stored = parseTreeDocument(builtInDocuments().find((d) => d.id === 'shared-reference')).document!;
-    const { document, findings } = deriveLikelihoods(stored, BUILT_IN_DERIVATION);
-    expect(findings[0]!.code).toBe('derive.unknown_circuit_kind');
-    expect(document).toBe(stored);
-  });
+    const cells = storedSharedCells as SharedCellsDocument;
+    expect({ seed: cells.seed, samples: cells.samples }).toEqual(SHARED_DERIVATION);
+    expect(deriveSharedReferenceCells(3, SHARED_DERIVATION)).toEqual(cells.counts['3']);
+    expect(builtInSharedReferenceTree(cells)).toEqual(stored);
+    expect(stored.derivation!.method).toBe('circuit_model_monte_carlo');
+  }, 120_000);
 
   it('predicts the unplugged biased signal near 4.88 V through a 10 MΩ meter (meter loading: V·Rm/(Rm + Rs), computed)', () => {
     // 5 V behind a 250 kΩ pull-up read by 10 MΩ: 5 × 10/10.25 = 4.878 V (computed from the divider formula).

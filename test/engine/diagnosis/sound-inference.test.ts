@@ -144,7 +144,8 @@ describe('no test left is not a conclusion', () => {
         { id: 'b_cause', label: 'B cause', prior: 0.45, repair: { part: 'module', action: 'Repair B.' } },
         { id: 'unknown', label: 'Not modelled', prior: 0.05, unknown: true, repair: { part: 'unknown', action: 'Consult service information.' } },
       ],
-      tests: [{ ...test, bands: undefined, likelihoods: { a_cause: row, b_cause: row } }],
+      tests: [{ ...test, bands: undefined, predictive: undefined, likelihoods: { a_cause: row, b_cause: row } }],
+      derivation: { method: 'hand' },
     };
   };
 
