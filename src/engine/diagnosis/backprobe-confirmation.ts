@@ -7,15 +7,15 @@
  */
 import { faultsFor } from '../circuit';
 import { finding } from './findings';
-import { argmax, entropyBits, expectedEntropyAfter, openTests, testCost } from './policy';
+import { argmax, openTests, testCost, type PolicyModel } from './policy';
 import { readingFactors } from './posterior';
 import type { Decision, RuleContext } from './status-rules';
 import type { Test } from './tree-model';
 
 /** A reading argues for the leading cause when it is this many times likelier under it than under the rest. */
 const ARGUES_FOR = 1.5;
-/** Smallest expected information (bits) for a test to count as able to confirm. */
-const MIN_BITS = 0.01;
+/** A test can confirm when its likeliest outcome under the leading cause is this many times likelier than under the rest. */
+const CONFIRMS = 3;
 
 /** Causes the circuit model realises as an open: a broken wire or an open sensor element. */
 export function isOpenCause(id: string): boolean {
@@ -25,6 +25,21 @@ export function isOpenCause(id: string): boolean {
 /** Leads on a back-probed connector: the reading hangs on the probe reaching the terminal. */
 export function backprobed(test: Pick<Test, 'request'>): boolean {
   return test.request.connector === 'backprobed' || (test.request.againstLocation !== undefined && test.request.otherConnector === 'backprobed');
+}
+
+/** The leader's likeliest outcome of test `t` against the other causes, weighed by their posterior among themselves. */
+function canConfirm(model: PolicyModel, p: Float64Array, t: number, leader: number): boolean {
+  const { nO, like } = model.tests[t]!;
+  let best = 0;
+  for (let o = 1; o < nO; o++) if (like[leader * nO + o]! > like[leader * nO + best]!) best = o;
+  let rest = 0;
+  let mass = 0;
+  for (let h = 0; h < model.nH; h++) {
+    if (h === leader) continue;
+    rest += p[h]! * like[h * nO + best]!;
+    mass += p[h]!;
+  }
+  return mass > 0 && like[leader * nO + best]! > CONFIRMS * (rest / mass);
 }
 
 /** The status rule: undefined (pass) unless an open is about to be concluded on an unconfirmed back-probe. */
@@ -42,10 +57,7 @@ export function backprobeConfirmation(ctx: RuleContext): Decision | undefined {
   );
   const probed = arguing.flatMap((f) => f.ids.map((id) => testOf.get(id)).filter((e) => e && backprobed(ctx.tree.tests[e.test]!)));
   if (confirmed || probed.length === 0) return undefined;
-  const h0 = entropyBits(ctx.state.p);
-  const candidates = openTests(ctx.state).filter(
-    (t) => !ctx.blocked?.has(t) && !backprobed(ctx.tree.tests[t]!) && h0 - expectedEntropyAfter(ctx.model, ctx.state.p, t) > MIN_BITS,
-  );
+  const candidates = openTests(ctx.state).filter((t) => !ctx.blocked?.has(t) && !backprobed(ctx.tree.tests[t]!) && canConfirm(ctx.model, ctx.state.p, t, leader));
   const first = probed[0]!;
   const test = candidates.length
     ? ctx.tree.tests[candidates.reduce((a, b) => (testCost(ctx.model, ctx.state, b) < testCost(ctx.model, ctx.state, a) ? b : a))]!
