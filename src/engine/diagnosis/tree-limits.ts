@@ -15,9 +15,7 @@ export interface TreeLimit {
 }
 
 export const TREE_LIMITS = {
-  // The derived built-in three-wire tree (20 tests, 19 causes, 36 classes of predictive cells) is about 300 KB
-  // compact; a shop's copy of it must upload, within the 1 MB request body.
-  documentBytes: { max: 524_288, what: 'size of the tree document (UTF-8 JSON bytes)' },
+  documentBytes: { max: 262_144, what: 'size of the tree document (UTF-8 JSON bytes)' },
   documentDepth: { max: 48, what: 'nesting depth of the tree document (objects and arrays)' },
   causes: { max: 40, what: 'causes (hypotheses, the unknown one included)' },
   tests: { max: 40, what: 'tests' },
