@@ -50,3 +50,4 @@ export { Netlist, CompiledNetlist, LEAK_OHMS, GROUND_NODE, solveNodeVoltages, ty
 export { mulberry32, type Random } from './prng';
 export { OHMS_POWERED_LIMIT_VOLTS, FUSED_JUMPER_OHMS } from './measure';
 export { pressureFraction, thermistorOhms } from './sensors';
+export { THERMISTOR_CURVES, THERMISTOR_BIASES, THERMISTOR_PAIRINGS, thermistorCurve, thermistorBias, biasAt, type ThermistorCurve, type ThermistorBias } from './thermistor-curves';
