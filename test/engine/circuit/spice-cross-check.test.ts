@@ -179,6 +179,33 @@ describe('node voltages agree with ngspice (.op, batch mode) within 1e-6 relativ
     else if (predicted.ok) expect(Math.abs(predicted.value - theirs)).toBeLessThanOrEqual(RELATIVE * Math.abs(theirs) + 1e-6);
   });
 
+  // A comparison of two readings: the scan value (what the module sees) against the meter at the sensor. With 10 kΩ in
+  // the signal wire of a pulled-up input, the bias current drops across it, so the two differ by about I_bias × 10 kΩ.
+  it('agrees with ngspice and the divider on the scan-versus-meter gap that 10 kΩ in the signal wire makes', () => {
+    const circuit = defaultCircuit('three_wire_5v', { bias: { kind: 'pull_up', ohms: 250_000 } });
+    const faults = faultsFor('signal_high_resistance');
+    const scanRequest: MeasurementRequest = { quantity: 'scan_value', at: 'signal', location: 'sensor_connector', connector: 'plugged', key: 'on', engine: 'off', jumpers: [], pid: 'signal_volts' };
+    const built = circuitNetlist(circuit, faults, scanRequest);
+    crossCheck('comparison-scan-vs-meter', built);
+    if (!built.ok) return;
+    const deck = join(workdir, 'comparison.cir');
+    writeFileSync(deck, toSpice(built.value, { title: 'comparison', printNodeVoltages: true }));
+    const spice = parseSpiceNodeVoltages(execFileSync('ngspice', ['-b', deck], { encoding: 'utf8', stdio: ['ignore', 'pipe', 'pipe'] }));
+    // ngspice: the module pin (m_signal) against the wiper side of the harness (s_signal), no meter attached.
+    const gapSpice = spice.get('m_signal')! - spice.get('s_signal')!;
+    const scan = predictReading(circuit, faults, scanRequest);
+    const meter = predictReading(circuit, faults, { ...scanRequest, quantity: 'dc_volts', against: 'battery_negative', connector: 'backprobed', pid: undefined });
+    if (!scan.ok || !meter.ok) throw new Error('no reading');
+    // The divider (computed): Thevenin of the wiper, 750 Ω over a 5 kΩ track at 0.15 (637.5 Ω) plus 50 Ω wiper and
+    // 10 kΩ in the wire, pulled up through 250 kΩ: I = (5 − 0.75) / (250 000 + 10 000 + 687.5) ≈ 16.3 µA; the gap
+    // I × 10 000 Ω ≈ 0.163 V.
+    const bias = (5 - 0.75) / (250_000 + 10_000 + 687.5);
+    expect(gapSpice).toBeCloseTo(bias * 10_000, 2);
+    // The scan value is the converter's 10-bit reading of the module side (4.9 mV steps), the meter reads the sensor side.
+    expect(scan.value - meter.value).toBeCloseTo(gapSpice, 2);
+    expect(scan.value - meter.value).toBeGreaterThan(0.14);
+  });
+
   // Every hypothesis's faults once, so each fault kind and variant meets ngspice at least once.
   it.each(HYPOTHESIS_IDS.map((id) => [id]))('agrees with ngspice on a KOEO back-probe with %s', (id) => {
     const circuit = defaultCircuit('three_wire_5v', { sensor: id.includes('shorted') ? 'pressure' : 'potentiometer' });
