@@ -84,7 +84,7 @@ const EXTRA_FAULTS: FaultSpec[][] = [
   [{ kind: 'sensor_internal', variant: 'stuck' }],
   [{ kind: 'sensor_internal', variant: 'skewed' }],
 ];
-describe.each(Object.values(trees).filter((t) => t.circuitKind !== 'shared_5v_reference'))('the jumper rule over every form of every cause of the %s tree', (tree) => {
+describe.each(Object.values(trees).filter((t) => t.circuitKind !== 'shared_5v_reference').map((t) => [t.id, t] as const))('the jumper rule over every form of every cause of the %s tree', (_id, tree) => {
   const sample = drawCase(tree, mulberry32(2));
   const forms = tree.hypotheses
     .filter((h) => !h.unknown)
