@@ -41,6 +41,18 @@ describe('diagnosis over HTTP, driven by readings simulated from the circuit mod
     expect(diagnosis.nextTest.procedure.length).toBeGreaterThan(0);
   });
 
+  it('adds the vehicle-dependent cautions to the next test: the high-voltage caution first on a hybrid, none on a plain car', async () => {
+    const hybrid = (await api.call('POST', '/api/repair-orders', { user: FOREMAN_A, body: { vehicle: newVehicle({ vin: '9ZZEV12K7R0000017', highVoltageSystem: true }), complaint: 'Hybrid, throttle code', technicianId: TECH_A } })).body;
+    const hvCircuit = (await api.call('POST', `/api/repair-orders/${hybrid.id}/circuits`, { user: TECH_A, body: { kind: 'three_wire_5v', sensor: 'FTP', label: 'FTP sensor' } })).body;
+    const hv = (await api.call('GET', `/api/repair-orders/${hybrid.id}/circuits/${hvCircuit.id}/diagnosis`, { user: TECH_A })).body;
+    const ids = hv.nextTest.cautions.map((c: { id: string }) => c.id);
+    expect(ids[0]).toBe('high_voltage_system');
+    expect(ids).toEqual(expect.arrayContaining(['fuel_vapour', 'service_information']));
+    const { ro, circuit } = await newCircuit();
+    const plain = (await api.call('GET', `/api/repair-orders/${ro.id}/circuits/${circuit.body.id}/diagnosis`, { user: TECH_A })).body;
+    expect(plain.nextTest.cautions.map((c: { id: string }) => c.id)).not.toContain('high_voltage_system');
+  });
+
   it('answers a reading posted with diagnosis=true with the same diagnosis a GET right after gives', async () => {
     const { ro, circuit } = await newCircuit();
     const first = (await api.call('GET', `/api/repair-orders/${ro.id}/circuits/${circuit.body.id}/diagnosis`, { user: TECH_A })).body;

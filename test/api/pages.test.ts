@@ -4,7 +4,7 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { html, raw } from '../../src/modules/pages/html';
-import { conditions, leads } from '../../src/modules/pages/words';
+import { conditions, leads, requestLine } from '../../src/modules/pages/words';
 import type { MeasurementRequest } from '../../src/engine/vocabulary';
 import { BACKENDS } from '../support/db';
 import { FIXTURE_PASSWORD, FOREMAN_A, INACTIVE_A, newVehicle, TECH_A, TECH_B, VIN_SAMPLE, VIN_TEXTBOOK } from '../support/fixtures';
@@ -24,7 +24,8 @@ describe('the html template', () => {
     const request: MeasurementRequest = { quantity: 'ohms', at: 'signal', against: 'signal', location: 'sensor_connector', againstLocation: 'module_connector', connector: 'unplugged', otherConnector: 'unplugged', key: 'off', engine: 'off', jumpers: [] };
     const l = leads(request, { B: 'signal' });
     expect(l.red).toBe('signal wire (cavity B) at the sensor connector');
-    expect(l.black).toBe('signal wire at the module connector');
+    expect(l.black).toBe('signal wire, its pin at the module connector');
+    expect(requestLine(request, { B: 'signal' })).toBe('ohms: signal wire (cavity B) at the sensor connector to signal wire, its pin at the module connector, a lead at each end of the harness, key off, engine stopped, sensor connector unplugged, module connector unplugged');
     expect(conditions(request)).toEqual(expect.arrayContaining([{ label: 'Sensor connector', value: 'unplugged' }, { label: 'Module connector', value: 'unplugged' }]));
   });
 

@@ -18,6 +18,7 @@ const HYPOTHESIS_FAULTS = {
   ground_open: [{ kind: 'open', wire: 'ground' }],
   ground_short_voltage: [{ kind: 'short_to_voltage', wire: 'ground' }],
   ground_high_resistance: [{ kind: 'high_resistance', wire: 'ground', ohms: 200 }],
+  signal_short_sensor_ground: [{ kind: 'short_between', wires: ['signal', 'ground'] }],
   sensor_internal: [{ kind: 'sensor_internal', variant: 'open_track' }],
   sensor_internal_open: [{ kind: 'sensor_internal', variant: 'open_track' }],
   sensor_internal_worn_spot: [{ kind: 'sensor_internal', variant: 'worn_spot' }],

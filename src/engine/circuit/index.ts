@@ -66,3 +66,4 @@ export {
   type SharedSpreads,
   type Severity,
 } from './shared-reference';
+export { THERMISTOR_CURVES, THERMISTOR_BIASES, THERMISTOR_PAIRINGS, thermistorCurve, thermistorBias, biasAt, type ThermistorCurve, type ThermistorBias } from './thermistor-curves';

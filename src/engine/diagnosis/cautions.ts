@@ -27,6 +27,9 @@ const touchesReference = (request: MeasurementRequest) =>
 const GROUND_POINTS: readonly Point[] = ['ground', 'battery_negative', 'chassis_ground'];
 const BATTERY_POSTS: readonly Point[] = ['battery_positive', 'battery_negative'];
 const leadsOf = (r: MeasurementRequest): Point[] => [r.at, ...(r.against ? [r.against] : [])];
+/** A lead on the module connector, or the module connector unplugged. */
+const touchesModuleConnector = (r: MeasurementRequest) =>
+  r.location === 'module_connector' || r.againstLocation === 'module_connector' || (r.location === 'sensor_connector' && r.otherConnector === 'unplugged');
 
 export const CAUTION_KINDS: readonly CautionKind[] = [
   {
@@ -81,7 +84,15 @@ export const CAUTION_KINDS: readonly CautionKind[] = [
   {
     id: 'backprobe_gently',
     text: 'Back-probe along the wire at the rear of the connector without spreading, bending or forcing the terminals.',
-    appliesTo: (r) => r.connector === 'backprobed',
+    appliesTo: (r) => r.connector === 'backprobed' || (r.againstLocation !== undefined && r.otherConnector === 'backprobed'),
+  },
+  {
+    id: 'module_connector',
+    text:
+      'At the module connector: key off, and wait as long as the service information asks before unplugging it (some ' +
+      'modules stay awake after key off); probe its terminals only with test leads or adapters that fit them, never ' +
+      'a probe forced into a cavity.',
+    appliesTo: (r) => touchesModuleConnector(r),
   },
   {
     id: 'ohms_unpowered',
@@ -93,7 +104,7 @@ export const CAUTION_KINDS: readonly CautionKind[] = [
   {
     id: 'unplug_key_off',
     text: 'Turn the key off before unplugging or plugging a connector; check the terminals for corrosion or spread pins.',
-    appliesTo: (r) => r.connector === 'unplugged',
+    appliesTo: (r) => r.connector === 'unplugged' || r.otherConnector === 'unplugged',
   },
   {
     id: 'service_information',

@@ -20,8 +20,11 @@ export const DEFAULT_CONCLUDE_AT = 0.95;
 /** The cause that stands for "the circuit tests good now" (its readings are the healthy circuit's). */
 export const HEALTHY_CAUSE = 'no_fault_now';
 const WIRES: readonly string[] = ['reference', 'signal', 'ground'];
-/** A reading of the working circuit: connector mated, key on (a weak supply or a partial short shows under load). */
-export const isLoaded = (t: Test) => t.request.connector !== 'unplugged' && t.request.key === 'on';
+/**
+ * A reading of the working circuit: connector mated, key on (a weak supply or a partial short shows under load). A
+ * drop along a wire (a lead at each end) is not the wire's voltage, so it does not count.
+ */
+export const isLoaded = (t: Test) => t.request.connector !== 'unplugged' && t.request.key === 'on' && t.request.againstLocation === undefined;
 
 export interface LoadOptions {
   /** A document stored before the current safety checks: their findings become warnings (the engine still enforces them). */

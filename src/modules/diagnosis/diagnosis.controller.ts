@@ -20,7 +20,7 @@ export class DiagnosisController {
       'Recomputed on every call from the stored readings and repairs with the fault-tree version the circuit started with; deterministic, never stored.',
   })
   async get(@CurrentActor() actor: Actor, @UuidParam('id') id: string, @UuidParam('circuitId') circuitId: string) {
-    const { tree, diagnosis } = await this.service.forCircuit(actor, id, circuitId);
-    return apiDiagnosisView(tree, diagnosis);
+    const { tree, diagnosis, context } = await this.service.forCircuit(actor, id, circuitId);
+    return apiDiagnosisView(tree, diagnosis, context);
   }
 }

@@ -2,7 +2,7 @@ import { Inject, Injectable } from '@nestjs/common';
 import { APP_CONFIG, type AppConfig } from '../../config/config';
 import type { CircuitKind } from '../../generated/prisma/client';
 import { NotFoundException } from '../../common/errors/domain.exception';
-import { diagnose, type Diagnosis, type Reading, type Repair, type Tree } from '../../engine/diagnosis';
+import { diagnose, type Diagnosis, type Reading, type Repair, type Tree, type WorkContext } from '../../engine/diagnosis';
 import { orderScope, type Actor } from '../identity/actor';
 import { FaultTreeCatalog } from '../fault-trees/fault-tree-catalog.service';
 import { MeasurementsRepository, type MeasurementRow } from '../measurements/measurements.repository';
@@ -45,12 +45,13 @@ export class DiagnosisService {
     repairOrderId: string,
     circuitId: string,
     options: { asDiagnosed?: boolean } = {},
-  ): Promise<{ tree: Tree; diagnosis: Diagnosis; readings: MeasurementRow[] }> {
-    const order = await this.orders.findHeaderWithCircuits(orderScope(actor), repairOrderId);
+  ): Promise<{ tree: Tree; diagnosis: Diagnosis; readings: MeasurementRow[]; context: WorkContext }> {
+    const order = await this.orders.findHeaderWithCircuitsAndVehicle(orderScope(actor), repairOrderId);
     if (!order) throw new NotFoundException('repair_order', repairOrderId);
     const circuit = order.circuits.find((c) => c.id === circuitId);
     if (!circuit) throw new NotFoundException('circuit', circuitId, 'on this repair order');
-    return this.ofCircuit(actor, repairOrderId, circuit, options);
+    const context: WorkContext = { sensor: circuit.sensor, highVoltageSystem: order.vehicle.highVoltageSystem };
+    return { ...(await this.ofCircuit(actor, repairOrderId, circuit, options)), context };
   }
 
   /**

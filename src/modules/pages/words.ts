@@ -83,8 +83,8 @@ export function leads(request: MeasurementRequest, cavities: Record<string, stri
   if (far && request.against)
     // A lead at each end of the harness: name both ends (the cavity map is the sensor connector's).
     return {
-      red: `${request.location === 'sensor_connector' ? pointWords(request.at, cavities) : POINT_WORDS[request.at]} ${where}`,
-      black: `${far === 'sensor_connector' ? pointWords(request.against, cavities) : POINT_WORDS[request.against]} ${LOCATION_WORDS[far]}`,
+      red: `${request.location === 'sensor_connector' ? pointWords(request.at, cavities) : `${POINT_WORDS[request.at]}, its pin`} ${where}`,
+      black: `${far === 'sensor_connector' ? pointWords(request.against, cavities) : `${POINT_WORDS[request.against]}, its pin`} ${LOCATION_WORDS[far]}`,
       where: 'A lead at each end of the harness: use a long test lead.',
     };
   return { red: pointWords(request.at, cavities), black: request.against ? pointWords(request.against, cavities) : null, where };
@@ -118,8 +118,12 @@ export function conditions(request: MeasurementRequest): ConditionWords[] {
 export function requestLine(request: MeasurementRequest, cavities: Record<string, string> = {}): string {
   const l = leads(request, cavities);
   const how = l.black ? `${l.red} to ${l.black}` : l.red;
-  const where = request.quantity === 'scan_value' ? 'scan-tool test' : l.where;
-  return `${QUANTITY_WORDS[request.quantity]}: ${how}, ${where}, key ${request.key}, engine ${ENGINE_WORDS[request.engine]}, ${CONNECTOR_WORDS[request.connector]}`;
+  const bothEnds = request.againstLocation !== undefined && request.againstLocation !== request.location;
+  const where = request.quantity === 'scan_value' ? 'scan-tool test' : bothEnds ? 'a lead at each end of the harness' : l.where;
+  const states = request.otherConnector
+    ? `${request.location === 'sensor_connector' ? 'sensor' : 'module'} connector ${CONNECTOR_WORDS[request.connector]}, ${request.location === 'sensor_connector' ? 'module' : 'sensor'} connector ${CONNECTOR_WORDS[request.otherConnector]}`
+    : CONNECTOR_WORDS[request.connector];
+  return `${QUANTITY_WORDS[request.quantity]}: ${how}, ${where}, key ${request.key}, engine ${ENGINE_WORDS[request.engine]}, ${states}`;
 }
 
 /** Units the number pad offers for a quantity (scan values: the common ones first). */

@@ -95,6 +95,18 @@ export class RepairOrdersRepository extends PrismaRepository {
     });
   }
 
+  /** The same with what the cautions of a test depend on: the vehicle's high-voltage system and each circuit's sensor. */
+  findHeaderWithCircuitsAndVehicle(scope: OrderScope, id: string, db: Db = this.prisma) {
+    return db.repairOrder.findFirst({
+      where: { id, ...scopeWhere(scope) },
+      select: {
+        ...HEADER,
+        vehicle: { select: { highVoltageSystem: true } },
+        circuits: { select: { ...CIRCUIT_OF_ORDER, sensor: true }, orderBy: [{ createdAt: 'asc' }, { id: 'asc' }] },
+      },
+    });
+  }
+
   /** Marks the order as changed (for `changedSince`) when something on it was added; the version stays. */
   async touch(db: Db, id: string): Promise<void> {
     await db.repairOrder.updateMany({ where: { id }, data: { updatedAt: new Date() } });

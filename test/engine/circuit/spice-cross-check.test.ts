@@ -144,17 +144,25 @@ describe('node voltages agree with ngspice (.op, batch mode) within 1e-6 relativ
     ['the reference in current limit under a 33 Ω load', { at: 'reference', connector: 'unplugged', jumpers: [{ from: 'reference', to: 'ground', via: { kind: 'resistor', ohms: 33 } }] }, []],
     ['a corroded ground terminal at the sensor', {}, [{ kind: 'poor_terminal', connector: 'sensor_connector', wire: 'ground', ohms: 150 }]],
     ['a skewed sensor with the module unplugged at the far end', { otherConnector: 'unplugged' }, [{ kind: 'sensor_internal', variant: 'skewed', value: 0.2 }]],
+    [
+      'a loaded drop along the 5 V reference, module pin to sensor pin',
+      { at: 'reference', against: 'reference', location: 'module_connector', againstLocation: 'sensor_connector', otherConnector: 'backprobed' },
+      faultsFor('reference_high_resistance'),
+    ],
   ])('agrees with ngspice on %s', (name, change, faults) => {
     crossCheck(`trade-${name.replace(/[^a-z0-9]+/gi, '-')}`, circuitNetlist(drawing(), faults, { ...keyOn, ...change }));
   });
 
   // Ohms: the ohmmeter's test current as a SPICE current source between the leads; V/I must be our reading.
-  it.each<[string, Partial<MeasurementRequest>, FaultSpec[]]>([
+  it.each<[string, Partial<MeasurementRequest>, FaultSpec[], ('three_wire_5v' | 'two_wire_thermistor')?]>([
     ['end-to-end continuity of a signal wire with 10 kΩ in it', { at: 'signal', against: 'signal', againstLocation: 'module_connector' }, faultsFor('signal_high_resistance')],
     ['a wire-to-wire short, both connectors unplugged', { at: 'signal', against: 'reference' }, [{ kind: 'short_between', wires: ['signal', 'reference'], ohms: 2000 }]],
-  ])('agrees with ngspice on the ohms reading of %s', (name, change, faults) => {
+    ['a signal wire chafed onto the sensor ground wire, both connectors unplugged', { at: 'signal', against: 'ground' }, [{ kind: 'short_between', wires: ['signal', 'ground'], ohms: 470 }]],
+    ['end-to-end continuity of a broken reference', { at: 'reference', against: 'reference', againstLocation: 'module_connector' }, faultsFor('reference_open')],
+    ['a thermistor through its wires from the module connector, sensor plugged', { at: 'signal', against: 'ground', location: 'module_connector', otherConnector: 'plugged' }, [], 'two_wire_thermistor'],
+  ])('agrees with ngspice on the ohms reading of %s', (name, change, faults, kind: 'three_wire_5v' | 'two_wire_thermistor' = 'three_wire_5v') => {
     const request: MeasurementRequest = { ...keyOn, quantity: 'ohms', key: 'off', connector: 'unplugged', otherConnector: 'unplugged', ...change };
-    const built = circuitNetlist(defaultCircuit('three_wire_5v'), faults, request);
+    const built = circuitNetlist(defaultCircuit(kind), faults, request);
     if (!built.ok) throw new Error(JSON.stringify(built.findings));
     const at = pointNode(request.at, request.location);
     const against = pointNode(request.against!, request.againstLocation ?? request.location);
@@ -165,9 +173,37 @@ describe('node voltages agree with ngspice (.op, batch mode) within 1e-6 relativ
     writeFileSync(deck, toSpice(built.value, { title: name, printNodeVoltages: true }));
     const spice = parseSpiceNodeVoltages(execFileSync('ngspice', ['-b', deck], { encoding: 'utf8', stdio: ['ignore', 'pipe', 'pipe'] }));
     const theirs = (spice.get(at.toLowerCase())! - spice.get(against.toLowerCase())!) / 1e-4;
-    const predicted = predictReading(defaultCircuit('three_wire_5v'), faults, request);
+    const predicted = predictReading(defaultCircuit(kind), faults, request);
     expect(predicted.ok).toBe(true);
-    if (predicted.ok) expect(Math.abs(predicted.value - theirs)).toBeLessThanOrEqual(RELATIVE * Math.abs(theirs) + 1e-6);
+    if (predicted.ok && !Number.isFinite(predicted.value)) expect(Math.abs(theirs)).toBeGreaterThan(60e6);
+    else if (predicted.ok) expect(Math.abs(predicted.value - theirs)).toBeLessThanOrEqual(RELATIVE * Math.abs(theirs) + 1e-6);
+  });
+
+  // A comparison of two readings: the scan value (what the module sees) against the meter at the sensor. With 10 kΩ in
+  // the signal wire of a pulled-up input, the bias current drops across it, so the two differ by about I_bias × 10 kΩ.
+  it('agrees with ngspice and the divider on the scan-versus-meter gap that 10 kΩ in the signal wire makes', () => {
+    const circuit = defaultCircuit('three_wire_5v', { bias: { kind: 'pull_up', ohms: 250_000 } });
+    const faults = faultsFor('signal_high_resistance');
+    const scanRequest: MeasurementRequest = { quantity: 'scan_value', at: 'signal', location: 'sensor_connector', connector: 'plugged', key: 'on', engine: 'off', jumpers: [], pid: 'signal_volts' };
+    const built = circuitNetlist(circuit, faults, scanRequest);
+    crossCheck('comparison-scan-vs-meter', built);
+    if (!built.ok) return;
+    const deck = join(workdir, 'comparison.cir');
+    writeFileSync(deck, toSpice(built.value, { title: 'comparison', printNodeVoltages: true }));
+    const spice = parseSpiceNodeVoltages(execFileSync('ngspice', ['-b', deck], { encoding: 'utf8', stdio: ['ignore', 'pipe', 'pipe'] }));
+    // ngspice: the module pin (m_signal) against the wiper side of the harness (s_signal), no meter attached.
+    const gapSpice = spice.get('m_signal')! - spice.get('s_signal')!;
+    const scan = predictReading(circuit, faults, scanRequest);
+    const meter = predictReading(circuit, faults, { ...scanRequest, quantity: 'dc_volts', against: 'battery_negative', connector: 'backprobed', pid: undefined });
+    if (!scan.ok || !meter.ok) throw new Error('no reading');
+    // The divider (computed): Thevenin of the wiper, 750 Ω over a 5 kΩ track at 0.15 (637.5 Ω) plus 50 Ω wiper and
+    // 10 kΩ in the wire, pulled up through 250 kΩ: I = (5 − 0.75) / (250 000 + 10 000 + 687.5) ≈ 16.3 µA; the gap
+    // I × 10 000 Ω ≈ 0.163 V.
+    const bias = (5 - 0.75) / (250_000 + 10_000 + 687.5);
+    expect(gapSpice).toBeCloseTo(bias * 10_000, 2);
+    // The scan value is the converter's 10-bit reading of the module side (4.9 mV steps), the meter reads the sensor side.
+    expect(scan.value - meter.value).toBeCloseTo(gapSpice, 2);
+    expect(scan.value - meter.value).toBeGreaterThan(0.14);
   });
 
   // Every hypothesis's faults once, so each fault kind and variant meets ngspice at least once.

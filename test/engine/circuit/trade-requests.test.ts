@@ -57,6 +57,36 @@ describe('a lead at each end', () => {
     expect(read(groundDrop, faults)).toBeCloseTo(expected, expected < 0.01 ? 4 : 2);
   });
 
+  it('drops about 0.19 V along a reference with 200 Ω in it, module pin to sensor pin, sensor working', () => {
+    // Ohm's law over the series loop (computed): 5 V × (200 + 0.1 + 2 × 0.005) / (5 000 + 200.1 + 1 + 0.11 + 0.05 + 0.01)
+    // ≈ 0.1924 V; the module bias feeding the wiper takes about 0.6 mV off it, within ±5 mV.
+    const drop = { at: 'reference', against: 'reference', location: 'module_connector', againstLocation: 'sensor_connector', connector: 'backprobed', otherConnector: 'backprobed' } as const;
+    expect(read(drop, faultsFor('reference_high_resistance'))).toBeCloseTo((5 * 200.11) / (5000 + 200.11 + 1 + 0.11 + 0.05 + 0.01), 2);
+    expect(Math.abs(read(drop))).toBeLessThan(0.001);
+  });
+
+  it('reads a signal wire chafed onto the sensor ground wire as the chafe plus two half wires, both connectors unplugged', () => {
+    // Series resistances add (computed): 470 Ω + 0.05 Ω + 0.05 Ω.
+    const chafe: FaultSpec[] = [{ kind: 'short_between', wires: ['signal', 'ground'], ohms: 470 }];
+    expect(read({ ...wireToWire, against: 'ground' }, chafe)).toBeCloseTo(470.1, 3);
+  });
+
+  it('reads a thermistor through its wires from the module connector as its Steinhart–Hart resistance plus the loop', () => {
+    // Steinhart & Hart (Deep-Sea Research 15, 1968): 1/T = A + B ln R + C (ln R)³, coefficients of the generic 10 kΩ set
+    // (from memory, generic); inverted in closed form by Cardano's formula for the depressed cubic (computed).
+    const [a, b, c] = [1.12924e-3, 2.34108e-4, 8.7755e-8];
+    const inverse = (celsius: number) => {
+      const x = (a - 1 / (celsius + 273.15)) / c;
+      const y = Math.sqrt((b / (3 * c)) ** 3 + x ** 2 / 4);
+      return Math.exp(Math.cbrt(y - x / 2) - Math.cbrt(y + x / 2));
+    };
+    const ntc = defaultCircuit('two_wire_thermistor', { temperatureC: 80 });
+    const fromModule = { quantity: 'ohms', at: 'signal', against: 'ground', location: 'module_connector', connector: 'unplugged', key: 'off' } as const;
+    // Two 0.1 Ω wires and the two mated terminal pairs at the sensor, 0.005 Ω each.
+    expect(read(fromModule, [], ntc)).toBeCloseTo(inverse(80) + 0.21, 0);
+    expect(read(fromModule, faultsFor('sensor_internal_open'), ntc)).toBe(Number.POSITIVE_INFINITY);
+  });
+
   it('keeps old requests valid: without the new fields a request reads exactly as before', () => {
     const old = read({});
     expect(read({ againstLocation: undefined, otherConnector: 'plugged' })).toBe(old);

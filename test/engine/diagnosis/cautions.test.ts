@@ -30,6 +30,21 @@ describe('the cautions a request needs', () => {
     ['a running engine too', req({ engine: 'running' }), {}, ['engine_turning'], []],
     ['a high-voltage vehicle, on every test', req({ quantity: 'ohms', key: 'off', connector: 'unplugged' }), { highVoltageSystem: true }, ['high_voltage_system'], []],
     ['no high-voltage caution on a vehicle without one', req({}), { highVoltageSystem: false }, [], ['high_voltage_system']],
+    [
+      'a wire ohmed end to end: both connectors unplugged key off, and care at the module connector',
+      req({ quantity: 'ohms', key: 'off', at: 'signal', against: 'signal', connector: 'unplugged', againstLocation: 'module_connector', otherConnector: 'unplugged' }),
+      {},
+      ['unplug_key_off', 'module_connector', 'ohms_unpowered'],
+      ['backprobe_gently'],
+    ],
+    [
+      'a drop along the ground back-probes both connectors',
+      req({ at: 'ground', against: 'ground', againstLocation: 'module_connector', otherConnector: 'backprobed' }),
+      {},
+      ['backprobe_gently', 'module_connector'],
+      ['unplug_key_off'],
+    ],
+    ['a reading at the sensor alone needs no module-connector care', req({}), {}, [], ['module_connector']],
   ])('%s', (_name, request, context, present, absent) => {
     const ids = requiredCautions(request, context);
     for (const id of present) expect(ids).toContain(id);

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { faultsFor, HYPOTHESIS_IDS, mulberry32, validateFaults } from '../../../src/engine/circuit';
+import { causeAlternatives, faultsFor, HYPOTHESIS_IDS, mulberry32, validateFaults, type FaultSpec } from '../../../src/engine/circuit';
 import { builtInDocuments, builtInTrees, diagnose, loadTree, requestKey, type Reading, type Tree, type TreeDocument } from '../../../src/engine/diagnosis';
 import { driveToEnd } from '../../../src/engine/diagnosis/drive';
 import { jumperViolations } from '../../../src/engine/diagnosis/safety-rules';
@@ -70,6 +70,29 @@ describe.each(Object.values(trees).filter((t) => t.circuitKind !== 'shared_5v_re
     const drawn = drawCase(tree, mulberry32(seed), { variantId: variant });
     const c: SimulatedCase = { ...drawn, hypothesisId: cause, faults: faultsFor(cause) };
     const result = await driveToEnd(tree, c);
+    expect(jumperViolations(result.readings)).toEqual([]);
+  });
+});
+
+// Every form of every cause of the tree (a dead or a weak supply, hard and partial shorts, each ground resistance) and
+// the faults no cause names (a corroded terminal at either connector on each wire, a stuck or skewed sensor), one seed
+// each: still no jumper before its wires were measured.
+const EXTRA_FAULTS: FaultSpec[][] = [
+  ...(['reference', 'signal', 'ground'] as const).flatMap((wire) =>
+    (['sensor_connector', 'module_connector'] as const).map((connector): FaultSpec[] => [{ kind: 'poor_terminal', connector, wire, ohms: 500 }]),
+  ),
+  [{ kind: 'sensor_internal', variant: 'stuck' }],
+  [{ kind: 'sensor_internal', variant: 'skewed' }],
+];
+describe.each(Object.values(trees).filter((t) => t.circuitKind !== 'shared_5v_reference').map((t) => [t.id, t] as const))('the jumper rule over every form of every cause of the %s tree', (_id, tree) => {
+  const sample = drawCase(tree, mulberry32(2));
+  const forms = tree.hypotheses
+    .filter((h) => !h.unknown)
+    .flatMap((h) => (causeAlternatives(h.id) ?? []).map((alt, k) => [`${h.id} form ${k + 1}`, alt.faults] as const));
+  const extras = EXTRA_FAULTS.filter((f) => validateFaults(f, sample.circuit).length === 0).map((f) => [JSON.stringify(f[0]), f] as const);
+  it.each([...forms, ...extras].map(([name, faults], i) => [`${name} (seed ${500 + i})`, faults, 500 + i] as const))('%s', async (name, faults, seed) => {
+    const drawn = drawCase(tree, mulberry32(seed));
+    const result = await driveToEnd(tree, { ...drawn, hypothesisId: name, faults: structuredClone(faults) as FaultSpec[] });
     expect(jumperViolations(result.readings)).toEqual([]);
   });
 });

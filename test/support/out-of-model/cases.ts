@@ -187,6 +187,20 @@ function drawFault(cause: string, c: CircuitCase, random: Random): Draw {
       const adcStuck = form === 'reads 0' ? 0 : form === 'reads full scale' ? 5 : u(random, 0.3, 4.7);
       return { faults: [], variant: `input ${form}`, adcStuck };
     }
+    // Causes the circuit model knows but no built-in tree lists yet (drawn when a tree adds them).
+    // Resistance a wire picks up short of an open (strands broken, a corroded splice): enough to matter, not a break.
+    case 'reference_high_resistance': {
+      const ohms = logU(random, 100, 3_000);
+      return { faults: [{ kind: 'series', wire: 'reference', ohms }], variant: `${Math.round(ohms)} Ω` };
+    }
+    case 'signal_high_resistance': {
+      const ohms = three ? logU(random, 3_000, Math.max(6_000, 0.2 * c.bias.ohms)) : logU(random, 1_000, 20_000);
+      return { faults: [{ kind: 'series', wire: 'signal', ohms }], variant: `${(ohms / 1000).toFixed(1)} kΩ` };
+    }
+    case 'ground_short_voltage':
+      return { faults: [{ kind: 'shunt', wire: 'ground', to: 'feed', ohms: HARD(random) }], variant: c.feed.batteryFed ? 'battery-fed circuit' : 'ignition-fed circuit' };
+    case 'signal_short_sensor_ground':
+      return hardOrPartial('signal', 'ground');
     case 'reference_supply_failed': {
       const form = pick(random, ['dead', 'low set point', 'sags under load'] as const);
       if (form === 'dead') return { faults: [], variant: 'dead', supply: { volts: u(random, 0, 0.3) } };

@@ -66,6 +66,16 @@ export function pointNode(point: Point, location: MeasurementRequest['location']
   return `${location === 'module_connector' ? 'm' : 's'}_${point.slice(0, 3)}`;
 }
 
+/** Whether a connector is unplugged for a request: the first lead's connector, or the other one (`otherConnector`). */
+export function unplugged(r: MeasurementRequest, location: MeasurementRequest['location']): boolean {
+  return (r.location === location ? r.connector : r.otherConnector) === 'unplugged';
+}
+
+/** The nodes of the two leads: the second on `againstLocation` when the leads sit at the two ends of the harness. */
+export function leadNodes(r: MeasurementRequest): [string, string] {
+  return [pointNode(r.at, r.location), pointNode(r.against!, r.againstLocation ?? r.location)];
+}
+
 /**
  * Builds the netlist for one request. `supplyMode` lets the caller re-solve with the regulator replaced by its
  * current limit or removed (it only sources current): see `solveCase`.
@@ -81,7 +91,7 @@ export function buildNet(c: CircuitCase, r: MeasurementRequest, supplyMode: Supp
   stampModule(n, c, powered, supplyMode);
   // Module input: bias, ADC input resistance.
   n.r('bias', 'msi', c.bias.direction === 'pull_up' ? 'rl' : 'mg', c.bias.ohms).r('adc', 'msi', 'mg', c.adcInputOhms);
-  const moduleOff = r.location === 'module_connector' && r.connector === 'unplugged';
+  const moduleOff = unplugged(r, 'module_connector');
   const inside: Record<Wire, string> = { reference: 'rl', signal: 'msi', ground: 'mg' };
   for (const w of wires) {
     const tag = w.slice(0, 3);
@@ -98,10 +108,11 @@ export function buildNet(c: CircuitCase, r: MeasurementRequest, supplyMode: Supp
     const to = f.to === 'chassis' ? 'ch' : f.to === 'feed' ? 'fd' : `x_${f.to.slice(0, 3)}`;
     n.r(`short${k}`, `x_${f.wire.slice(0, 3)}`, to, f.ohms);
   });
-  const sensorOff = r.location === 'sensor_connector' && r.connector === 'unplugged';
+  const sensorOff = unplugged(r, 'sensor_connector');
   if (!sensorOff) stampSensor(n, c, wires);
+  if (moduleOff && sensorOff) leakIsolatedWires(n, wires);
   for (const [k, j] of r.jumpers.entries()) if (!blown.has(k)) stampJumper(n, c, j, k, r.location);
-  if (meterOhms !== undefined && r.against) n.r('meter', pointNode(r.at, r.location), pointNode(r.against, r.location), meterOhms);
+  if (meterOhms !== undefined && r.against) n.r('meter', ...leadNodes(r), meterOhms);
   return n;
 }
 
@@ -142,6 +153,11 @@ function stampSensor(n: Net, c: CircuitCase, wires: Wire[]): void {
   }
   if (fault?.variant === 'output_to_reference') n.r('ishort', 'p_w', 'p_ref', fault.ohms);
   if (fault?.variant === 'output_to_ground') n.r('ishort', 'p_w', 'p_gro', fault.ohms);
+}
+
+/** With both connectors unplugged a wire touches nothing: a leak to battery negative keeps it solvable (reads overload). */
+function leakIsolatedWires(n: Net, wires: Wire[]): void {
+  for (const w of wires) n.r(`leak${w.slice(0, 3)}`, `m_${w.slice(0, 3)}`, GROUND, 1e12);
 }
 
 function stampJumper(n: Net, c: CircuitCase, j: Jumper, k: number, location: MeasurementRequest['location']): void {

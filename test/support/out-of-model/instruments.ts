@@ -14,7 +14,7 @@
  */
 import { hashString, splitmix32 } from './random';
 import type { MeasurementRequest } from '../../../src/engine/vocabulary';
-import { buildNet, pointNode, solveCase, type CircuitCase } from './circuits';
+import { buildNet, leadNodes, solveCase, type CircuitCase } from './circuits';
 
 export interface Instruments {
   meterInputOhms: number;
@@ -66,11 +66,11 @@ export function trueValue(c: CircuitCase, inst: Instruments, r: MeasurementReque
   }
   if (r.quantity === 'dc_volts') {
     const s = solveCase(c, r, inst.meterInputOhms);
-    return s.volts.get(pointNode(r.at, r.location))! - s.volts.get(pointNode(r.against!, r.location))!;
+    const [a, b] = leadNodes(r);
+    return s.volts.get(a)! - s.volts.get(b)!;
   }
   if (r.quantity === 'ohms') {
-    const a = pointNode(r.at, r.location);
-    const b = pointNode(r.against!, r.location);
+    const [a, b] = leadNodes(r);
     const live = solveCase(c, r);
     if (Math.abs(live.volts.get(a)! - live.volts.get(b)!) > METER.liveVolts) return Infinity;
     // Thevenin resistance: every source zeroed, 1 A injected between the leads.

@@ -1,0 +1,73 @@
+/**
+ * A back-probe that misses the terminal (the pin slid along the seal, or sits on corrosion) reads exactly like an
+ * open circuit. So an open is not concluded on back-probed readings alone: at least one reading that argues for it
+ * must come from a test whose leads do not depend on a back-probe (a scan value, an unplugged terminal, an ohms
+ * check), or the back-probed reading must have been repeated. Until then the cheapest informative confirming test
+ * is proposed; with none left, the back-probed reading is taken again. Common practice, no source.
+ */
+import { faultsFor } from '../circuit';
+import { finding } from './findings';
+import { argmax, openTests, testCost, type PolicyModel } from './policy';
+import { readingFactors } from './posterior';
+import type { Decision, RuleContext } from './status-rules';
+import type { Test } from './tree-model';
+
+/** A reading argues for the leading cause when it is this many times likelier under it than under the rest. */
+const ARGUES_FOR = 1.5;
+/** A test can confirm when its likeliest outcome under the leading cause is this many times likelier than under the rest. */
+const CONFIRMS = 3;
+
+/** Causes the circuit model realises as an open: a broken wire or an open sensor element. */
+export function isOpenCause(id: string): boolean {
+  return (faultsFor(id) ?? []).some((f) => f.kind === 'open' || (f.kind === 'sensor_internal' && f.variant === 'open_track'));
+}
+
+/** Leads on a back-probed connector: the reading hangs on the probe reaching the terminal. */
+export function backprobed(test: Pick<Test, 'request'>): boolean {
+  return test.request.connector === 'backprobed' || (test.request.againstLocation !== undefined && test.request.otherConnector === 'backprobed');
+}
+
+/** The leader's likeliest outcome of test `t` against the other causes, weighed by their posterior among themselves. */
+function canConfirm(model: PolicyModel, p: Float64Array, t: number, leader: number): boolean {
+  const { nO, like } = model.tests[t]!;
+  let best = 0;
+  for (let o = 1; o < nO; o++) if (like[leader * nO + o]! > like[leader * nO + best]!) best = o;
+  let rest = 0;
+  let mass = 0;
+  for (let h = 0; h < model.nH; h++) {
+    if (h === leader) continue;
+    rest += p[h]! * like[h * nO + best]!;
+    mass += p[h]!;
+  }
+  return mass > 0 && like[leader * nO + best]! > CONFIRMS * (rest / mass);
+}
+
+/** The status rule: undefined (pass) unless an open is about to be concluded on an unconfirmed back-probe. */
+export function backprobeConfirmation(ctx: RuleContext): Decision | undefined {
+  const leader = argmax(ctx.posterior.p);
+  const cause = ctx.tree.hypotheses[leader]!;
+  if (ctx.posterior.p[leader]! < ctx.options.concludeAt || !isOpenCause(cause.id)) return undefined;
+  const testOf = new Map(ctx.evidence.flatMap((e) => e.readingIds.map((id) => [id, e] as const)));
+  const arguing = readingFactors(ctx.tree, ctx.posterior, leader).filter((f) => f.factor > ARGUES_FOR);
+  const confirmed = arguing.some((f) =>
+    f.ids.some((id) => {
+      const e = testOf.get(id);
+      return e && (!backprobed(ctx.tree.tests[e.test]!) || e.readingIds.length > 1);
+    }),
+  );
+  const probed = arguing.flatMap((f) => f.ids.map((id) => testOf.get(id)).filter((e) => e && backprobed(ctx.tree.tests[e.test]!)));
+  if (confirmed || probed.length === 0) return undefined;
+  const candidates = openTests(ctx.state).filter((t) => !ctx.blocked?.has(t) && !backprobed(ctx.tree.tests[t]!) && canConfirm(ctx.model, ctx.state.p, t, leader));
+  const first = probed[0]!;
+  const test = candidates.length
+    ? ctx.tree.tests[candidates.reduce((a, b) => (testCost(ctx.model, ctx.state, b) < testCost(ctx.model, ctx.state, a) ? b : a))]!
+    : ctx.tree.tests[first.test]!;
+  const message = `"${cause.label}" rests on back-probed readings only, and a probe that misses its terminal reads like an open: ${
+    candidates.length ? `confirm with "${test.label}" before concluding` : `back-probe "${test.label}" again, checking the probe reaches the terminal`
+  }`;
+  return {
+    status: 'testing',
+    choice: { test, reason: 'lowest_expected_cost', request: test.request, expectedMinutes: testCost(ctx.model, ctx.state, test.index) },
+    findings: [finding('diagnosis.backprobe_unconfirmed', 'readings', message, 'info')],
+  };
+}
