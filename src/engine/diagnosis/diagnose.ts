@@ -17,6 +17,9 @@ import type { Test, Tree } from './tree-model';
 import type { Diagnosis, DiagnosisOptions, NextTest, PathEntry, Reading, Repair } from './index';
 import type { Posterior } from './posterior';
 
+/** A reading confirms a cause directly when it favours it by more than this Bayes factor over the rest (leave-one-out). */
+const CONFIRMING_FACTOR = 3;
+
 export const DEFAULT_OPTIONS: Omit<ResolvedOptions, 'concludeAt'> = {
   wrongConclusionMinutes: 240,
   strategy: 'auto',
@@ -178,12 +181,13 @@ export async function runDiagnosis(tree: Tree, readings: readonly Reading[], rep
   const readingIndex = new Map(ctx.readings.map((r) => [r.id, r.inputIndex]));
   const leader = argmax(post.p);
   const against = contradictingReadings(tree, post, leader);
-  const decision = decide({ tree, options: resolved, evidence, posterior: post, progress, replacements, readingIndex, model, state, leaderContradictedBy: against, blocked: safety.blocked });
+  const factors = readingFactors(tree, post, leader);
+  const confirmedBy = factors.filter((f) => f.factor > CONFIRMING_FACTOR).flatMap((f) => f.ids);
+  const decision = decide({ tree, options: resolved, evidence, posterior: post, progress, replacements, readingIndex, model, state, leaderContradictedBy: against, leaderConfirmedBy: confirmedBy, blocked: safety.blocked });
 
   const ranked = tree.hypotheses
     .map((h) => ({ id: h.id, label: h.label, part: h.part, probability: post.p[h.index]! }))
     .sort((a, b) => b.probability - a.probability);
-  const factors = decision.status === 'concluded' ? readingFactors(tree, post, leader) : [];
   const conclusion =
     decision.status === 'concluded'
       ? {
@@ -192,7 +196,7 @@ export async function runDiagnosis(tree: Tree, readings: readonly Reading[], rep
           probability: post.p[leader]!,
           repair: { part: tree.hypotheses[leader]!.part, action: tree.hypotheses[leader]!.repairAction },
           decidedBy: factors.filter((f) => f.factor > 1.5).flatMap((f) => f.ids),
-          confirmedBy: factors.filter((f) => f.factor > 3).flatMap((f) => f.ids),
+          confirmedBy,
           reachedThreshold: true,
         }
       : null;
@@ -205,7 +209,7 @@ export async function runDiagnosis(tree: Tree, readings: readonly Reading[], rep
     nextTest,
     path,
     conclusion,
-    undecided: decision.status === 'exhausted' ? undecided(tree, ranked) : null,
+    undecided: decision.status === 'exhausted' ? undecided(tree, ranked, decision.noneFits ? 'none_fits' : 'no_test_left') : null,
     logZ: post.logZ,
     logEvidenceVsChance: post.logEvidenceVsChance,
     findings: [...findings, ...decision.findings],

@@ -120,17 +120,45 @@ export function mostDoubtfulReading(tree: Tree, evidence: readonly Evidence[]): 
   return best;
 }
 
-/** Likelihood of a weighed cluster under cause h, its classes weighted by their posterior given h. */
-function causeLikelihood(tree: Tree, post: Posterior, x: Weighed, h: number): number {
+/**
+ * Leave-one-out view of the posterior for one weighed cluster: P(h | the other readings) and P(class | h, the other
+ * readings). A reading is checked against what the rest predicts, never against a posterior it has already moved
+ * (the class can shift to absorb a reading that its own prediction would call impossible).
+ */
+export interface LeaveOneOut {
+  p: Float64Array;
+  classGivenCause: Float64Array;
+}
+
+export function leaveOneOut(tree: Tree, post: Posterior, x: Weighed): LeaveOneOut {
+  const nH = tree.hypotheses.length;
+  const nC = tree.classes.length;
+  const w = new Float64Array(nH * nC);
+  for (let k = 0; k < w.length; k++) w[k] = post.logWeights[k] === -Infinity ? -Infinity : post.logWeights[k]! - Math.log(x.like[k]!);
+  const logZ = logSumExp(w);
+  const p = new Float64Array(nH);
+  const classGivenCause = new Float64Array(nH * nC);
+  for (let h = 0; h < nH; h++) {
+    const lh = logSumExp(w, -1, h * nC, (h + 1) * nC);
+    p[h] = Math.exp(lh - logZ);
+    if (lh === -Infinity) continue;
+    for (let c = 0; c < nC; c++) classGivenCause[h * nC + c] = Math.exp(w[h * nC + c]! - lh);
+  }
+  return { p, classGivenCause };
+}
+
+/** Likelihood of a weighed cluster under cause h, its classes weighted by `classGivenCause`. */
+function causeLikelihood(tree: Tree, classGivenCause: Float64Array, x: Weighed, h: number): number {
   const nC = tree.classes.length;
   let sum = 0;
-  for (let c = 0; c < nC; c++) sum += post.classGivenCause[h * nC + c]! * x.like[h * nC + c]!;
+  for (let c = 0; c < nC; c++) sum += classGivenCause[h * nC + c]! * x.like[h * nC + c]!;
   return sum;
 }
 
 /**
- * Readings a cause cannot explain: better explained by the heavy tail than by its prediction (its likeliest
- * classes weighted). A "no fault now" cause is not contradicted by readings that flip (that is its intermittent).
+ * Readings a cause cannot explain: better explained by the heavy tail than by what the cause predicts given the
+ * other readings (leave-one-out). A "no fault now" cause is not contradicted by readings that flip (that is its
+ * intermittent).
  */
 export function contradictingReadings(tree: Tree, post: Posterior, h: number): string[] {
   return post.weighed.flatMap((x) => {
@@ -138,25 +166,26 @@ export function contradictingReadings(tree: Tree, post: Posterior, h: number): s
     if (h === tree.healthyIndex && x.evidence.intermittent) return [];
     if (!test.predictive) return test.like[h * test.outcomes.length + x.cluster.y]! < 0.05 ? x.cluster.readingIds : [];
     // L = (1 − ε)·core + ε·broad, so the core is below the tail exactly when L < 2ε·broad.
-    return causeLikelihood(tree, post, x, h) < 2 * OUTLIER_WEIGHT * x.broad ? x.cluster.readingIds : [];
+    return causeLikelihood(tree, leaveOneOut(tree, post, x).classGivenCause, x, h) < 2 * OUTLIER_WEIGHT * x.broad ? x.cluster.readingIds : [];
   });
 }
 
 /**
- * Each reading's Bayes factor for the winner against the posterior-weighted rest, strongest first: those above 1.5
- * decided the conclusion, those above 3 confirm it directly.
+ * Each reading's Bayes factor for the winner against the rest, both as predicted from the other readings
+ * (leave-one-out), strongest first: those above 1.5 decided the conclusion, those above 3 confirm it directly.
  */
 export function readingFactors(tree: Tree, post: Posterior, winner: number): Array<{ ids: string[]; factor: number }> {
   return post.weighed
     .map((x) => {
+      const loo = leaveOneOut(tree, post, x);
       let rest = 0;
       let restMass = 0;
-      for (let h = 0; h < post.p.length; h++) {
+      for (let h = 0; h < loo.p.length; h++) {
         if (h === winner) continue;
-        rest += post.p[h]! * causeLikelihood(tree, post, x, h);
-        restMass += post.p[h]!;
+        rest += loo.p[h]! * causeLikelihood(tree, loo.classGivenCause, x, h);
+        restMass += loo.p[h]!;
       }
-      return { ids: x.cluster.readingIds, factor: causeLikelihood(tree, post, x, winner) / (restMass > 0 ? rest / restMass : 1) };
+      return { ids: x.cluster.readingIds, factor: causeLikelihood(tree, loo.classGivenCause, x, winner) / (restMass > 0 ? rest / restMass : 1) };
     })
     .sort((a, b) => b.factor - a.factor);
 }
