@@ -6,7 +6,7 @@
 import { finding, type Finding } from './findings';
 import { planningBudget, DEFAULT_PLANNING_BUDGET_MS } from './planning-budget';
 import { groupEvidence, type CountedReading } from './evidence';
-import { looksFrozen, unchangedFrom } from './frozen-scan';
+import { isPluggedSignalVolts, looksFrozen, unchangedFrom } from './frozen-scan';
 import { contradictingReadings, posterior, readingFactors } from './posterior';
 import { argmax, type PolicyModel, type PolicyState } from './policy';
 import { checkReadingShapes, checkRepairs, verdictOf, type CheckedReading, type ReadingContext } from './reading-checks';
@@ -154,7 +154,7 @@ export async function runDiagnosis(tree: Tree, readings: readonly Reading[], rep
     }
     const outcome = test.outcomes.find((o) => o.id === hit[0])!;
     counted.push({ id: r.id, test, value: r.value, outcome: outcome.index });
-    if (r.request.quantity === 'scan_value' && r.request.engine === 'off') keyOnScans.push(r);
+    if ((r.request.quantity === 'scan_value' && r.request.engine === 'off') || isPluggedSignalVolts(r)) keyOnScans.push(r);
     prog.counted++;
     prog.indeterminate = [];
     prog.frozen = undefined;
