@@ -71,7 +71,7 @@ function buildModule(netlist: Netlist, circuit: CircuitSpec, conditions: Conditi
     });
     netlist.add({ id: 'regulator_r', kind: 'resistor', nodes: ['reg', MODULE_PIN.reference], value: reg.outputOhms });
   } else {
-    netlist.add({ id: 'regulator_off_r', kind: 'resistor', nodes: [MODULE_PIN.reference, MODULE_GROUND_NODE], value: reg.offOhms });
+    netlist.add({ id: 'regulator_off_r', kind: 'resistor', nodes: [MODULE_PIN.reference, MODULE_GROUND_NODE], value: reg.offOhms, param: { key: 'regulator.off.ohms', scale: 1 } });
   }
   const bias = module.bias;
   (BIAS_BUILDERS[bias.kind] as (n: Netlist, b: BiasSpec) => void)(netlist, bias);

@@ -30,6 +30,8 @@ export interface Spreads {
   /** The module's ground strap and the chassis-to-battery strap, Ω; unset = nominal. */
   moduleGroundOhms?: [number, number];
   chassisGroundOhms?: [number, number];
+  /** The 5 V output's resistance to module ground with the key off, Ω, drawn log-uniformly; unset = nominal. */
+  regulatorOffOhms?: [number, number];
   /** What a dead 5 V output still shows, V (only with a `dead_regulator` fault; unset = 0 V). */
   deadRegulatorVolts?: [number, number];
   /** A short's resistance, Ω, drawn log-uniformly (every short of the sample; unset = the fault's own). */
@@ -110,6 +112,7 @@ function validateSampling(input: SampleInput, spreads: Spreads): Finding[] {
     ...(spreads.moduleAmps ? checkRangePair(spreads.moduleAmps, 'spreads.moduleAmps', 'Module supply current spread', true) : []),
     ...(spreads.moduleGroundOhms ? checkRangePair(spreads.moduleGroundOhms, 'spreads.moduleGroundOhms', 'Module ground resistance spread', true) : []),
     ...(spreads.chassisGroundOhms ? checkRangePair(spreads.chassisGroundOhms, 'spreads.chassisGroundOhms', 'Chassis ground resistance spread', true) : []),
+    ...(spreads.regulatorOffOhms ? checkRangePair(spreads.regulatorOffOhms, 'spreads.regulatorOffOhms', 'Regulator off resistance spread', true) : []),
     ...(spreads.deadRegulatorVolts ? checkRangePair(spreads.deadRegulatorVolts, 'spreads.deadRegulatorVolts', 'Dead regulator volts spread', false) : []),
     ...(spreads.shortOhms ? checkRangePair(spreads.shortOhms, 'spreads.shortOhms', 'Short resistance spread', true) : []),
     ...(spreads.moduleInputVolts ? checkRangePair(spreads.moduleInputVolts, 'spreads.moduleInputVolts', 'Fixed input volts spread', false) : []),
@@ -134,6 +137,7 @@ function paramSampler(input: SampleInput, spreads: Spreads, keys: string[], nomi
     if (spreads.moduleAmps) draws.set('module.supply.ohms', draws.get('battery.volts')! / uniform(random, ...spreads.moduleAmps));
     if (spreads.moduleGroundOhms) draws.set('module.ground.ohms', uniform(random, ...spreads.moduleGroundOhms));
     if (spreads.chassisGroundOhms) draws.set('chassis.ohms', uniform(random, ...spreads.chassisGroundOhms));
+    if (spreads.regulatorOffOhms) draws.set('regulator.off.ohms', Math.exp(uniform(random, Math.log(spreads.regulatorOffOhms[0]), Math.log(spreads.regulatorOffOhms[1]))));
     if (spreads.deadRegulatorVolts) draws.set('regulator.dead.volts', uniform(random, ...spreads.deadRegulatorVolts));
     if (spreads.moduleInputVolts) draws.set('module.input.volts', uniform(random, ...spreads.moduleInputVolts));
     if (spreads.shortOhms) {

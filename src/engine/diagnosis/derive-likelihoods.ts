@@ -37,10 +37,11 @@ export function classesOf(doc: TreeDocument): ClassDocument[] {
 /**
  * What every derived circuit carries besides its class (common practice, no source): the module's own draw key on
  * (0.1–1 A) returns through its ground strap (3–40 mΩ) and the chassis strap (1–30 mΩ), so a wire grounded at the
- * chassis or the sensor ground reads a few to a few tens of millivolts against battery negative, never exactly 0.
+ * chassis or the sensor ground reads a few to a few tens of millivolts against battery negative, never exactly 0;
+ * and the 5 V output of a module switched off looks to an ohmmeter like anything from 300 Ω to 100 kΩ to ground.
  */
 const MODULE_AMPS_NOMINAL = 0.5;
-const GROUND_SPREADS: Partial<Spreads> = { moduleAmps: [0.1, 1.0], moduleGroundOhms: [0.003, 0.04], chassisGroundOhms: [0.001, 0.03] };
+const MODULE_SPREADS: Partial<Spreads> = { moduleAmps: [0.1, 1.0], moduleGroundOhms: [0.003, 0.04], chassisGroundOhms: [0.001, 0.03], regulatorOffOhms: [300, 100_000] };
 
 /** Sorted readings of one cell, or why the model cannot predict it. */
 function sampleCell(kind: CircuitKind, cls: ClassDocument, alt: CauseAlternative, test: TestDocument, spreads: Partial<Spreads>, opts: DeriveOptions): { values: Float64Array } | { problem: string } {
@@ -50,7 +51,7 @@ function sampleCell(kind: CircuitKind, cls: ClassDocument, alt: CauseAlternative
     circuit.module.supplyAmps ??= MODULE_AMPS_NOMINAL;
     circuit.module.regulator = { ...circuit.module.regulator, ...alt.regulator };
     const samples = Math.max(1, Math.round(opts.samples / cls.circuits.length));
-    const sampled = sampleReadings({ circuit, faults: alt.faults, request: circuitRequest(test.request), samples, seed: opts.seed + 97 * j, spreads: { ...GROUND_SPREADS, ...spreads, ...alt.spreads, meterError: false } });
+    const sampled = sampleReadings({ circuit, faults: alt.faults, request: circuitRequest(test.request), samples, seed: opts.seed + 97 * j, spreads: { ...MODULE_SPREADS, ...spreads, ...alt.spreads, meterError: false } });
     if (!sampled.ok) return { problem: sampled.findings.map((f) => f.message).join('; ') };
     parts.push(sampled.values);
   }
@@ -89,7 +90,7 @@ export function deriveLikelihoods(doc: TreeDocument, opts: DeriveOptions): { doc
   const faultsOf = new Map<string, CauseAlternative[] | undefined>();
   for (const h of doc.hypotheses) {
     if (h.unknown) continue;
-    const alts = causeAlternatives(h.id);
+    const alts = causeAlternatives(h.id, kind);
     faultsOf.set(h.id, alts);
     if (alts && alts.length > 1) alternatives[h.id] = alts.map((a) => a.weight);
   }

@@ -26,6 +26,8 @@ export interface Posterior {
   logEvidenceVsChance: number;
   /** Per cluster of readings: its likelihood under every (h, c) and the broad density at its value. */
   weighed: Weighed[];
+  /** log Σ_c w(h, c) per cause. */
+  logPerCause: Float64Array;
 }
 
 export interface Weighed {
@@ -33,6 +35,8 @@ export interface Weighed {
   cluster: Cluster;
   like: Float64Array;
   broad: number;
+  /** Leave-one-out view of this cluster, computed once when asked for (see `leaveOneOut`). */
+  loo?: LeaveOneOut;
 }
 
 export function logSumExp(values: ArrayLike<number>, skip = -1, from = 0, to = values.length): number {
@@ -102,7 +106,7 @@ export function posterior(tree: Tree, evidence: readonly Evidence[]): Posterior 
   }
   const modelledPrior = Math.log(1 - tree.hypotheses[tree.unknownIndex]!.prior);
   const logEvidenceVsChance = logSumExp(perCause, tree.unknownIndex) - modelledPrior - logLeak;
-  return { p, classGivenCause, logWeights: w, logZ, logEvidenceVsChance, weighed };
+  return { p, classGivenCause, logWeights: w, logZ, logEvidenceVsChance, weighed, logPerCause: perCause };
 }
 
 /**
@@ -121,38 +125,39 @@ export function mostDoubtfulReading(tree: Tree, evidence: readonly Evidence[]): 
 }
 
 /**
- * Leave-one-out view of the posterior for one weighed cluster: P(h | the other readings) and P(class | h, the other
- * readings). A reading is checked against what the rest predicts, never against a posterior it has already moved
- * (the class can shift to absorb a reading that its own prediction would call impossible).
+ * Leave-one-out view of the posterior for one weighed cluster: P(h | the other readings) and the cluster's
+ * likelihood under h as the other readings predict it (its classes weighted by P(class | h, the other readings)).
+ * A reading is checked against what the rest predicts, never against a posterior it has already moved (the class
+ * can shift to absorb a reading its own prediction would call impossible). Since Σ_c P(c | h, rest)·L(h, c) =
+ * Σ_c w(h, c) / Σ_c w(h, c)/L(h, c), one pass over the classes gives both.
  */
 export interface LeaveOneOut {
   p: Float64Array;
-  classGivenCause: Float64Array;
+  /** P(this cluster | h, the other readings). */
+  causeLike: Float64Array;
 }
 
 export function leaveOneOut(tree: Tree, post: Posterior, x: Weighed): LeaveOneOut {
+  if (x.loo) return x.loo;
   const nH = tree.hypotheses.length;
   const nC = tree.classes.length;
-  const w = new Float64Array(nH * nC);
-  for (let k = 0; k < w.length; k++) w[k] = post.logWeights[k] === -Infinity ? -Infinity : post.logWeights[k]! - Math.log(x.like[k]!);
-  const logZ = logSumExp(w);
-  const p = new Float64Array(nH);
-  const classGivenCause = new Float64Array(nH * nC);
+  const rest = new Float64Array(nH);
+  const w = new Float64Array(nC);
   for (let h = 0; h < nH; h++) {
-    const lh = logSumExp(w, -1, h * nC, (h + 1) * nC);
-    p[h] = Math.exp(lh - logZ);
-    if (lh === -Infinity) continue;
-    for (let c = 0; c < nC; c++) classGivenCause[h * nC + c] = Math.exp(w[h * nC + c]! - lh);
+    for (let c = 0; c < nC; c++) {
+      const k = h * nC + c;
+      w[c] = post.logWeights[k] === -Infinity ? -Infinity : post.logWeights[k]! - Math.log(x.like[k]!);
+    }
+    rest[h] = logSumExp(w);
   }
-  return { p, classGivenCause };
-}
-
-/** Likelihood of a weighed cluster under cause h, its classes weighted by `classGivenCause`. */
-function causeLikelihood(tree: Tree, classGivenCause: Float64Array, x: Weighed, h: number): number {
-  const nC = tree.classes.length;
-  let sum = 0;
-  for (let c = 0; c < nC; c++) sum += classGivenCause[h * nC + c]! * x.like[h * nC + c]!;
-  return sum;
+  const logZ = logSumExp(rest);
+  const p = new Float64Array(nH);
+  const causeLike = new Float64Array(nH);
+  for (let h = 0; h < nH; h++) {
+    p[h] = rest[h] === -Infinity ? 0 : Math.exp(rest[h]! - logZ);
+    causeLike[h] = rest[h] === -Infinity ? 0 : Math.exp(post.logPerCause[h]! - rest[h]!);
+  }
+  return (x.loo = { p, causeLike });
 }
 
 /**
@@ -166,7 +171,7 @@ export function contradictingReadings(tree: Tree, post: Posterior, h: number): s
     if (h === tree.healthyIndex && x.evidence.intermittent) return [];
     if (!test.predictive) return test.like[h * test.outcomes.length + x.cluster.y]! < 0.05 ? x.cluster.readingIds : [];
     // L = (1 − ε)·core + ε·broad, so the core is below the tail exactly when L < 2ε·broad.
-    return causeLikelihood(tree, leaveOneOut(tree, post, x).classGivenCause, x, h) < 2 * OUTLIER_WEIGHT * x.broad ? x.cluster.readingIds : [];
+    return leaveOneOut(tree, post, x).causeLike[h]! < 2 * OUTLIER_WEIGHT * x.broad ? x.cluster.readingIds : [];
   });
 }
 
@@ -182,10 +187,10 @@ export function readingFactors(tree: Tree, post: Posterior, winner: number): Arr
       let restMass = 0;
       for (let h = 0; h < loo.p.length; h++) {
         if (h === winner) continue;
-        rest += loo.p[h]! * causeLikelihood(tree, loo.classGivenCause, x, h);
+        rest += loo.p[h]! * loo.causeLike[h]!;
         restMass += loo.p[h]!;
       }
-      return { ids: x.cluster.readingIds, factor: causeLikelihood(tree, loo.classGivenCause, x, winner) / (restMass > 0 ? rest / restMass : 1) };
+      return { ids: x.cluster.readingIds, factor: loo.causeLike[winner]! / (restMass > 0 ? rest / restMass : 1) };
     })
     .sort((a, b) => b.factor - a.factor);
 }

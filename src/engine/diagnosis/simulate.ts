@@ -35,7 +35,7 @@ export function drawCase(tree: Tree, random: Random, force: { hypothesisId?: str
   const spreads = defaultSpreads(nominal);
   const u = (lo: number, hi: number) => lo + (hi - lo) * random();
   // A cause that stands for several forms (a dead or a weak supply, a solid or a partial short) draws one of them.
-  const alt = pick(causeAlternatives(hyp.id) ?? [{ weight: 1, faults: [] }], random);
+  const alt = pick(causeAlternatives(hyp.id, kind) ?? [{ weight: 1, faults: [] }], random);
   const options: DefaultCircuitOptions = { ...(variant.circuit as DefaultCircuitOptions), regulatorVolts: u(...(alt.spreads?.regulatorVolts ?? spreads.regulatorVolts)) };
   const circuit = defaultCircuit(kind, options);
   circuit.module.regulator = { ...circuit.module.regulator, ...alt.regulator };
