@@ -126,7 +126,11 @@ export async function runDiagnosis(tree: Tree, readings: readonly Reading[], rep
   let paid = 0;
   // Within one call each reading's outcome rules run once (cached by reading id).
   const classified = new Map<string, Promise<string[]> | string[]>();
-  for (const r of ctx.readings) if (r.test && !verdictOf(r, ctx)) classified.set(r.id, outcomesOf(r.test, r));
+  // Superseded readings are classified too: one that sat in a guard band still counts as an attempt at its test.
+  for (const r of ctx.readings) {
+    const early = r.test ? verdictOf(r, ctx) : undefined;
+    if (r.test && (!early || early.verdict === 'superseded')) classified.set(r.id, outcomesOf(r.test, r));
+  }
   const matches = new Map<string, string[]>();
   await Promise.all([...classified].map(async ([id, pending]) => matches.set(id, await pending)));
 
@@ -136,6 +140,7 @@ export async function runDiagnosis(tree: Tree, readings: readonly Reading[], rep
     if (r.test && early?.verdict !== 'not_in_tree' && early?.verdict !== 'verification') paid |= r.test.setupMask;
     if (early) {
       path.push({ ...base, verdict: early.verdict, note: early.note });
+      if (early.verdict === 'superseded' && r.test && (matches.get(r.id)?.length ?? 1) !== 1) progress[r.test.index]!.indeterminate.push(r);
       continue;
     }
     const test = r.test!;
