@@ -57,6 +57,7 @@ type HealthyId = (typeof HEALTHY_IDS)[number];
  * - an open wire is often a corroded splice or terminal that still passes a little (ten kilohms and more on the
  *   reference: below that it looks like a weak supply from the sensor connector; a fraction of the bias
  *   resistance or more on the signal);
+ * - a short between signal and reference is up to a few ohms;
  * - a short to ground on a signal is often partial (chafed insulation in water: a kilohm or a few);
  * - a high-resistance ground ranges from tens of ohms to a kilohm;
  * - a shorted 5 V reference is hard (up to a few ohms) or partial (tens of ohms), and the module's supply either
@@ -80,6 +81,7 @@ const CAUSE_ALTERNATIVES: Record<string, CauseAlternative[]> = {
     { weight: 0.2, faults: [{ kind: 'high_resistance', wire: 'signal', ohms: 100_000 }], kinds: THREE_WIRE },
     { weight: 0.2, faults: [{ kind: 'high_resistance', wire: 'signal', ohms: 500_000 }], kinds: THREE_WIRE },
   ],
+  signal_short_reference: [{ weight: 1, faults: [{ kind: 'short_between', wires: ['signal', 'reference'], ohms: 0.5 }], spreads: { shortOhms: [0.01, 5] } }],
   signal_short_ground: [
     { weight: 0.6, faults: [{ kind: 'short_to_ground', wire: 'signal' }] },
     { weight: 0.2, faults: [{ kind: 'short_to_ground', wire: 'signal', ohms: 1000 }] },
