@@ -54,10 +54,10 @@ function buildModule(netlist: Netlist, circuit: CircuitSpec, conditions: Conditi
   const { module } = circuit;
   const reg = module.regulator;
   const battery = batteryVolts(circuit, conditions);
-  netlist.add({ id: 'module_ground_r', kind: 'resistor', nodes: [MODULE_GROUND_NODE, GROUND_NODE], value: module.groundOhms });
+  netlist.add({ id: 'module_ground_r', kind: 'resistor', nodes: [MODULE_GROUND_NODE, GROUND_NODE], value: module.groundOhms, param: { key: 'module.ground.ohms', scale: 1 } });
   if (conditions.key === 'on' && module.supplyAmps) {
     // The module's own draw from battery positive back through its ground strap.
-    netlist.add({ id: 'module_supply_r', kind: 'resistor', nodes: [BATTERY_POSITIVE_NODE, MODULE_GROUND_NODE], value: battery / module.supplyAmps });
+    netlist.add({ id: 'module_supply_r', kind: 'resistor', nodes: [BATTERY_POSITIVE_NODE, MODULE_GROUND_NODE], value: battery / module.supplyAmps, param: { key: 'module.supply.ohms', scale: 1 } });
   }
   if (conditions.key === 'on') {
     // Regulates while the battery stays above its drop-out; cranking at ~10 V still gives 5 V.
@@ -71,7 +71,7 @@ function buildModule(netlist: Netlist, circuit: CircuitSpec, conditions: Conditi
     });
     netlist.add({ id: 'regulator_r', kind: 'resistor', nodes: ['reg', MODULE_PIN.reference], value: reg.outputOhms });
   } else {
-    netlist.add({ id: 'regulator_off_r', kind: 'resistor', nodes: [MODULE_PIN.reference, MODULE_GROUND_NODE], value: reg.offOhms });
+    netlist.add({ id: 'regulator_off_r', kind: 'resistor', nodes: [MODULE_PIN.reference, MODULE_GROUND_NODE], value: reg.offOhms, param: { key: 'regulator.off.ohms', scale: 1 } });
   }
   const bias = module.bias;
   (BIAS_BUILDERS[bias.kind] as (n: Netlist, b: BiasSpec) => void)(netlist, bias);
@@ -94,7 +94,7 @@ export function buildNetlist(circuit: CircuitSpec, conditions: Conditions): Netl
   const netlist = new Netlist();
   netlist.add({ id: 'battery', kind: 'vsource', nodes: ['bp_i', GROUND_NODE], value: batteryVolts(circuit, conditions), param: { key: 'battery.volts', scale: 1 } });
   netlist.add({ id: 'battery_r', kind: 'resistor', nodes: ['bp_i', BATTERY_POSITIVE_NODE], value: circuit.battery.internalOhms });
-  netlist.add({ id: 'chassis_r', kind: 'resistor', nodes: [CHASSIS_NODE, GROUND_NODE], value: circuit.chassisGroundOhms });
+  netlist.add({ id: 'chassis_r', kind: 'resistor', nodes: [CHASSIS_NODE, GROUND_NODE], value: circuit.chassisGroundOhms, param: { key: 'chassis.ohms', scale: 1 } });
   buildModule(netlist, circuit, conditions);
   buildHarness(netlist, circuit);
   sensorBehaviour(circuit.sensor)!.build(netlist, circuit.sensor);

@@ -42,7 +42,7 @@ function checkOptionalOhms(ohms: unknown, path: string): Finding[] {
 
 /** Puts a resistor from the middle of `wire` to `node`. */
 function shortFrom(netlist: Netlist, wire: WireRole, node: string, ohms: number, stem: string): void {
-  netlist.add({ id: netlist.uniqueId(`${stem}_${wire}`), kind: 'resistor', nodes: [wireNode.middle(wire), node], value: ohms });
+  netlist.add({ id: netlist.uniqueId(`${stem}_${wire}`), kind: 'resistor', nodes: [wireNode.middle(wire), node], value: ohms, param: { key: `fault.${stem}.${wire}.ohms`, scale: 1 } });
 }
 
 const wireShort = (target: string, stem: 'short_to_ground' | 'short_to_voltage'): FaultBehaviour<Extract<FaultSpec, { kind: typeof stem }>> => ({
@@ -50,12 +50,13 @@ const wireShort = (target: string, stem: 'short_to_ground' | 'short_to_voltage')
   apply: (netlist, f) => (shortFrom(netlist, f.wire, target, f.ohms ?? FAULT_DEFAULT_OHMS[stem], stem), []),
 });
 
-const MODULE_VARIANTS: Record<ModuleInternalVariant, (netlist: Netlist, ohms: number | undefined) => void> = {
+const MODULE_VARIANTS: Record<ModuleInternalVariant, (netlist: Netlist, ohms: number | undefined, volts: number | undefined) => void> = {
+  // 0 V unless a spread draws the few hundred millivolts a dead output may still leak.
   dead_regulator: (netlist) => {
     const reg = netlist.get('regulator');
     if (reg) {
       reg.value = 0;
-      delete reg.param;
+      reg.param = { key: 'regulator.dead.volts', scale: 1 };
     }
   },
   weak_regulator: (netlist, ohms) => {
@@ -66,6 +67,11 @@ const MODULE_VARIANTS: Record<ModuleInternalVariant, (netlist: Netlist, ohms: nu
   dead_input: (netlist) => {
     netlist.remove('input_filter_r');
     netlist.add({ id: netlist.uniqueId('adc_dead_r'), kind: 'resistor', nodes: [ADC_NODE, MODULE_GROUND_NODE], value: 1000 });
+  },
+  // The converter holds one value (a failed multiplexer or reference inside the module); the pin keeps its bias.
+  fixed_input: (netlist, _ohms, volts) => {
+    netlist.remove('input_filter_r');
+    netlist.add({ id: netlist.uniqueId('adc_fixed'), kind: 'vsource', nodes: [ADC_NODE, MODULE_GROUND_NODE], value: volts ?? 2.5, param: { key: 'module.input.volts', scale: 1 } });
   },
 };
 
@@ -135,9 +141,9 @@ const FAULT_BEHAVIOURS: { [K in FaultKind]: FaultBehaviour<Extract<FaultSpec, { 
       if (!MODULE_INTERNAL_VARIANTS.includes(f.variant)) {
         return [finding('fault.unknown_variant', joinPath(path, 'variant'), `Expected one of ${MODULE_INTERNAL_VARIANTS.join(', ')}, got ${describe(f.variant)}.`)];
       }
-      return checkOptionalOhms(f.ohms, joinPath(path, 'ohms'));
+      return [...checkOptionalOhms(f.ohms, joinPath(path, 'ohms')), ...(f.volts === undefined ? [] : checkFinite(f.volts, joinPath(path, 'volts'), 'Fixed input volts'))];
     },
-    apply: (netlist, f) => (MODULE_VARIANTS[f.variant](netlist, f.ohms), []),
+    apply: (netlist, f) => (MODULE_VARIANTS[f.variant](netlist, f.ohms, f.volts), []),
   },
 };
 

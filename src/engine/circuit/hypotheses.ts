@@ -3,7 +3,23 @@
  * Umbrella ids (`sensor_internal`, `module_internal`) map to their most common variant; the specific variants have
  * ids of their own. High-resistance values are typical of a fault worth finding (common practice, no source).
  */
-import type { FaultSpec } from './types';
+import type { Spreads } from './monte-carlo';
+import type { CircuitKind } from '../vocabulary';
+import type { FaultSpec, RegulatorSpec } from './types';
+
+/**
+ * One form of a cause: its faults, and what it leaves of the module's 5 V supply (a current limit, an output
+ * resistance) and of the part spreads (a set point, a short's resistance, a held converter value). A latent
+ * property of the circuit: every reading of one circuit is weighed under the same form.
+ */
+export interface CauseAlternative {
+  weight: number;
+  faults: FaultSpec[];
+  regulator?: Partial<Pick<RegulatorSpec, 'currentLimitAmps' | 'outputOhms'>>;
+  spreads?: Partial<Spreads>;
+  /** Only on these circuit kinds (every kind when unset). */
+  kinds?: CircuitKind[];
+}
 
 const HYPOTHESIS_FAULTS = {
   reference_open: [{ kind: 'open', wire: 'reference' }],
@@ -38,12 +54,35 @@ export const HEALTHY_IDS = ['good', 'no_fault', 'no_fault_now'] as const;
 type HealthyId = (typeof HEALTHY_IDS)[number];
 
 /**
- * Causes that cover several faults, each with a weight (common practice, no source): a failed 5 V supply is dead,
- * or weak and sagging under load (output resistance from a few hundred ohms to a few kilohms); a short to ground is
- * often partial (chafed insulation in water: a kilohm or a few); a high-resistance ground ranges from tens of ohms
- * to a kilohm.
+ * Causes that cover several forms, each with a weight (common practice, no source):
+ * - an open wire is often a corroded splice or terminal that still passes a little (ten kilohms and more on the
+ *   reference: below that it looks like a weak supply from the sensor connector; a fraction of the bias
+ *   resistance or more on the signal);
+ * - a short between signal and reference is up to a few ohms;
+ * - a short to ground on a signal is often partial (chafed insulation in water: a kilohm or a few);
+ * - a high-resistance ground ranges from tens of ohms to a kilohm;
+ * - a shorted 5 V reference is hard (up to a few ohms) or partial (tens of ohms), and the module's supply either
+ *   holds its voltage or limits its current (about 0.1–0.3 A on a sensor supply), so it reads 0 V to a few volts;
+ * - a failed 5 V supply is dead (0 V, or a few hundred millivolts of leakage), regulates low (3–4.5 V), or is weak
+ *   and sags under load (output resistance from a few hundred ohms to a few kilohms);
+ * - a failed module input reads module ground, full scale, or holds any fixed value;
+ * - a three-wire sensor faulty inside has an open track, its output stuck at the reference or at ground, or its
+ *   wiper lifted off the track (a thermistor: open).
  */
-const CAUSE_ALTERNATIVES: Record<string, Array<{ weight: number; faults: FaultSpec[] }>> = {
+const THREE_WIRE: CircuitKind[] = ['three_wire_5v'];
+const LIMITED = (amps: number) => ({ currentLimitAmps: amps });
+const CAUSE_ALTERNATIVES: Record<string, CauseAlternative[]> = {
+  reference_open: [
+    { weight: 0.6, faults: [{ kind: 'open', wire: 'reference' }] },
+    { weight: 0.2, faults: [{ kind: 'high_resistance', wire: 'reference', ohms: 10_000 }] },
+    { weight: 0.2, faults: [{ kind: 'high_resistance', wire: 'reference', ohms: 50_000 }] },
+  ],
+  signal_open: [
+    { weight: 0.6, faults: [{ kind: 'open', wire: 'signal' }] },
+    { weight: 0.2, faults: [{ kind: 'high_resistance', wire: 'signal', ohms: 100_000 }], kinds: THREE_WIRE },
+    { weight: 0.2, faults: [{ kind: 'high_resistance', wire: 'signal', ohms: 500_000 }], kinds: THREE_WIRE },
+  ],
+  signal_short_reference: [{ weight: 1, faults: [{ kind: 'short_between', wires: ['signal', 'reference'], ohms: 0.5 }], spreads: { shortOhms: [0.01, 5] } }],
   signal_short_ground: [
     { weight: 0.6, faults: [{ kind: 'short_to_ground', wire: 'signal' }] },
     { weight: 0.2, faults: [{ kind: 'short_to_ground', wire: 'signal', ohms: 1000 }] },
@@ -54,17 +93,35 @@ const CAUSE_ALTERNATIVES: Record<string, Array<{ weight: number; faults: FaultSp
     { weight: 0.25, faults: [{ kind: 'high_resistance', wire: 'ground', ohms: 50 }] },
     { weight: 0.25, faults: [{ kind: 'high_resistance', wire: 'ground', ohms: 1000 }] },
   ],
+  reference_short_ground: [
+    { weight: 0.3, faults: [{ kind: 'short_to_ground', wire: 'reference' }] },
+    { weight: 0.25, faults: [{ kind: 'short_to_ground', wire: 'reference', ohms: 1 }], regulator: LIMITED(0.1), spreads: { shortOhms: [0.05, 5] } },
+    { weight: 0.2, faults: [{ kind: 'short_to_ground', wire: 'reference', ohms: 1 }], regulator: LIMITED(0.25), spreads: { shortOhms: [0.05, 5] } },
+    { weight: 0.25, faults: [{ kind: 'short_to_ground', wire: 'reference', ohms: 15 }], regulator: LIMITED(0.15), spreads: { shortOhms: [5, 40] } },
+  ],
   reference_supply_failed: [
-    { weight: 0.4, faults: [{ kind: 'module_internal', variant: 'dead_regulator' }] },
+    { weight: 0.25, faults: [{ kind: 'module_internal', variant: 'dead_regulator' }] },
+    { weight: 0.15, faults: [{ kind: 'module_internal', variant: 'dead_regulator' }], spreads: { deadRegulatorVolts: [0.02, 0.4] } },
+    { weight: 0.2, faults: [], regulator: { outputOhms: 20 }, spreads: { regulatorVolts: [3.0, 4.5] } },
     { weight: 0.2, faults: [{ kind: 'module_internal', variant: 'weak_regulator', ohms: 500 }] },
-    { weight: 0.2, faults: [{ kind: 'module_internal', variant: 'weak_regulator', ohms: 1500 }] },
-    { weight: 0.2, faults: [{ kind: 'module_internal', variant: 'weak_regulator', ohms: 4000 }] },
+    { weight: 0.2, faults: [{ kind: 'module_internal', variant: 'weak_regulator', ohms: 2000 }] },
+  ],
+  sensor_internal: [
+    { weight: 0.4, faults: [{ kind: 'sensor_internal', variant: 'open_track' }] },
+    { weight: 0.2, faults: [{ kind: 'sensor_internal', variant: 'stuck', value: 0.995 }], kinds: THREE_WIRE },
+    { weight: 0.2, faults: [{ kind: 'sensor_internal', variant: 'stuck', value: 0.005 }], kinds: THREE_WIRE },
+    { weight: 0.2, faults: [{ kind: 'sensor_internal', variant: 'worn_spot', value: 1e7 }], kinds: THREE_WIRE },
+  ],
+  module_internal: [
+    { weight: 0.35, faults: [{ kind: 'module_internal', variant: 'dead_input' }] },
+    { weight: 0.25, faults: [{ kind: 'module_internal', variant: 'fixed_input', volts: 5 }], spreads: { moduleInputVolts: [4.95, 5.0] } },
+    { weight: 0.4, faults: [{ kind: 'module_internal', variant: 'fixed_input' }], spreads: { moduleInputVolts: [0.1, 4.9] } },
   ],
 };
 
 /** The weighted fault lists a cause stands for (one list for most causes), or undefined for an unknown id. */
-export function causeAlternatives(id: string): Array<{ weight: number; faults: FaultSpec[] }> | undefined {
-  if (Object.hasOwn(CAUSE_ALTERNATIVES, id)) return structuredClone(CAUSE_ALTERNATIVES[id]!);
+export function causeAlternatives(id: string, kind?: CircuitKind): CauseAlternative[] | undefined {
+  if (Object.hasOwn(CAUSE_ALTERNATIVES, id)) return structuredClone(CAUSE_ALTERNATIVES[id]!.filter((a) => !kind || !a.kinds || a.kinds.includes(kind)));
   const faults = faultsFor(id);
   return faults && [{ weight: 1, faults }];
 }

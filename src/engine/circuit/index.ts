@@ -38,7 +38,7 @@ export {
   type ReadingUnit,
 } from './types';
 export { defaultCircuit, meterWith, DEFAULT_METER, GENERIC_10K_STEINHART_HART, type DefaultCircuitOptions } from './defaults';
-export { faultsFor, causeAlternatives, HYPOTHESIS_IDS, HEALTHY_IDS, type HypothesisId } from './hypotheses';
+export { faultsFor, causeAlternatives, HYPOTHESIS_IDS, HEALTHY_IDS, type HypothesisId, type CauseAlternative } from './hypotheses';
 export { adcReading, ADC_STEP_VOLTS, MODULE_ADC } from './adc';
 export { FAULT_DEFAULT_OHMS, validateFaults } from './faults';
 export { validateCircuit, validateMeter, validateRequest, CIRCUIT_LAYOUTS } from './validate';

@@ -25,13 +25,27 @@ export interface Spreads {
   sensorTolerance: number;
   /** Add the meter's stated error ±(percent + digits), drawn uniformly. */
   meterError: boolean;
+  /** The module's own draw key on, A (only where the circuit gives `module.supplyAmps`); unset = nominal. */
+  moduleAmps?: [number, number];
+  /** The module's ground strap and the chassis-to-battery strap, Ω; unset = nominal. */
+  moduleGroundOhms?: [number, number];
+  chassisGroundOhms?: [number, number];
+  /** The 5 V output's resistance to module ground with the key off, Ω, drawn log-uniformly; unset = nominal. */
+  regulatorOffOhms?: [number, number];
+  /** What a dead 5 V output still shows, V (only with a `dead_regulator` fault; unset = 0 V). */
+  deadRegulatorVolts?: [number, number];
+  /** A short's resistance, Ω, drawn log-uniformly (every short of the sample; unset = the fault's own). */
+  shortOhms?: [number, number];
+  /** The value a converter that reads a fixed value holds, V (only with a `fixed_input` module fault). */
+  moduleInputVolts?: [number, number];
 }
 
 /**
  * Spreads for a circuit (common practice, no source): wires 0.05–0.3 Ω, bias ±20 % of nominal (250 kΩ → 200–300 kΩ;
- * a thermistor pull-up ±1 %), regulator 4.9–5.1 V, battery ±0.2 V, sensor ±2 %, meter error on.
+ * a thermistor pull-up, which differs between modules from about 2 kΩ to 18 kΩ, ±80 % of 10 kΩ), regulator
+ * 4.9–5.1 V, battery ±0.2 V, sensor ±2 %, meter error on.
  */
-const BIAS_SPREAD: Record<CircuitKind, number> = { three_wire_5v: 0.2, two_wire_thermistor: 0.01 };
+const BIAS_SPREAD: Record<CircuitKind, number> = { three_wire_5v: 0.2, two_wire_thermistor: 0.8 };
 
 export function defaultSpreads(circuit: CircuitSpec): Spreads {
   const bias = circuit.module.bias;
@@ -95,6 +109,13 @@ function validateSampling(input: SampleInput, spreads: Spreads): Finding[] {
     ...checkRangePair(spreads.regulatorVolts, 'spreads.regulatorVolts', 'Regulator voltage spread', false),
     ...checkFinite(spreads.batteryVolts, 'spreads.batteryVolts', 'Battery voltage spread'),
     ...checkFinite(spreads.sensorTolerance, 'spreads.sensorTolerance', 'Sensor tolerance'),
+    ...(spreads.moduleAmps ? checkRangePair(spreads.moduleAmps, 'spreads.moduleAmps', 'Module supply current spread', true) : []),
+    ...(spreads.moduleGroundOhms ? checkRangePair(spreads.moduleGroundOhms, 'spreads.moduleGroundOhms', 'Module ground resistance spread', true) : []),
+    ...(spreads.chassisGroundOhms ? checkRangePair(spreads.chassisGroundOhms, 'spreads.chassisGroundOhms', 'Chassis ground resistance spread', true) : []),
+    ...(spreads.regulatorOffOhms ? checkRangePair(spreads.regulatorOffOhms, 'spreads.regulatorOffOhms', 'Regulator off resistance spread', true) : []),
+    ...(spreads.deadRegulatorVolts ? checkRangePair(spreads.deadRegulatorVolts, 'spreads.deadRegulatorVolts', 'Dead regulator volts spread', false) : []),
+    ...(spreads.shortOhms ? checkRangePair(spreads.shortOhms, 'spreads.shortOhms', 'Short resistance spread', true) : []),
+    ...(spreads.moduleInputVolts ? checkRangePair(spreads.moduleInputVolts, 'spreads.moduleInputVolts', 'Fixed input volts spread', false) : []),
   );
   if (!found.length && spreads.biasOhms[0] === 0 && input.circuit.module.bias.kind !== 'none') {
     found.push(finding('spreads.bias_zero', 'spreads.biasOhms.0', 'A bias resistance of 0 Ω would short the input.'));
@@ -113,6 +134,16 @@ function paramSampler(input: SampleInput, spreads: Spreads, keys: string[], nomi
     draws.set('bias.ohms', uniform(random, ...spreads.biasOhms));
     draws.set('regulator.volts', uniform(random, ...spreads.regulatorVolts));
     draws.set('battery.volts', (nominal['battery.volts'] ?? 0) + spreads.batteryVolts * u());
+    if (spreads.moduleAmps) draws.set('module.supply.ohms', draws.get('battery.volts')! / uniform(random, ...spreads.moduleAmps));
+    if (spreads.moduleGroundOhms) draws.set('module.ground.ohms', uniform(random, ...spreads.moduleGroundOhms));
+    if (spreads.chassisGroundOhms) draws.set('chassis.ohms', uniform(random, ...spreads.chassisGroundOhms));
+    if (spreads.regulatorOffOhms) draws.set('regulator.off.ohms', Math.exp(uniform(random, Math.log(spreads.regulatorOffOhms[0]), Math.log(spreads.regulatorOffOhms[1]))));
+    if (spreads.deadRegulatorVolts) draws.set('regulator.dead.volts', uniform(random, ...spreads.deadRegulatorVolts));
+    if (spreads.moduleInputVolts) draws.set('module.input.volts', uniform(random, ...spreads.moduleInputVolts));
+    if (spreads.shortOhms) {
+      const ohms = Math.exp(uniform(random, Math.log(spreads.shortOhms[0]), Math.log(spreads.shortOhms[1])));
+      for (const key of keys) if (key.startsWith('fault.short_')) draws.set(key, ohms);
+    }
     sensor.sample(input.circuit.sensor, spreads.sensorTolerance, u, draws);
     for (let i = 0; i < keys.length; i++) out[i] = draws.get(keys[i]!) ?? Number.NaN;
   };

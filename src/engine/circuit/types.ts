@@ -106,7 +106,7 @@ export type FaultSpec =
   | { kind: 'short_between'; wires: [WireRole, WireRole]; ohms?: number }
   | { kind: 'high_resistance'; wire: WireRole; ohms: number }
   | { kind: 'sensor_internal'; variant: SensorInternalVariant; value?: number }
-  | { kind: 'module_internal'; variant: ModuleInternalVariant; ohms?: number }
+  | { kind: 'module_internal'; variant: ModuleInternalVariant; ohms?: number; volts?: number }
   /** The module's own ground strap or splice resistive: its ground, and every reading against it, rises by I × R. */
   | { kind: 'module_ground_resistance'; ohms: number }
   /** A terminal of one wire at one connector with poor fit or corrosion: its contact resistance rises to `ohms`. */
@@ -125,9 +125,10 @@ export type SensorInternalVariant = (typeof SENSOR_INTERNAL_VARIANTS)[number];
 
 /**
  * `dead_regulator`: the 5 V output is at 0 V. `weak_regulator`: output resistance rises to `ohms` (default 500 Ω).
- * `dead_input`: the converter no longer sees the signal pin and reads module ground.
+ * `dead_input`: the converter no longer sees the signal pin and reads module ground. `fixed_input`: the converter
+ * reads a fixed `volts` (default 2.5 V) whatever the pin does.
  */
-export const MODULE_INTERNAL_VARIANTS = ['dead_regulator', 'weak_regulator', 'dead_input'] as const;
+export const MODULE_INTERNAL_VARIANTS = ['dead_regulator', 'weak_regulator', 'dead_input', 'fixed_input'] as const;
 export type ModuleInternalVariant = (typeof MODULE_INTERNAL_VARIANTS)[number];
 
 /** ±(percent of reading + digits of the range's resolution), as meter makers state accuracy. */

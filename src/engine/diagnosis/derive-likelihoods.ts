@@ -5,7 +5,7 @@
  * drawn here: the engine adds it as a kernel when it weighs a reading. Outcome-band probabilities (over the outcomes
  * as a partition) and p5–p95 bands are recorded beside them for people. The same seed gives the same file.
  */
-import { causeAlternatives, defaultCircuit, percentile, sampleReadings, type DefaultCircuitOptions, type FaultSpec, type Spreads } from '../circuit';
+import { causeAlternatives, defaultCircuit, percentile, sampleReadings, type CauseAlternative, type DefaultCircuitOptions, type Spreads } from '../circuit';
 import { CIRCUIT_KINDS, type CircuitKind, type MeasurementRequest } from '../vocabulary';
 import { finding, joinPath, type Finding } from './findings';
 import { conditionInterval } from './outcome-rules';
@@ -34,13 +34,24 @@ export function classesOf(doc: TreeDocument): ClassDocument[] {
   return (doc.derivation?.variants ?? [{ id: 'default', weight: 1, circuit: {} }]).map((v) => ({ id: v.id, weight: v.weight, circuits: [v.circuit] }));
 }
 
+/**
+ * What every derived circuit carries besides its class (common practice, no source): the module's own draw key on
+ * (0.1–1 A) returns through its ground strap (3–40 mΩ) and the chassis strap (1–30 mΩ), so a wire grounded at the
+ * chassis or the sensor ground reads a few to a few tens of millivolts against battery negative, never exactly 0;
+ * and the 5 V output of a module switched off looks to an ohmmeter like anything from 300 Ω to 100 kΩ to ground.
+ */
+const MODULE_AMPS_NOMINAL = 0.5;
+const MODULE_SPREADS: Partial<Spreads> = { moduleAmps: [0.1, 1.0], moduleGroundOhms: [0.003, 0.04], chassisGroundOhms: [0.001, 0.03], regulatorOffOhms: [300, 100_000] };
+
 /** Sorted readings of one cell, or why the model cannot predict it. */
-function sampleCell(kind: CircuitKind, cls: ClassDocument, faults: FaultSpec[], test: TestDocument, spreads: Partial<Spreads>, opts: DeriveOptions): { values: Float64Array } | { problem: string } {
+function sampleCell(kind: CircuitKind, cls: ClassDocument, alt: CauseAlternative, test: TestDocument, spreads: Partial<Spreads>, opts: DeriveOptions): { values: Float64Array } | { problem: string } {
   const parts: Float64Array[] = [];
   for (const [j, options] of cls.circuits.entries()) {
     const circuit = defaultCircuit(kind, options as DefaultCircuitOptions);
+    circuit.module.supplyAmps ??= MODULE_AMPS_NOMINAL;
+    circuit.module.regulator = { ...circuit.module.regulator, ...alt.regulator };
     const samples = Math.max(1, Math.round(opts.samples / cls.circuits.length));
-    const sampled = sampleReadings({ circuit, faults, request: circuitRequest(test.request), samples, seed: opts.seed + 97 * j, spreads: { ...spreads, meterError: false } });
+    const sampled = sampleReadings({ circuit, faults: alt.faults, request: circuitRequest(test.request), samples, seed: opts.seed + 97 * j, spreads: { ...MODULE_SPREADS, ...spreads, ...alt.spreads, meterError: false } });
     if (!sampled.ok) return { problem: sampled.findings.map((f) => f.message).join('; ') };
     parts.push(sampled.values);
   }
@@ -76,10 +87,10 @@ export function deriveLikelihoods(doc: TreeDocument, opts: DeriveOptions): { doc
   const spreads = (doc.derivation?.spreads ?? {}) as Partial<Spreads>;
   const totalWeight = classes.reduce((a, c) => a + c.weight, 0);
   const alternatives: Record<string, number[]> = {};
-  const faultsOf = new Map<string, Array<{ weight: number; faults: FaultSpec[] }> | undefined>();
+  const faultsOf = new Map<string, CauseAlternative[] | undefined>();
   for (const h of doc.hypotheses) {
     if (h.unknown) continue;
-    const alts = causeAlternatives(h.id);
+    const alts = causeAlternatives(h.id, kind);
     faultsOf.set(h.id, alts);
     if (alts && alts.length > 1) alternatives[h.id] = alts.map((a) => a.weight);
   }
@@ -100,11 +111,11 @@ export function deriveLikelihoods(doc: TreeDocument, opts: DeriveOptions): { doc
       if (h.unknown) continue;
       const row = new Float64Array(test.outcomes.length);
       const pooled: Float64Array[] = [];
-      const alts = faultsOf.get(h.id) ?? [{ weight: 1, faults: undefined }];
+      const alts: Array<CauseAlternative | { weight: number; faults: undefined }> = faultsOf.get(h.id) ?? [{ weight: 1, faults: undefined }];
       const altWeight = alts.reduce((a, x) => a + x.weight, 0);
       index[h.id] = alts.flatMap((alt) => classes.map((cls) => {
         const share = (alt.weight / altWeight) * (cls.weight / totalWeight);
-        const sampled = alt.faults ? sampleCell(kind, cls, alt.faults, test, spreads, opts) : { problem: `the circuit model has no faults for "${h.id}"` };
+        const sampled = alt.faults ? sampleCell(kind, cls, alt as CauseAlternative, test, spreads, opts) : { problem: `the circuit model has no faults for "${h.id}"` };
         if ('problem' in sampled) {
           findings.push(finding('derive.cell_broad', joinPath('tests', ti, 'predictive', h.id), `broad density: ${sampled.problem}`, 'info'));
           test.outcomes.forEach((_, o) => (row[o]! += share / test.outcomes.length));

@@ -6,7 +6,7 @@
 import { finding, type Finding } from './findings';
 import { planningBudget, DEFAULT_PLANNING_BUDGET_MS } from './planning-budget';
 import { groupEvidence, type CountedReading } from './evidence';
-import { looksFrozen, unchangedFrom } from './frozen-scan';
+import { isPluggedSignalVolts, looksFrozen, unchangedFrom } from './frozen-scan';
 import { contradictingReadings, posterior, readingFactors } from './posterior';
 import { argmax, type PolicyModel, type PolicyState } from './policy';
 import { checkReadingShapes, checkRepairs, verdictOf, type CheckedReading, type ReadingContext } from './reading-checks';
@@ -17,6 +17,9 @@ import { undecided } from './undecided';
 import type { Test, Tree } from './tree-model';
 import type { Diagnosis, DiagnosisOptions, NextTest, PathEntry, Reading, Repair } from './index';
 import type { Posterior } from './posterior';
+
+/** A reading confirms a cause directly when it favours it by more than this Bayes factor over the rest (leave-one-out). */
+const CONFIRMING_FACTOR = 3;
 
 export const DEFAULT_OPTIONS: Omit<ResolvedOptions, 'concludeAt'> = {
   wrongConclusionMinutes: 240,
@@ -129,7 +132,11 @@ export async function runDiagnosis(untouched: Tree, readings: readonly Reading[]
   let paid = 0;
   // Within one call each reading's outcome rules run once (cached by reading id).
   const classified = new Map<string, Promise<string[]> | string[]>();
-  for (const r of ctx.readings) if (r.test && !verdictOf(r, ctx)) classified.set(r.id, outcomesOf(r.test, r));
+  // Superseded readings are classified too: one that sat in a guard band still counts as an attempt at its test.
+  for (const r of ctx.readings) {
+    const early = r.test ? verdictOf(r, ctx) : undefined;
+    if (r.test && (!early || early.verdict === 'superseded')) classified.set(r.id, outcomesOf(r.test, r));
+  }
   const matches = new Map<string, string[]>();
   await Promise.all([...classified].map(async ([id, pending]) => matches.set(id, await pending)));
 
@@ -139,6 +146,7 @@ export async function runDiagnosis(untouched: Tree, readings: readonly Reading[]
     if (r.test && early?.verdict !== 'not_in_tree' && early?.verdict !== 'verification') paid |= r.test.setupMask;
     if (early) {
       path.push({ ...base, verdict: early.verdict, note: early.note });
+      if (early.verdict === 'superseded' && r.test && (matches.get(r.id)?.length ?? 1) !== 1) progress[r.test.index]!.indeterminate.push(r);
       continue;
     }
     const test = r.test!;
@@ -157,7 +165,7 @@ export async function runDiagnosis(untouched: Tree, readings: readonly Reading[]
     }
     const outcome = test.outcomes.find((o) => o.id === hit[0])!;
     counted.push({ id: r.id, test, value: r.value, outcome: outcome.index });
-    if (r.request.quantity === 'scan_value' && r.request.engine === 'off') keyOnScans.push(r);
+    if ((r.request.quantity === 'scan_value' && r.request.engine === 'off') || isPluggedSignalVolts(r)) keyOnScans.push(r);
     prog.counted++;
     prog.indeterminate = [];
     prog.frozen = undefined;
@@ -184,12 +192,13 @@ export async function runDiagnosis(untouched: Tree, readings: readonly Reading[]
   const readingIndex = new Map(ctx.readings.map((r) => [r.id, r.inputIndex]));
   const leader = argmax(post.p);
   const against = contradictingReadings(tree, post, leader);
-  const decision = decide({ tree, options: resolved, evidence, posterior: post, progress, replacements, readingIndex, model, state, leaderContradictedBy: against, blocked: safety.blocked });
+  const factors = readingFactors(tree, post, leader);
+  const confirmedBy = factors.filter((f) => f.factor > CONFIRMING_FACTOR).flatMap((f) => f.ids);
+  const decision = decide({ tree, options: resolved, evidence, posterior: post, progress, replacements, readingIndex, model, state, leaderContradictedBy: against, leaderConfirmedBy: confirmedBy, blocked: safety.blocked });
 
   const ranked = tree.hypotheses
     .map((h) => ({ id: h.id, label: h.label, part: h.part, probability: post.p[h.index]! }))
     .sort((a, b) => b.probability - a.probability);
-  const factors = decision.status === 'concluded' ? readingFactors(tree, post, leader) : [];
   const conclusion =
     decision.status === 'concluded'
       ? {
@@ -198,7 +207,7 @@ export async function runDiagnosis(untouched: Tree, readings: readonly Reading[]
           probability: post.p[leader]!,
           repair: { part: tree.hypotheses[leader]!.part, action: tree.hypotheses[leader]!.repairAction },
           decidedBy: factors.filter((f) => f.factor > 1.5).flatMap((f) => f.ids),
-          confirmedBy: factors.filter((f) => f.factor > 3).flatMap((f) => f.ids),
+          confirmedBy,
           reachedThreshold: true,
         }
       : null;
@@ -211,7 +220,7 @@ export async function runDiagnosis(untouched: Tree, readings: readonly Reading[]
     nextTest,
     path,
     conclusion,
-    undecided: decision.status === 'exhausted' ? undecided(tree, ranked) : null,
+    undecided: decision.status === 'exhausted' ? undecided(tree, ranked, decision.noneFits ? 'none_fits' : 'no_test_left') : null,
     logZ: post.logZ,
     logEvidenceVsChance: post.logEvidenceVsChance,
     codesWeighed: coded.codesWeighed,

@@ -19,12 +19,29 @@ export const FROZEN_ODDS = 0.25;
 
 export const isKeyOnScan = (r: CheckedReading) => r.request.quantity === 'scan_value' && r.request.key === 'on' && r.request.engine === 'off';
 
-/** An earlier key-on scan reading of the same parameter, different signal set-up, within tolerance of this one. */
+/**
+ * A meter reading of the signal with the sensor connected, key on, nothing jumpered: what a module that samples
+ * only with engine speed last saw (the sensor does not move between key on and running in these tests).
+ */
+export const isPluggedSignalVolts = (r: CheckedReading) =>
+  r.request.quantity === 'dc_volts' && r.request.at === 'signal' && r.request.key === 'on' && r.request.engine === 'off' && (r.request.connector === 'plugged' || r.request.connector === 'backprobed') && r.request.jumpers.length === 0;
+
+/** Between a meter against battery negative and the module's converter against its own ground (common practice, no source). */
+const GROUND_OFFSET_VOLTS = 0.03;
+
+/**
+ * An earlier reading this key-on scan value repeats although its signal set-up differs: a key-on scan reading of the
+ * same parameter, or a meter reading of the signal with the sensor connected (the value a frozen module holds).
+ */
 export function unchangedFrom(reading: CheckedReading, earlier: readonly CheckedReading[], extraTolerance: number): CheckedReading | undefined {
   if (!isKeyOnScan(reading)) return undefined;
   const setup = signalSetupKey(reading.request);
-  const tol = instrumentBound('scan_value', reading.value) + extraTolerance;
-  return earlier.find((q) => isKeyOnScan(q) && q.request.pid === reading.request.pid && signalSetupKey(q.request) !== setup && Math.abs(q.value - reading.value) <= tol);
+  const scanTol = instrumentBound('scan_value', reading.value) + extraTolerance;
+  return earlier.find((q) => {
+    if (isKeyOnScan(q)) return q.request.pid === reading.request.pid && signalSetupKey(q.request) !== setup && Math.abs(q.value - reading.value) <= scanTol;
+    const connected = reading.request.connector === 'plugged' || reading.request.connector === 'backprobed';
+    return isPluggedSignalVolts(q) && !(connected && reading.request.jumpers.length === 0) && Math.abs(q.value - reading.value) <= scanTol + instrumentBound('dc_volts', q.value) + GROUND_OFFSET_VOLTS;
+  });
 }
 
 /** P(the test reads within ± tol of `value` | the evidence so far), from the same densities that weigh readings. */
@@ -59,6 +76,6 @@ export function chanceOfReading(tree: Tree, post: Posterior, test: Test, value: 
 
 /** True when the unchanged value is better explained by a module that did not refresh. */
 export function looksFrozen(tree: Tree, post: Posterior, reading: CheckedReading, earlier: CheckedReading, extraTolerance: number): boolean {
-  const tol = instrumentBound('scan_value', reading.value) + extraTolerance;
+  const tol = instrumentBound('scan_value', reading.value) + extraTolerance + (isKeyOnScan(earlier) ? 0 : instrumentBound('dc_volts', earlier.value) + GROUND_OFFSET_VOLTS);
   return chanceOfReading(tree, post, reading.test!, earlier.value, tol) < FROZEN_ODDS;
 }

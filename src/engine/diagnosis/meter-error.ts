@@ -26,6 +26,27 @@ export function instrumentBound(quantity: Quantity, y: number): number {
   return BOUNDS[quantity](y);
 }
 
+/**
+ * How far a real circuit may sit from the circuit model's prediction besides the instrument: ground offsets, leakage
+ * across a break, terminal and splice resistances the model does not draw (the model discrepancy of Kennedy &
+ * O'Hagan, "Bayesian calibration of computer models", JRSS B 63, 2001). Common practice, no source: 15 mV + 1 % on
+ * volts and scan values, 0.3 Ω + 2 % on ohms, 1 mA + 1 % on amps.
+ */
+const DISCREPANCY: Record<Quantity, (y: number) => number> = {
+  dc_volts: (y) => 0.015 + 0.01 * Math.abs(y),
+  scan_value: (y) => 0.015 + 0.01 * Math.abs(y),
+  ohms: (y) => 0.3 + 0.02 * Math.abs(y),
+  amps: (y) => 1e-3 + 0.01 * Math.abs(y),
+};
+
+/**
+ * The kernel a predicted reading is blurred with: the instrument's error (tightened by √n for n agreeing repeats,
+ * which re-measure the meter) and the model's discrepancy (which repeats do not shrink).
+ */
+export function kernelSigma(quantity: Quantity, y: number, n = 1): number {
+  return Math.hypot(BOUNDS[quantity](y) / Math.sqrt(n), Number.isFinite(y) ? DISCREPANCY[quantity](y) : 0);
+}
+
 /** Ohms the leak density spreads over (log-uniform) and the share it gives an overload display. */
 const OHMS_RANGE: [number, number] = [0.05, 6e7];
 const OHMS_OVERLOAD_SHARE = 0.2;

@@ -26,6 +26,8 @@ export interface Posterior {
   logEvidenceVsChance: number;
   /** Per cluster of readings: its likelihood under every (h, c) and the broad density at its value. */
   weighed: Weighed[];
+  /** log Σ_c w(h, c) per cause. */
+  logPerCause: Float64Array;
 }
 
 export interface Weighed {
@@ -33,6 +35,8 @@ export interface Weighed {
   cluster: Cluster;
   like: Float64Array;
   broad: number;
+  /** Leave-one-out view of this cluster, computed once when asked for (see `leaveOneOut`). */
+  loo?: LeaveOneOut;
 }
 
 export function logSumExp(values: ArrayLike<number>, skip = -1, from = 0, to = values.length): number {
@@ -102,7 +106,7 @@ export function posterior(tree: Tree, evidence: readonly Evidence[]): Posterior 
   }
   const modelledPrior = Math.log(1 - tree.hypotheses[tree.unknownIndex]!.prior);
   const logEvidenceVsChance = logSumExp(perCause, tree.unknownIndex) - modelledPrior - logLeak;
-  return { p, classGivenCause, logWeights: w, logZ, logEvidenceVsChance, weighed };
+  return { p, classGivenCause, logWeights: w, logZ, logEvidenceVsChance, weighed, logPerCause: perCause };
 }
 
 /**
@@ -120,17 +124,46 @@ export function mostDoubtfulReading(tree: Tree, evidence: readonly Evidence[]): 
   return best;
 }
 
-/** Likelihood of a weighed cluster under cause h, its classes weighted by their posterior given h. */
-function causeLikelihood(tree: Tree, post: Posterior, x: Weighed, h: number): number {
+/**
+ * Leave-one-out view of the posterior for one weighed cluster: P(h | the other readings) and the cluster's
+ * likelihood under h as the other readings predict it (its classes weighted by P(class | h, the other readings)).
+ * A reading is checked against what the rest predicts, never against a posterior it has already moved (the class
+ * can shift to absorb a reading its own prediction would call impossible). Since Σ_c P(c | h, rest)·L(h, c) =
+ * Σ_c w(h, c) / Σ_c w(h, c)/L(h, c), one pass over the classes gives both.
+ */
+export interface LeaveOneOut {
+  p: Float64Array;
+  /** P(this cluster | h, the other readings). */
+  causeLike: Float64Array;
+}
+
+export function leaveOneOut(tree: Tree, post: Posterior, x: Weighed): LeaveOneOut {
+  if (x.loo) return x.loo;
+  const nH = tree.hypotheses.length;
   const nC = tree.classes.length;
-  let sum = 0;
-  for (let c = 0; c < nC; c++) sum += post.classGivenCause[h * nC + c]! * x.like[h * nC + c]!;
-  return sum;
+  const rest = new Float64Array(nH);
+  const w = new Float64Array(nC);
+  for (let h = 0; h < nH; h++) {
+    for (let c = 0; c < nC; c++) {
+      const k = h * nC + c;
+      w[c] = post.logWeights[k] === -Infinity ? -Infinity : post.logWeights[k]! - Math.log(x.like[k]!);
+    }
+    rest[h] = logSumExp(w);
+  }
+  const logZ = logSumExp(rest);
+  const p = new Float64Array(nH);
+  const causeLike = new Float64Array(nH);
+  for (let h = 0; h < nH; h++) {
+    p[h] = rest[h] === -Infinity ? 0 : Math.exp(rest[h]! - logZ);
+    causeLike[h] = rest[h] === -Infinity ? 0 : Math.exp(post.logPerCause[h]! - rest[h]!);
+  }
+  return (x.loo = { p, causeLike });
 }
 
 /**
- * Readings a cause cannot explain: better explained by the heavy tail than by its prediction (its likeliest
- * classes weighted). A "no fault now" cause is not contradicted by readings that flip (that is its intermittent).
+ * Readings a cause cannot explain: better explained by the heavy tail than by what the cause predicts given the
+ * other readings (leave-one-out). A "no fault now" cause is not contradicted by readings that flip (that is its
+ * intermittent).
  */
 export function contradictingReadings(tree: Tree, post: Posterior, h: number): string[] {
   return post.weighed.flatMap((x) => {
@@ -138,25 +171,26 @@ export function contradictingReadings(tree: Tree, post: Posterior, h: number): s
     if (h === tree.healthyIndex && x.evidence.intermittent) return [];
     if (!test.predictive) return test.like[h * test.outcomes.length + x.cluster.y]! < 0.05 ? x.cluster.readingIds : [];
     // L = (1 − ε)·core + ε·broad, so the core is below the tail exactly when L < 2ε·broad.
-    return causeLikelihood(tree, post, x, h) < 2 * OUTLIER_WEIGHT * x.broad ? x.cluster.readingIds : [];
+    return leaveOneOut(tree, post, x).causeLike[h]! < 2 * OUTLIER_WEIGHT * x.broad ? x.cluster.readingIds : [];
   });
 }
 
 /**
- * Each reading's Bayes factor for the winner against the posterior-weighted rest, strongest first: those above 1.5
- * decided the conclusion, those above 3 confirm it directly.
+ * Each reading's Bayes factor for the winner against the rest, both as predicted from the other readings
+ * (leave-one-out), strongest first: those above 1.5 decided the conclusion, those above 3 confirm it directly.
  */
 export function readingFactors(tree: Tree, post: Posterior, winner: number): Array<{ ids: string[]; factor: number }> {
   return post.weighed
     .map((x) => {
+      const loo = leaveOneOut(tree, post, x);
       let rest = 0;
       let restMass = 0;
-      for (let h = 0; h < post.p.length; h++) {
+      for (let h = 0; h < loo.p.length; h++) {
         if (h === winner) continue;
-        rest += post.p[h]! * causeLikelihood(tree, post, x, h);
-        restMass += post.p[h]!;
+        rest += loo.p[h]! * loo.causeLike[h]!;
+        restMass += loo.p[h]!;
       }
-      return { ids: x.cluster.readingIds, factor: causeLikelihood(tree, post, x, winner) / (restMass > 0 ? rest / restMass : 1) };
+      return { ids: x.cluster.readingIds, factor: loo.causeLike[winner]! / (restMass > 0 ? rest / restMass : 1) };
     })
     .sort((a, b) => b.factor - a.factor);
 }

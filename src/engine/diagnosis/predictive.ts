@@ -1,12 +1,12 @@
 /**
  * A cause's predicted reading on one test, for one class of circuit: quantiles of the circuit model's Monte Carlo
  * draws (a piecewise-uniform density between them) and the share of ohmmeter overloads. A reading's likelihood is
- * that density convolved with the instrument's error (a Gaussian kernel no narrower than the meter: Silverman,
+ * that density convolved with the instrument's error and the model's own discrepancy (meter-error.ts) (a Gaussian kernel no narrower than the meter: Silverman,
  * *Density Estimation for Statistics and Data Analysis*, 1986), mixed with a small weight on the broad density so
  * one misread cannot rule the true cause out (a contaminated model: Box & Tiao, *Biometrika* 1968).
  */
 import type { Quantity } from '../vocabulary';
-import { broadDensity, instrumentBound } from './meter-error';
+import { broadDensity, kernelSigma } from './meter-error';
 
 /** Weight of the heavy tail in every modelled cause's likelihood. */
 export const OUTLIER_WEIGHT = 0.02;
@@ -74,7 +74,7 @@ export function coreDensity(cell: Cell, y: number, meterSigma: number): number {
 export function coreMass(cell: Cell, lo: number, hi: number, quantity: Quantity): number {
   const finite = overSegments(
     cell,
-    (a, b) => instrumentBound(quantity, (a + b) / 2),
+    (a, b) => kernelSigma(quantity, (a + b) / 2),
     (m, a, b, sigma) => {
       const w = b - a;
       if (w < 1e-3 * sigma) return m * (normalCdf((hi - a) / sigma) - normalCdf((lo - a) / sigma));
@@ -94,6 +94,6 @@ export function coreMass(cell: Cell, lo: number, hi: number, quantity: Quantity)
 export function readingLikelihood(cell: Cell | undefined, quantity: Quantity, y: number, n = 1): number {
   const broad = broadDensity(quantity, y);
   if (!cell) return broad;
-  const sigma = instrumentBound(quantity, y) / Math.sqrt(n);
+  const sigma = kernelSigma(quantity, y, n);
   return (1 - OUTLIER_WEIGHT) * coreDensity(cell, y, sigma) + OUTLIER_WEIGHT * broad;
 }

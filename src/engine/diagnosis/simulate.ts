@@ -34,8 +34,13 @@ export function drawCase(tree: Tree, random: Random, force: { hypothesisId?: str
   const nominal = defaultCircuit(kind, variant.circuit as DefaultCircuitOptions);
   const spreads = defaultSpreads(nominal);
   const u = (lo: number, hi: number) => lo + (hi - lo) * random();
-  const options: DefaultCircuitOptions = { ...(variant.circuit as DefaultCircuitOptions), regulatorVolts: u(...spreads.regulatorVolts) };
+  // A cause that stands for several forms (a dead or a weak supply, a solid or a partial short) draws one of them.
+  const alt = pick(causeAlternatives(hyp.id, kind) ?? [{ weight: 1, faults: [] }], random);
+  const options: DefaultCircuitOptions = { ...(variant.circuit as DefaultCircuitOptions), regulatorVolts: u(...(alt.spreads?.regulatorVolts ?? spreads.regulatorVolts)) };
   const circuit = defaultCircuit(kind, options);
+  circuit.module.regulator = { ...circuit.module.regulator, ...alt.regulator };
+  const held = alt.spreads?.moduleInputVolts;
+  const faults = alt.faults.map((f) => (held && f.kind === 'module_internal' ? { ...f, volts: u(...held) } : f));
   circuit.wires = circuit.wires.map((w) => ({ ...w, ohms: u(...spreads.wireOhms) }));
   if (circuit.module.bias.kind !== 'none') circuit.module.bias = { ...circuit.module.bias, ohms: u(...spreads.biasOhms) };
   const dv = spreads.batteryVolts * (2 * random() - 1);
@@ -43,8 +48,6 @@ export function drawCase(tree: Tree, random: Random, force: { hypothesisId?: str
   const sensor = circuit.sensor;
   if (sensor.kind === 'potentiometer') sensor.position = Math.min(0.98, Math.max(0.02, sensor.position + spreads.sensorTolerance * (2 * random() - 1)));
   if (sensor.kind === 'thermistor') sensor.temperatureC += 2 * (2 * random() - 1);
-  // A cause that stands for several faults (a dead or a weak supply, a solid or a partial short) draws one of them.
-  const faults = pick(causeAlternatives(hyp.id) ?? [{ weight: 1, faults: [] }], random).faults;
   return { hypothesisId: hyp.id, variantId: variant.id, circuit, faults, noiseSeed: Math.floor(random() * 2 ** 31) };
 }
 

@@ -66,8 +66,10 @@ export interface RuleContext {
   state: PolicyState;
   /** Tests that may not be proposed now (the jumper safety rule, safety-rules.ts). */
   blocked?: ReadonlySet<number>;
-  /** Counted readings the leading cause cannot explain (beyond its predicted spread). */
+  /** Counted readings the leading cause cannot explain (beyond its predicted spread, leave-one-out). */
   leaderContradictedBy: string[];
+  /** Counted readings that confirm the leading cause directly (leave-one-out Bayes factor above 3). */
+  leaderConfirmedBy: string[];
 }
 
 export interface Choice {
@@ -86,6 +88,8 @@ export interface Decision {
   status: DiagnosisStatus;
   choice?: Choice;
   findings: Finding[];
+  /** Set with "exhausted" when the readings fit none of the modelled causes (the leak leads). */
+  noneFits?: boolean;
 }
 
 interface StatusRule {
@@ -200,15 +204,34 @@ export const STATUS_RULES: readonly StatusRule[] = [
   },
   { name: 'back-probe confirmed', decide: backprobeConfirmation },
   {
+    name: 'none of the modelled causes fits',
+    decide: (ctx) => {
+      // The leak ("not modelled") is never a conclusion: it names no repair. Once it holds the threshold, or leads
+      // while the readings stay improbable under every modelled cause after the re-check, the result is undecided.
+      const leak = ctx.tree.unknownIndex;
+      if (argmax(ctx.posterior.p) !== leak) return undefined;
+      const improbable = ctx.posterior.logEvidenceVsChance < ctx.options.contradictionThreshold;
+      if (ctx.posterior.p[leak]! < ctx.options.concludeAt && !improbable && openTests(ctx.state).length > 0 && canChangeConclusion(ctx.model, ctx.state)) return undefined;
+      return {
+        status: 'exhausted',
+        noneFits: true,
+        findings: [finding('diagnosis.no_modelled_cause_fits', 'readings', `none of the modelled causes fits these readings (log evidence ${ctx.posterior.logEvidenceVsChance.toFixed(2)} against chance): not proven, no repair offered`, 'warning')],
+      };
+    },
+  },
+  {
     name: 'concluded',
     decide: (ctx) => {
       const leader = argmax(ctx.posterior.p);
       if (ctx.posterior.p[leader]! < ctx.options.concludeAt) return undefined;
       const unread = leader === ctx.tree.healthyIndex ? wireStillToRead(ctx) : undefined;
       if (unread) return unread;
-      if (!ctx.leaderContradictedBy.length) return { status: 'concluded', findings: [] };
       const h = ctx.tree.hypotheses[leader]!;
-      return [finding('diagnosis.leader_contradicted', 'readings', `"${h.label}" leads but reading(s) ${ctx.leaderContradictedBy.join(', ')} fall outside what it predicts: not concluded`, 'warning')];
+      if (ctx.leaderContradictedBy.length)
+        return [finding('diagnosis.leader_contradicted', 'readings', `"${h.label}" leads but reading(s) ${ctx.leaderContradictedBy.join(', ')} fall outside what it predicts: not concluded`, 'warning')];
+      if (!ctx.leaderConfirmedBy.length)
+        return [finding('diagnosis.leader_unconfirmed', 'readings', `"${h.label}" leads but no single reading confirms it directly (each fits another cause about as well): not concluded`, 'warning')];
+      return { status: 'concluded', findings: [] };
     },
   },
   {

@@ -207,6 +207,15 @@ describe('the shared 5 V reference tree', () => {
     expect(twice.findings.some((f) => f.code === 'diagnosis.test_unresolved')).toBe(true);
   });
 
+  it('counts a guard-band reading that the re-check superseded as an attempt, so the re-check is not asked for again and again', async () => {
+    const first = { ...at('reference_plugged', 4.7, 'g1'), supersededBy: 'g2' };
+    const d = await diagnose(shared, [first, at('reference_plugged', 4.72, 'g2')]);
+    expect(d.path.map((p) => p.verdict)).toEqual(['superseded', 'indeterminate']);
+    expect(d.status).not.toBe('recheck');
+    expect(d.nextTest?.id).not.toBe('reference_plugged');
+    expect(d.findings.some((f) => f.code === 'diagnosis.test_unresolved')).toBe(true);
+  });
+
   it('proposes unplugging the sensors one at a time and finds the one pulling the reference down', async () => {
     const proposed: string[] = [];
     const readings: Reading[] = [at('reference_plugged', 1.2, 'p0')];
