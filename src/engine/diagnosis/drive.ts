@@ -88,6 +88,9 @@ export function exactChooser(options: DiagnosisOptions = {}, memo: ExactMemo = n
   };
 }
 
+/** A planning budget no drive reaches (the option takes finite numbers only). */
+export const UNBOUNDED_PLANNING_MS = 1e9;
+
 export async function driveToEnd(tree: Tree, c: SimulatedCase, opts: { options?: DiagnosisOptions; choose?: TestChooser; maxSteps?: number } = {}): Promise<DriveResult> {
   const readings: Reading[] = [];
   const asked: DriveResult['asked'] = [];
@@ -98,7 +101,8 @@ export async function driveToEnd(tree: Tree, c: SimulatedCase, opts: { options?:
   let minutes = 0;
   for (let step = 0; ; step++) {
     const t0 = performance.now();
-    const d = await diagnose(tree, readings, [], opts.options ?? {});
+    // A simulated drive is reproducible whatever the machine's load: no planning deadline unless one is given.
+    const d = await diagnose(tree, readings, [], { planningBudgetMs: UNBOUNDED_PLANNING_MS, ...opts.options });
     latencies.push(performance.now() - t0);
     if (d.status === 'concluded' || d.status === 'exhausted' || !d.nextTest || step >= (opts.maxSteps ?? 60))
       return { conclusion: d.conclusion?.hypothesisId ?? null, status: d.status, minutes, readings, asked, latencies, last: d };
