@@ -8,7 +8,7 @@
 import { faultsFor } from '../circuit';
 import { finding } from './findings';
 import { argmax, openTests, testCost, type PolicyModel } from './policy';
-import { readingFactors } from './posterior';
+import { leaveOneOut, readingFactors } from './posterior';
 import type { Decision, RuleContext } from './status-rules';
 import type { Test } from './tree-model';
 
@@ -69,5 +69,36 @@ export function backprobeConfirmation(ctx: RuleContext): Decision | undefined {
     status: 'testing',
     choice: { test, reason: 'lowest_expected_cost', request: test.request, expectedMinutes: testCost(ctx.model, ctx.state, test.index) },
     findings: [finding('diagnosis.backprobe_unconfirmed', 'readings', message, 'info')],
+  };
+}
+
+/**
+ * A healthy thermistor on a cold-soaked engine (down to −40 °C, the lowest SAE J1979 PID 05 reports) is hundreds of
+ * kΩ, so every voltage on its signal sits near the pull-up's open-circuit value, as an open element's does. An open
+ * thermistor is therefore concluded only on an ohms reading that argues for it (an open reads megohms or overload, a
+ * cold sensor does not); until then the cheapest ohms test that can confirm it is proposed.
+ */
+export function thermistorOpenConfirmation(ctx: RuleContext): Decision | undefined {
+  if (ctx.tree.circuitKind !== 'two_wire_thermistor') return undefined;
+  const leader = argmax(ctx.posterior.p);
+  const cause = ctx.tree.hypotheses[leader]!;
+  const openElement = (faultsFor(cause.id) ?? []).some((f) => f.kind === 'sensor_internal' && f.variant === 'open_track');
+  if (ctx.posterior.p[leader]! < ctx.options.concludeAt || !openElement) return undefined;
+  const ohms = (t: number) => ctx.tree.tests[t]!.request.quantity === 'ohms';
+  const healthy = ctx.tree.healthyIndex;
+  // Against the healthy circuit itself: a good ground reading argues against a ground fault, not against a cold sensor.
+  const confirmed = ctx.posterior.weighed.some((x) => {
+    if (!ohms(x.evidence.test)) return false;
+    const loo = leaveOneOut(ctx.tree, ctx.posterior, x);
+    return loo.causeLike[leader]! > ARGUES_FOR * loo.causeLike[healthy]!;
+  });
+  if (confirmed) return undefined;
+  const candidates = openTests(ctx.state).filter((t) => !ctx.blocked?.has(t) && ohms(t) && canConfirm(ctx.model, ctx.state.p, t, leader));
+  if (!candidates.length) return undefined;
+  const test = ctx.tree.tests[candidates.reduce((a, b) => (testCost(ctx.model, ctx.state, b) < testCost(ctx.model, ctx.state, a) ? b : a))]!;
+  return {
+    status: 'testing',
+    choice: { test, reason: 'lowest_expected_cost', request: test.request, expectedMinutes: testCost(ctx.model, ctx.state, test.index) },
+    findings: [finding('diagnosis.thermistor_open_unconfirmed', 'readings', `a cold healthy thermistor reads like an open one on every voltage: confirm "${cause.label}" with "${test.label}" before concluding`, 'info')],
   };
 }

@@ -94,6 +94,19 @@ export function coreMass(cell: Cell, lo: number, hi: number, quantity: Quantity)
 export function readingLikelihood(cell: Cell | undefined, quantity: Quantity, y: number, n = 1): number {
   const broad = broadDensity(quantity, y);
   if (!cell) return broad;
+  // Every diagnose() call re-weighs all readings taken so far: the same (cell, reading) pairs come back each time.
+  let memo = DENSITY_MEMO.get(cell);
+  if (!memo) DENSITY_MEMO.set(cell, (memo = new Map()));
+  const key = `${quantity}|${y}|${n}`;
+  const known = memo.get(key);
+  if (known !== undefined) return known;
   const sigma = kernelSigma(quantity, y, n);
-  return (1 - OUTLIER_WEIGHT) * coreDensity(cell, y, sigma) + OUTLIER_WEIGHT * broad;
+  const l = (1 - OUTLIER_WEIGHT) * coreDensity(cell, y, sigma) + OUTLIER_WEIGHT * broad;
+  if (memo.size >= DENSITY_MEMO_SIZE) memo.clear();
+  memo.set(key, l);
+  return l;
 }
+
+/** Densities already computed, per cell (bounded: a long-running service sees endless distinct readings). */
+const DENSITY_MEMO = new WeakMap<Cell, Map<string, number>>();
+const DENSITY_MEMO_SIZE = 256;

@@ -23,7 +23,7 @@ import type { CheckedReading } from './reading-checks';
 import type { TreeRequest } from './request-key';
 import type { Test, Tree } from './tree-model';
 import { isLoaded } from './load-tree';
-import { backprobeConfirmation } from './backprobe-confirmation';
+import { backprobeConfirmation, thermistorOpenConfirmation } from './backprobe-confirmation';
 
 export type DiagnosisStatus = 'testing' | 'concluded' | 'recheck' | 'crank_and_reread' | 'exhausted';
 export type NextTestReason = 'lowest_expected_cost' | 'recheck_indeterminate' | 'recheck_contradiction' | 'crank_and_reread' | 'wiggle_test';
@@ -203,6 +203,7 @@ export const STATUS_RULES: readonly StatusRule[] = [
     },
   },
   { name: 'back-probe confirmed', decide: backprobeConfirmation },
+  { name: 'open thermistor confirmed by ohms', decide: thermistorOpenConfirmation },
   {
     name: 'none of the modelled causes fits',
     decide: (ctx) => {
