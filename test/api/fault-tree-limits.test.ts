@@ -56,13 +56,12 @@ describe.each(BACKENDS)('fault-tree limits on the %s database', (backend) => {
     expect(res.status).toBe(400);
     expect(res.body.error.findings).toEqual(
       expect.arrayContaining([
-        expect.objectContaining({ code: 'tree.limit.documentBytes', path: 'body' }),
         expect.objectContaining({ code: 'tree.limit.causes', path: 'body.hypotheses' }),
         expect.objectContaining({ code: 'tree.limit.outcomesPerTest', path: 'body.tests.0.outcomes' }),
         expect.objectContaining({ code: 'tree.limit.searchCost', path: 'body.tests' }),
       ]),
     );
-    expect(res.body.error.message).toContain(`at most ${TREE_LIMITS.documentBytes.max}`);
+    expect(res.body.error.message).toContain(`at most ${TREE_LIMITS.causes.max}`);
   });
 
   it('accepts the largest tree the limits allow and diagnoses it', async () => {

@@ -252,7 +252,7 @@ describe('bay tablet and foreman board in Chromium', () => {
         expect((await entryOf(page))!.mode).toBe('correct');
         // The correction screen names the test and the reading on record.
         expect(await page.locator('#entry-h').textContent()).toBe(firstTitle);
-        expect(await page.locator('.correcting').textContent()).toContain(`the reading on record is ${formatEntered(Number(value), unit)}`);
+        expect(await page.locator('.correcting').textContent()).toContain(`the reading on record is ${value === 'OL' ? formatEntered(null, unit, true) : formatEntered(Number(value), unit)}`);
         await snap(page, '06c-correct');
         await enter(value, unit, { typeIt: true, note: '<script>alert(1)</script> re-read with a sharper probe' });
         saves++;
