@@ -94,7 +94,7 @@ export const DEMO_ORDERS: DemoOrder[] = [
     cause: 'TP sensor 1 signal wire chafed through on the intake bracket and open near the connector.',
     correction: 'Cut out the damaged section, spliced in new wire with sealed crimp sleeves, re-routed clear of the bracket.',
     codesAfter: [],
-    circuit: { kind: 'three_wire_5v', sensor: 'TP', label: 'TP sensor 1', cavities: { A: 'reference', B: 'signal', C: 'ground' }, fault: 'signal_open', typoAt: 1 },
+    circuit: { kind: 'three_wire_5v', sensor: 'TP A', label: 'TP sensor 1', cavities: { A: 'reference', B: 'signal', C: 'ground' }, fault: 'signal_open', typoAt: 1 },
     repair: {
       part: 'signal',
       action: 'Spliced the signal wire with sealed crimp sleeves and re-routed the harness clear of the intake bracket',
@@ -135,7 +135,7 @@ export const DEMO_ORDERS: DemoOrder[] = [
     cause: 'APP sensor 1 ground terminal corroded: high resistance in the sensor ground.',
     correction: 'Replaced the ground terminal with a new one and sealed the connector.',
     codesAfter: [],
-    circuit: { kind: 'three_wire_5v', sensor: 'APP', label: 'APP sensor 1', cavities: { '1': 'reference', '2': 'signal', '3': 'ground' }, fault: 'ground_high_resistance' },
+    circuit: { kind: 'three_wire_5v', sensor: 'APP D', label: 'APP sensor 1', cavities: { '1': 'reference', '2': 'signal', '3': 'ground' }, fault: 'ground_high_resistance' },
     repair: {
       part: 'ground',
       action: 'Replaced the corroded sensor-ground terminal and sealed the connector',
