@@ -53,6 +53,24 @@ describe('diagnosis over HTTP, driven by readings simulated from the circuit mod
     expect(plain.nextTest.cautions.map((c: { id: string }) => c.id)).not.toContain('high_voltage_system');
   });
 
+  it.each([
+    ['one reading', false],
+    ['a batch of one', true],
+  ])('answers %s posted with diagnosis=true on a hybrid with the vehicle and sensor cautions a GET gives', async (_, batch) => {
+    const hybrid = (await api.call('POST', '/api/repair-orders', { user: FOREMAN_A, body: { vehicle: newVehicle({ vin: '9ZZEV12K7R0000017', highVoltageSystem: true }), complaint: 'Hybrid, tank pressure code', technicianId: TECH_A } })).body;
+    const circuit = (await api.call('POST', `/api/repair-orders/${hybrid.id}/circuits`, { user: TECH_A, body: { kind: 'three_wire_5v', sensor: 'FTP', label: 'FTP sensor' } })).body;
+    const first = (await api.call('GET', `/api/repair-orders/${hybrid.id}/circuits/${circuit.id}/diagnosis`, { user: TECH_A })).body;
+    const reading = { circuitId: circuit.id, ...first.nextTest.request, ...simulatedReading('signal_open', first.nextTest.request) };
+    const posted = await api.call('POST', `/api/repair-orders/${hybrid.id}/measurements?diagnosis=true`, { user: TECH_A, body: batch ? [reading] : reading });
+    expect(posted.status).toBe(201);
+    const answered = posted.body.diagnoses[0];
+    const ids = answered.nextTest.cautions.map((c: { id: string }) => c.id);
+    expect(ids[0]).toBe('high_voltage_system');
+    expect(ids).toContain('fuel_vapour');
+    const after = (await api.call('GET', `/api/repair-orders/${hybrid.id}/circuits/${circuit.id}/diagnosis`, { user: TECH_A })).body;
+    expect(answered).toEqual({ circuitId: circuit.id, ...after });
+  });
+
   it('answers a reading posted with diagnosis=true with the same diagnosis a GET right after gives', async () => {
     const { ro, circuit } = await newCircuit();
     const first = (await api.call('GET', `/api/repair-orders/${ro.id}/circuits/${circuit.body.id}/diagnosis`, { user: TECH_A })).body;

@@ -68,6 +68,10 @@ describe('reference groups and the order-wide diagnosis over HTTP', () => {
     expect(order.body.referenceGroups[0]).toMatchObject({ active: false, circuitIds: circuits.map((c) => c.id) });
     expect(order.body.nextTest.referenceGroupId).toBeNull();
     expect(order.body.circuits).toHaveLength(4);
+    // The order's next test carries the cautions the circuit's own test screen shows.
+    const own = (await api.call('GET', `/api/repair-orders/${ro.id}/circuits/${order.body.nextTest.circuitId}/diagnosis`, { user: TECH_A })).body;
+    expect(order.body.nextTest.cautions).toEqual(own.nextTest.cautions.map((c: { id: string; text: string }) => ({ id: c.id, text: c.text })));
+    expect(order.body.nextTest.cautions.map((c: { id: string }) => c.id)).toContain('service_information');
   });
 
   /** Drives the order view to its end on a drawn shared-reference case: each next test answered from the case. */
@@ -117,6 +121,7 @@ describe('reference groups and the order-wide diagnosis over HTTP', () => {
     expect(first.referenceGroups[0].why[0]).toMatch(/2 circuits on this reference point at it/);
     expect(first.circuits.filter((x: { pointsAtReference: boolean }) => x.pointsAtReference)).toHaveLength(2);
     expect(first.nextTest.referenceGroupId).toBe(first.referenceGroups[0].id);
+    expect(first.nextTest.cautions.map((c: { id: string }) => c.id)).toContain('service_information');
     const order = await driveOrder(ro, circuits, c, names);
     const group = order.referenceGroups[0].diagnosis;
     expect(group.status).toBe('concluded');

@@ -42,6 +42,9 @@ describe('the order page with a shared 5 V reference', () => {
     const text = await panel.innerText();
     expect(text).toMatch(/One 5 V reference feeds: TP sensor, MAP sensor, FTP sensor/);
     expect(text).toMatch(/Next test for the order: Shared reference/);
+    // The group's state is named as the shared reference's, and the order's next test carries its cautions.
+    expect(text).toMatch(/Shared reference\s+TESTING/i);
+    expect(text).toMatch(/Caution:\s+Follow the manufacturer/);
     expect(await seriousViolations(page)).toEqual([]);
     await snap(page, 'shared-reference-order');
   }, 60_000);

@@ -103,7 +103,15 @@ export const OrderDiagnosis = z.looseObject({
   ),
   leadingCauses: z.array(orderCause),
   nextTest: z
-    .looseObject({ id: z.string(), label: z.string(), request, circuitId: id, referenceGroupId: id.nullable(), procedure: z.array(z.string()) })
+    .looseObject({
+      id: z.string(),
+      label: z.string(),
+      request,
+      circuitId: id,
+      referenceGroupId: id.nullable(),
+      procedure: z.array(z.string()),
+      cautions: z.array(z.object({ id: z.string(), text: z.string() })).describe("the test's cautions with those of the circuit's sensor and the vehicle (a high-voltage system first)"),
+    })
     .nullable(),
   findings: z.array(finding),
 });

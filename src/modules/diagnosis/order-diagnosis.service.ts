@@ -3,7 +3,7 @@ import { APP_CONFIG, type AppConfig } from '../../config/config';
 import { NotFoundException } from '../../common/errors/domain.exception';
 import { roundProbabilities } from '../../common/round-probabilities';
 import { isReferenceVoltageCode } from '../../engine/codes';
-import { diagnose, type Reading, type Repair } from '../../engine/diagnosis';
+import { cautionsInContext, diagnose, type Reading, type Repair } from '../../engine/diagnosis';
 import {
   groupActivation,
   groupCauseCircuit,
@@ -92,7 +92,7 @@ export class OrderDiagnosisService {
         .flatMap((g) => g.diagnosis.ranked.slice(0, CAUSES_EACH).map((h) => ({ ...rankedOf(h), circuitId: groupCauseCircuit(g.members, h.id), referenceGroupId: g.group.id }))),
     ].sort((a, b) => b.probability - a.probability);
 
-    const nextTest = this.nextTest(groupViews, perCircuit, inActive);
+    const nextTest = this.nextTest(groupViews, perCircuit, inActive, context.vehicle.highVoltageSystem);
     return roundProbabilities({
       repairOrderId,
       circuits: perCircuit.map((p) => ({
@@ -111,23 +111,37 @@ export class OrderDiagnosisService {
     });
   }
 
-  /** An active group's next test first (taken at one of its circuits), else the first circuit still testing. */
+  /**
+   * An active group's next test first (taken at one of its circuits), else the first circuit still testing; with
+   * the cautions of the circuit it is taken on and of the vehicle (a high-voltage system first), as the test screen shows them.
+   */
   private nextTest(
     groups: Array<{ group: { id: string }; members: OrderCircuit[]; tree: ReturnType<typeof groupTree>; diagnosis: Awaited<ReturnType<typeof diagnose>>; active: boolean }>,
     perCircuit: Array<{ circuit: OrderCircuit; tree: { tests: Array<{ id: string; procedure: string[] }> }; diagnosis: Awaited<ReturnType<typeof diagnose>> }>,
     inActive: Map<string, string>,
+    highVoltageSystem: boolean,
   ) {
+    const cautions = (next: { cautions: Array<{ id: string; text: string }>; request: Reading['request'] }, circuit: OrderCircuit) =>
+      cautionsInContext(next.cautions, next.request, { sensor: circuit.sensor, highVoltageSystem }).map((c) => ({ id: c.id, text: c.text }));
     for (const g of groups) {
       const next = g.active ? g.diagnosis.nextTest : null;
       if (!next) continue;
       const { circuit, sensor } = whereGroupTestIsTaken(g.members, next.request);
       const test = g.tree.tests.find((t) => t.id === next.id)!;
-      return { id: next.id, label: next.label, request: { ...next.request, sensor }, circuitId: circuit.id, referenceGroupId: g.group.id, procedure: test.procedure };
+      return { id: next.id, label: next.label, request: { ...next.request, sensor }, circuitId: circuit.id, referenceGroupId: g.group.id, procedure: test.procedure, cautions: cautions(next, circuit) };
     }
     for (const p of perCircuit) {
       const next = p.diagnosis.nextTest;
       if (!next || inActive.has(p.circuit.id)) continue;
-      return { id: next.id, label: next.label, request: next.request, circuitId: p.circuit.id, referenceGroupId: null, procedure: p.tree.tests.find((t) => t.id === next.id)?.procedure ?? [] };
+      return {
+        id: next.id,
+        label: next.label,
+        request: next.request,
+        circuitId: p.circuit.id,
+        referenceGroupId: null,
+        procedure: p.tree.tests.find((t) => t.id === next.id)?.procedure ?? [],
+        cautions: cautions(next, p.circuit),
+      };
     }
     return null;
   }

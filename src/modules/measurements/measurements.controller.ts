@@ -48,14 +48,14 @@ export class MeasurementsController {
   ) {
     const credential = req.credential!;
     const signIn = { signInId: credential.signInId, pending: req.pendingSession, path: credential.via === 'bearer' ? 'headers.authorization' : `cookies.${SESSION_COOKIE}` };
-    const { replayed, result, circuits, actor, history } = await this.service.record(caller, id, body, signIn, options.diagnosis);
+    const { replayed, result, circuits, highVoltageSystem, actor, history } = await this.service.record(caller, id, body, signIn, options.diagnosis);
     // A re-sent reading (same clientKey) is answered with what was stored, as 200 rather than 201.
     if (replayed) res.status(200);
     if (!options.diagnosis) return result;
     const diagnoses = [];
     for (const circuit of circuits) {
       const { tree, diagnosis } = await this.diagnoses.ofCircuit(actor, id, circuit, {}, history ?? undefined);
-      diagnoses.push({ circuitId: circuit.id, ...apiDiagnosisView(tree, diagnosis) });
+      diagnoses.push({ circuitId: circuit.id, ...apiDiagnosisView(tree, diagnosis, { sensor: circuit.sensor, highVoltageSystem }) });
     }
     return { ...(result as object), diagnoses };
   }

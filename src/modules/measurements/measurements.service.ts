@@ -77,6 +77,8 @@ export interface Recorded {
   replayed: boolean;
   result: unknown;
   circuits: CircuitOfOrder[];
+  /** Whether the order's vehicle has a high-voltage system (its caution leads every test's cautions). */
+  highVoltageSystem: boolean;
   /** The caller as the database has them now (their sign-in checked by this request). */
   actor: Actor;
   /** Read by the write itself: the circuit's readings and the order's repairs, for the diagnosis after it. */
@@ -190,7 +192,14 @@ export class MeasurementsService {
     await this.requireReferences(repairOrderId, order.circuits, [m], at, this.measurements.prisma);
     const stored = await this.reading.store(order, { id: actor.userId, name: actor.name }, rowFor(m, repairOrderId, actor.userId, Date.now()), history);
     if (!stored) return undefined;
-    return { replayed: false, result: measurementView(stored.row), circuits: order.circuits.filter((c) => c.id === m.circuitId), actor, history: stored.history };
+    return {
+      replayed: false,
+      result: measurementView(stored.row),
+      circuits: order.circuits.filter((c) => c.id === m.circuitId),
+      highVoltageSystem: order.vehicle.highVoltageSystem,
+      actor,
+      history: stored.history,
+    };
   }
 
   private async store(
@@ -201,14 +210,15 @@ export class MeasurementsService {
     at: (i: number, field: string) => string,
     lookForReplays: boolean,
   ): Promise<Recorded> {
-    const { rows, replayed, circuits } = await this.measurements.transaction(async (tx) => {
-      const order = await this.orders.findHeaderWithCircuits(orderScope(actor), repairOrderId, tx);
+    const { rows, replayed, circuits, highVoltageSystem } = await this.measurements.transaction(async (tx) => {
+      const order = await this.orders.findHeaderWithCircuitsAndVehicle(orderScope(actor), repairOrderId, tx);
       if (!order) throw new NotFoundException('repair_order', repairOrderId);
       this.requireDistinctKeys(inputs, at);
       const stored = lookForReplays ? await this.replays(repairOrderId, inputs, at, tx) : new Map<string, MeasurementRow>();
       const touched = order.circuits.filter((c) => inputs.some((m) => m.circuitId === c.id));
       const fresh = inputs.filter((m) => !m.clientKey || !stored.has(m.clientKey));
-      if (fresh.length === 0) return { rows: inputs.map((m) => stored.get(m.clientKey!)!), replayed: true, circuits: touched };
+      const highVoltageSystem = order.vehicle.highVoltageSystem;
+      if (fresh.length === 0) return { rows: inputs.map((m) => stored.get(m.clientKey!)!), replayed: true, circuits: touched, highVoltageSystem };
       this.requirePhases(order, fresh);
       this.requireTimes(order, inputs, at);
       await this.requireReferences(repairOrderId, order.circuits, inputs, at, tx);
@@ -225,10 +235,10 @@ export class MeasurementsService {
         await this.orders.touch(tx, repairOrderId);
       }
       const byInput = new Map(fresh.map((m, i) => [m, created[i]!]));
-      return { rows: inputs.map((m) => byInput.get(m) ?? stored.get(m.clientKey!)!), replayed: false, circuits: touched };
+      return { rows: inputs.map((m) => byInput.get(m) ?? stored.get(m.clientKey!)!), replayed: false, circuits: touched, highVoltageSystem };
     });
     const views = rows.map(measurementView);
-    return { replayed, result: batch ? { items: views } : views[0], circuits, actor };
+    return { replayed, result: batch ? { items: views } : views[0], circuits, highVoltageSystem, actor };
   }
 
   private requireDistinctKeys(inputs: MeasurementInput[], at: (i: number, field: string) => string): void {

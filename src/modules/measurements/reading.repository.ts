@@ -13,7 +13,7 @@ export interface ReadingContext {
   actor: Actor | null;
   /** The caller's writes in the current window, counted by this statement; null when writes are not limited. */
   writes: { hits: number; resetSeconds: number } | null;
-  order: { id: string; status: RepairOrderStatus; version: number; number: string; createdAt: Date; circuits: CircuitOfOrder[] } | null;
+  order: { id: string; status: RepairOrderStatus; version: number; number: string; createdAt: Date; circuits: CircuitOfOrder[]; vehicle: { highVoltageSystem: boolean } } | null;
 }
 
 /** The stored reading, with (when asked for) every reading of its circuit and the order's repairs, for the diagnosis. */
@@ -61,8 +61,9 @@ export class ReadingRepository extends PrismaRepository {
       SELECT who."id" AS "userId", who."shopId", who."name", who."role",
         (SELECT "hits" FROM hit) AS "hits", (SELECT "resetSeconds" FROM hit) AS "resetSeconds",
         o."id", o."status"::text AS "status", o."version", o."number", o."createdAt",
-        (SELECT COALESCE(json_agg(json_build_object('id', c."id", 'kind', c."kind", 'faultTreeId', c."faultTreeId") ORDER BY c."createdAt", c."id"), '[]'::json)
-          FROM "Circuit" c WHERE c."repairOrderId" = o."id") AS "circuits"
+        (SELECT COALESCE(json_agg(json_build_object('id', c."id", 'kind', c."kind", 'faultTreeId', c."faultTreeId", 'sensor', c."sensor") ORDER BY c."createdAt", c."id"), '[]'::json)
+          FROM "Circuit" c WHERE c."repairOrderId" = o."id") AS "circuits",
+        (SELECT v."highVoltageSystem" FROM "Vehicle" v WHERE v."id" = o."vehicleId") AS "highVoltageSystem"
       FROM who LEFT JOIN "RepairOrder" o ON o."id" = $5::uuid AND o."shopId" = who."shopId"
         AND (who."role" <> 'technician' OR o."technicianId" = who."id" OR o."createdById" = who."id")`,
       [signInId, now, budget ? budget.bucket : null, budget?.windowSeconds ?? 1, repairOrderId],
@@ -79,7 +80,8 @@ export class ReadingRepository extends PrismaRepository {
             version: Number(r.version),
             number: r.number as string,
             createdAt: r.createdAt as Date,
-            circuits: r.circuits as Array<{ id: string; kind: CircuitKind; faultTreeId: string | null }>,
+            circuits: r.circuits as Array<{ id: string; kind: CircuitKind; faultTreeId: string | null; sensor: string }>,
+            vehicle: { highVoltageSystem: r.highVoltageSystem === true },
           }
         : null,
     };

@@ -3,7 +3,7 @@ import type { Actor } from '../identity/actor';
 import type { CircuitDiagnosis, OrderDetail, OrderOverview, RepairItem, ReviewList } from './bay.service';
 import { html, type SafeHtml } from './html';
 import { ICON, page } from './layout.view';
-import { diagnosisStatus, orderHeader, proofLink, repairsList, reviewsList } from './parts.view';
+import { cautionList, diagnosisStatus, orderHeader, proofLink, repairsList, reviewsList } from './parts.view';
 import { unitsFor } from '../../engine/units';
 import { percent } from './words';
 import { approvalBanner, type Approval } from './approval.view';
@@ -47,13 +47,14 @@ function sharedReferencePanel(order: OrderDetail, overview: OrderOverview | unde
       (g) => html`<div class="shared-reference">
         <p><strong>One 5 V reference feeds:</strong> ${g.circuitIds.map(labelOf).join(', ')}</p>
         ${g.active
-          ? html`<p>${diagnosisStatus(g.diagnosis)} Diagnosed as one: ${g.why.join('; ')}.${g.diagnosis.ranked[0] ? html` Leading cause: ${g.diagnosis.ranked[0].label} (${percent(g.diagnosis.ranked[0].probability)})` : ''}</p>`
+          ? html`<p>${diagnosisStatus(g.diagnosis, 'Shared reference')} Diagnosed as one: ${g.why.join('; ')}.${g.diagnosis.ranked[0] ? html` Leading cause: ${g.diagnosis.ranked[0].label} (${percent(g.diagnosis.ranked[0].probability)})` : ''}</p>`
           : html`<p class="muted">Each circuit is diagnosed on its own until two of them point at this reference.</p>`}
       </div>`,
     )}
     ${top ? html`<p>Leading cause across the order: ${top.label} (${percent(top.probability)})${top.circuitId ? html` · ${labelOf(top.circuitId)}` : ''}</p>` : ''}
     ${next
       ? html`<div class="next-for-order"><p><strong>Next test for the order:</strong> ${next.label} <span class="muted">at the ${labelOf(next.circuitId)} connector</span></p>
+          ${cautionList(next.cautions)}
           <ol>${next.procedure.map((step) => html`<li>${step}</li>`)}</ol>
           ${next.referenceGroupId ? '' : html`<a class="button" href="/bay/orders/${order.id}/circuits/${next.circuitId}">Take it on ${labelOf(next.circuitId)}</a>`}</div>`
       : ''}

@@ -133,9 +133,10 @@ export function reviewsList(reviews: ReviewList): SafeHtml {
   )}</ul>`;
 }
 
-export function diagnosisStatus(d: Diagnosis): SafeHtml {
+/** The diagnosis state as a tag; `what` names what is diagnosed (one circuit, or a reference several share). */
+export function diagnosisStatus(d: Diagnosis, what = 'Circuit'): SafeHtml {
   const state = d.status === 'concluded' && !isProven(d) ? 'exhausted' : d.status;
-  return html`<span class="tag tag-d-${state}"><span class="tag-what">Circuit</span> ${DIAGNOSIS_STATUS_WORDS[state] ?? state}</span>`;
+  return html`<span class="tag tag-d-${state}"><span class="tag-what">${what}</span> ${DIAGNOSIS_STATUS_WORDS[state] ?? state}</span>`;
 }
 
 export function proofLink(order: OrderDetail): SafeHtml {

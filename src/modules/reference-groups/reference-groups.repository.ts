@@ -23,6 +23,7 @@ export class ReferenceGroupsRepository extends PrismaRepository {
       where: { id: repairOrderId },
       select: {
         codes: true,
+        vehicle: { select: { highVoltageSystem: true } },
         circuits: { select: { id: true, label: true, sensor: true, kind: true, faultTreeId: true }, orderBy: [{ createdAt: 'asc' }, { id: 'asc' }] },
         referenceGroups: { where: { clearedAt: null }, orderBy: [{ createdAt: 'asc' }, { id: 'asc' }], select: SHOWN },
       },

@@ -38,7 +38,8 @@ export type RepairOrderDetail = Prisma.RepairOrderGetPayload<{ include: typeof d
 /** What checks on a write need of an order. */
 const HEADER = { id: true, status: true, version: true, number: true, createdAt: true, updatedAt: true } satisfies Prisma.RepairOrderSelect;
 
-const CIRCUIT_OF_ORDER = { id: true, kind: true, faultTreeId: true } satisfies Prisma.CircuitSelect;
+/** What a write on an order needs of its circuits; the sensor, for the cautions of the diagnosis it answers with. */
+const CIRCUIT_OF_ORDER = { id: true, kind: true, faultTreeId: true, sensor: true } satisfies Prisma.CircuitSelect;
 export type CircuitOfOrder = Prisma.CircuitGetPayload<{ select: typeof CIRCUIT_OF_ORDER }>;
 
 @Injectable()
@@ -102,7 +103,7 @@ export class RepairOrdersRepository extends PrismaRepository {
       select: {
         ...HEADER,
         vehicle: { select: { highVoltageSystem: true } },
-        circuits: { select: { ...CIRCUIT_OF_ORDER, sensor: true }, orderBy: [{ createdAt: 'asc' }, { id: 'asc' }] },
+        circuits: { select: CIRCUIT_OF_ORDER, orderBy: [{ createdAt: 'asc' }, { id: 'asc' }] },
       },
     });
   }
