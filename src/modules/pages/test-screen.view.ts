@@ -36,7 +36,11 @@ function instructions(entry: Entry, c: CircuitDiagnosis, next: NextTest | null):
     <div class="leads">
       <p class="lead-line"><span class="lead-tag ${scan ? 'lead-scan' : 'lead-red'}">${scan ? 'Scan tool' : 'Red lead'}</span> ${l.red}</p>
       ${l.black ? html`<p class="lead-line"><span class="lead-tag lead-black">Black lead</span> ${l.black}</p>` : ''}
-      <p class="muted lead-where">${l.where}</p>
+      ${
+        entry.request.location === 'sensor_pins' && !scan
+          ? html`<p class="notice lead-where lead-on-sensor">${ICON.flag} ${l.where}</p>`
+          : html`<p class="muted lead-where">${l.where}</p>`
+      }
     </div>
     <dl class="conditions">${conditions(entry.request).map((x) => html`<div class="condition"><dt>${x.label}</dt><dd>${x.value}</dd></div>`)}</dl>
     ${general.map((g) => html`<p class="caution-general">${ICON.caution} ${g.text}</p>`)}
