@@ -3,7 +3,7 @@
  * cold soak) weigh the scan temperatures' plausibility, and a reading at the sensor's own pins is set against a
  * chart at the known temperature. A plain GET form: the page recomputes with what was given.
  */
-import { CHART_TEMPERATURE_RANGE_C, compareWithChart } from '../../engine/calc';
+import { CHART_TEMPERATURE_RANGE_C, compareWithChart, DEFAULT_CHART_TOLERANCE_PERCENT, DEFAULT_TEMPERATURE_SPREAD_C } from '../../engine/calc';
 import { THERMISTOR_CURVES, thermistorCurve } from '../../engine/circuit';
 import { AMBIENT_RANGE_C, type ScanConditions } from '../../engine/diagnosis';
 import type { MeasurementRow } from '../measurements/measurements.repository';
@@ -66,7 +66,7 @@ function chartResult(c: CircuitDiagnosis, input: TemperatureInput): SafeHtml {
       <div class="condition"><dt>Reading</dt><dd>${formatSi(reading.overload ? 'overload' : reading.valueSi, 'Ω')}</dd></div>
     </dl>
     <p class="${v.verdict === 'within' ? '' : 'notice'}">${v.verdict === 'within' ? ICON.check : ICON.flag} ${v.finding.message}</p>
-    <p class="muted">Chart: ${curve.source}. Tolerance ±5 % and ±3 °C on the temperature you know (common practice, no source).</p>`;
+    <p class="muted">Chart: ${curve.source}. Tolerance ±${DEFAULT_CHART_TOLERANCE_PERCENT} % and ±${DEFAULT_TEMPERATURE_SPREAD_C} °C on the temperature you know (common practice, no source).</p>`;
 }
 
 /** The panel; only thermistor circuits have one. */
