@@ -62,6 +62,30 @@ describe.each(BACKENDS)("readings at the sensor's own pins and scan temperatures
     expect(soaked.body.path.find((p: { readingId: string }) => p.readingId === warm.body.id).note).toMatch(/cold-soaked/);
   });
 
+  it.each<[string, Record<string, unknown>, string, number]>([
+    // Steinhart & Hart (1968) with the widely published 10 kΩ set (from memory): R(25 °C) ≈ 10 000 Ω (computed).
+    ['10.0 kΩ at 25 °C on the 10 kΩ Steinhart–Hart chart', { chart: 'generic_10k_steinhart_hart', ohms: 10_000, temperatureC: 25 }, 'within', 10_000],
+    // R(0 °C) ≈ 32 650 Ω on the same chart (computed): 10 kΩ is far below it.
+    ['10.0 kΩ at 0 °C on the same chart', { chart: 'generic_10k_steinhart_hart', ohms: 10_000, temperatureC: 0 }, 'below', 32_650],
+    // Beta form R = R25·exp(β(1/T − 1/298.15 K)), β 3950: R(0 °C) ≈ 33 621 Ω (computed); OL is above any band.
+    ['OL at 0 °C on a β 3950 model', { model: { kind: 'beta', r25Ohms: 10_000, beta: 3950 }, ohms: 'overload', temperatureC: 0 }, 'above', 33_621],
+  ])('compares %s with its chart over the calculator API', async (_name, body, verdict, expected) => {
+    const res = await api.call('POST', '/api/calculators/thermistor-chart', { user: TECH_A, body });
+    expect(res.status).toBe(200);
+    expect(res.body.verdict).toBe(verdict);
+    expect(Math.abs(res.body.expectedOhms - expected) / expected).toBeLessThan(2e-4);
+  });
+
+  it.each([
+    ['neither a chart nor a model', { ohms: 10_000, temperatureC: 25 }, 'body.chart'],
+    ['a temperature below the PID floor of −40 °C (SAE J1979)', { chart: 'generic_10k_steinhart_hart', ohms: 10_000, temperatureC: -60 }, 'body.temperatureC'],
+    ['a beta of zero', { model: { kind: 'beta', r25Ohms: 10_000, beta: 0 }, ohms: 10_000, temperatureC: 25 }, 'body.model.beta'],
+  ])('refuses a chart comparison with %s, naming the field', async (_name, body, path) => {
+    const res = await api.call('POST', '/api/calculators/thermistor-chart', { user: TECH_A, body });
+    expect(res.status).toBe(400);
+    expect(res.body.error.findings.map((f: { path: string }) => f.path)).toContain(path);
+  });
+
   it('refuses an ambient that is no temperature with a 400 naming the field', async () => {
     const res = await api.call('GET', `/api/repair-orders/${roId}/circuits/${circuitId}/diagnosis?ambientC=hot`, { user: TECH_A });
     expect(res.status).toBe(400);
