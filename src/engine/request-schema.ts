@@ -3,6 +3,7 @@
  * proof view and the HTTP API, so a test's `request` and a posted reading are checked by the same rules.
  */
 import { z } from 'zod';
+import { sensorPinsProblems, type SensorPinsShape } from './sensor-pins';
 import { CONNECTOR_STATES, ENGINE_STATES, KEY_STATES, LOCATIONS, POINTS, QUANTITIES } from './vocabulary';
 
 export const PointSchema = z.enum(POINTS);
@@ -30,8 +31,10 @@ export const measurementRequestFields = {
   quantity: z.enum(QUANTITIES),
   at: PointSchema.describe('first (red) lead; for scan_value, the wire whose signal the parameter reports'),
   against: PointSchema.optional().describe('second (black) lead; omit for scan_value'),
-  location: z.enum(LOCATIONS).describe('the connector the first lead (and any jumper) is on'),
-  connector: z.enum(CONNECTOR_STATES).describe('state of the connector at location'),
+  location: z
+    .enum(LOCATIONS)
+    .describe("the connector the first lead (and any jumper) is on, harness side; sensor_pins: the sensor's own terminals, sensor unplugged (ohms only)"),
+  connector: z.enum(CONNECTOR_STATES).describe('state of the connector at location (for sensor_pins, the sensor connector: unplugged)'),
   againstLocation: z
     .enum(LOCATIONS)
     .optional()
@@ -44,7 +47,7 @@ export const measurementRequestFields = {
   sensor: label('a sensor name', '"MAP" or "all"').optional().describe('on a shared 5 V reference: which sensor the reading concerns, or "all"'),
 };
 
-type RequestShape = { quantity: string; at: string; against?: string; location: string; againstLocation?: string; pid?: string; key: string; engine: string };
+type RequestShape = SensorPinsShape & { pid?: string; key: string; engine: string };
 
 const FIXED_POINTS = ['battery_negative', 'battery_positive', 'chassis_ground'];
 
@@ -55,6 +58,7 @@ function rule(ctx: z.RefinementCtx, code: string, field: string, message: string
 
 /** Rules across the fields: leads for meter readings, a named parameter for scan values, a possible vehicle state. */
 export function refineMeasurementRequest(r: RequestShape, ctx: z.RefinementCtx): void {
+  for (const p of sensorPinsProblems(r)) rule(ctx, p.code, p.field, p.message);
   if (r.key === 'off' && r.engine !== 'off') rule(ctx, 'request.engine_without_key', 'engine', `the engine cannot be ${r.engine} with the key off`);
   // An ohmmeter reads its own test current; on a powered circuit the number means nothing (and can harm the meter).
   if (r.quantity === 'ohms' && r.key === 'on') rule(ctx, 'request.ohms_powered', 'key', 'an ohms reading is taken with the key off, on an unpowered circuit');

@@ -11,8 +11,26 @@ export type Quantity = (typeof QUANTITIES)[number];
 export const POINTS = ['reference', 'signal', 'ground', 'battery_negative', 'battery_positive', 'chassis_ground'] as const;
 export type Point = (typeof POINTS)[number];
 
-export const LOCATIONS = ['sensor_connector', 'module_connector'] as const;
+/**
+ * Where the first lead goes: the harness side of the sensor or module connector, or `sensor_pins`, the sensor's own
+ * terminals with the sensor unplugged (the component alone: no harness, no module).
+ */
+export const LOCATIONS = ['sensor_connector', 'module_connector', 'sensor_pins'] as const;
 export type Location = (typeof LOCATIONS)[number];
+/** The harness connectors a second lead can reach at the far end of a wire. */
+export type HarnessLocation = Exclude<Location, 'sensor_pins'>;
+/** The physical connector each location's `connector` state describes (the sensor's pins are behind the sensor connector). */
+export const CONNECTOR_OF: Record<Location, HarnessLocation> = {
+  sensor_connector: 'sensor_connector',
+  module_connector: 'module_connector',
+  sensor_pins: 'sensor_connector',
+};
+/** The connector that is not the one at `location` (its state is `otherConnector`). */
+export const OTHER_CONNECTOR: Record<Location, HarnessLocation> = {
+  sensor_connector: 'module_connector',
+  module_connector: 'sensor_connector',
+  sensor_pins: 'module_connector',
+};
 
 export const CONNECTOR_STATES = ['plugged', 'unplugged', 'backprobed'] as const;
 export type ConnectorState = (typeof CONNECTOR_STATES)[number];

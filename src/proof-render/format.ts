@@ -3,7 +3,7 @@
  * no locale), so the same view always prints the same words.
  */
 import { formatValue } from '../engine/units';
-import type { Jumper, JumperVia, MeasurementRequest, Point } from '../engine/vocabulary';
+import { CONNECTOR_OF, OTHER_CONNECTOR, type HarnessLocation, type Jumper, type JumperVia, type MeasurementRequest, type Point } from '../engine/vocabulary';
 import { canonicalJson } from './digest';
 import { printBound } from './units';
 import type { ExpectedRange, ProofView } from './view';
@@ -68,7 +68,7 @@ const KEY_ENGINE: Record<string, string> = {
   'off/running': 'Key off, engine running',
 };
 
-const LOCATION_WORDS: Record<MeasurementRequest['location'], string> = {
+const LOCATION_WORDS: Record<HarnessLocation, string> = {
   sensor_connector: 'sensor connector',
   module_connector: 'module connector',
 };
@@ -88,14 +88,16 @@ const QUANTITY_WORDS: Record<MeasurementRequest['quantity'], string> = {
 
 /** The conditions of a test as short lines: vehicle state and connector, leads, jumpers. */
 export function conditionLines(r: MeasurementRequest): string[] {
-  const lines = [`${KEY_ENGINE[`${r.key}/${r.engine}`]}; ${CONNECTOR_WORDS[r.connector](LOCATION_WORDS[r.location])}`];
+  const lines = [`${KEY_ENGINE[`${r.key}/${r.engine}`]}; ${CONNECTOR_WORDS[r.connector](LOCATION_WORDS[CONNECTOR_OF[r.location]])}`];
   if (r.quantity === 'scan_value') {
     lines.push(`Scan tool: parameter ${r.pid ?? '(unnamed)'}`);
+  } else if (r.location === 'sensor_pins') {
+    lines.push(`${QUANTITY_WORDS[r.quantity]}: leads on the sensor's own pins, sensor unplugged: red on its ${POINT_WORDS[r.at]} pin, black on its ${POINT_WORDS[r.against ?? r.at]} pin`);
   } else {
-    const far = r.againstLocation && r.againstLocation !== r.location ? ` at the ${LOCATION_WORDS[r.againstLocation]}` : '';
-    lines.push(`${QUANTITY_WORDS[r.quantity]}: red lead at ${POINT_WORDS[r.at]}${far ? ` at the ${LOCATION_WORDS[r.location]}` : ''}, black at ${POINT_WORDS[r.against ?? r.at]}${far}`);
+    const far = r.againstLocation && r.againstLocation !== r.location ? ` at the ${LOCATION_WORDS[CONNECTOR_OF[r.againstLocation]]}` : '';
+    lines.push(`${QUANTITY_WORDS[r.quantity]}: red lead at ${POINT_WORDS[r.at]}${far ? ` at the ${LOCATION_WORDS[CONNECTOR_OF[r.location]]}` : ''}, black at ${POINT_WORDS[r.against ?? r.at]}${far}`);
   }
-  if (r.otherConnector) lines.push(`${LOCATION_WORDS[r.location === 'sensor_connector' ? 'module_connector' : 'sensor_connector'].replace(/^./, (c) => c.toUpperCase())}: ${r.otherConnector === 'backprobed' ? 'back-probed' : r.otherConnector === 'unplugged' ? 'unplugged' : 'plugged in'}`);
+  if (r.otherConnector) lines.push(`${LOCATION_WORDS[OTHER_CONNECTOR[r.location]].replace(/^./, (c) => c.toUpperCase())}: ${r.otherConnector === 'backprobed' ? 'back-probed' : r.otherConnector === 'unplugged' ? 'unplugged' : 'plugged in'}`);
   if (r.sensor) lines.push(`Sensor on the shared reference: ${r.sensor}`);
   for (const j of r.jumpers) lines.push(`Jumper: ${jumperWords(j)}`);
   return lines;

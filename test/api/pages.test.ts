@@ -29,6 +29,17 @@ describe('the html template', () => {
     expect(conditions(request)).toEqual(expect.arrayContaining([{ label: 'Sensor connector', value: 'unplugged' }, { label: 'Module connector', value: 'unplugged' }]));
   });
 
+  it("draws leads on the sensor's own pins as on the component, with the sensor unplugged", () => {
+    const request: MeasurementRequest = { quantity: 'ohms', at: 'signal', against: 'ground', location: 'sensor_pins', connector: 'unplugged', key: 'off', engine: 'off', jumpers: [] };
+    expect(leads(request, { B: 'signal' })).toEqual({
+      red: 'signal pin on the sensor itself',
+      black: 'sensor ground pin on the sensor itself',
+      where: "Leads on the sensor's own pins, sensor unplugged: on the component itself, not the harness connector",
+    });
+    expect(conditions(request)).toContainEqual({ label: 'Sensor', value: 'unplugged, leads on its own pins' });
+    expect(requestLine({ ...request, otherConnector: 'plugged' })).toContain('sensor unplugged, module connector plugged in');
+  });
+
   it('keeps nested templates and raw markup as they are, joins lists and drops null, undefined and booleans', () => {
     const items = ['a<', 'b'].map((s) => html`<li>${s}</li>`);
     expect(html`<ul>${items}</ul>${raw('<hr>')}${null}${undefined}${false}${0}`.value).toBe('<ul><li>a&lt;</li><li>b</li></ul><hr>0');

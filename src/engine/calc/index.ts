@@ -35,6 +35,16 @@ export {
   thermistorOhmsFromDivider,
 } from './thermistor';
 export {
+  type ChartModel,
+  type ChartComparison,
+  type ChartComparisonInput,
+  type ChartVerdict,
+  CHART_TEMPERATURE_RANGE_C,
+  DEFAULT_CHART_TOLERANCE_PERCENT,
+  DEFAULT_TEMPERATURE_SPREAD_C,
+  compareWithChart,
+} from './thermistor-chart';
+export {
   type CalibrationPoint,
   type LinearSensor,
   linearSensor,

@@ -2,7 +2,7 @@
  * The meter as part of the circuit, one behaviour per quantity: volts puts its input resistance across the leads,
  * amps a shunt, ohms injects a test current into the unpowered circuit (R = V/I), and a scan value reads the
  * module's own converter node (clamped and quantised as its converter reads it). Leads and jumpers land on the harness side of the connector at `location`: with it
- * unplugged they touch only the harness; `plugged` and `backprobed` are electrically the same (mated connector,
+ * unplugged they touch only the harness (at `sensor_pins`, on the unplugged sensor's own pins: the sensor alone); `plugged` and `backprobed` are electrically the same (mated connector,
  * leads on the terminals). The other connector is always mated.
  */
 import type { Location, MeasurementRequest, Point, Quantity } from '../vocabulary';
@@ -33,12 +33,16 @@ const FIXED_POINTS: Partial<Record<Point, string>> = {
   chassis_ground: CHASSIS_NODE,
 };
 
-/** Node a lead or jumper clip on `point` touches at `location` (harness side of that connector). */
+/** Where a lead on a wire's point lands at each location: the harness side of a connector, or the sensor's own pin. */
+const LOCATION_NODE: Record<Location, (wire: WireRole) => string> = {
+  sensor_connector: wireNode.sensorHarness,
+  module_connector: wireNode.moduleHarness,
+  sensor_pins: wireNode.sensorPin,
+};
+
+/** Node a lead or jumper clip on `point` touches at `location`. */
 export function pointNode(point: Point, location: Location): string {
-  const fixed = FIXED_POINTS[point];
-  if (fixed) return fixed;
-  const wire = point as WireRole;
-  return location === 'sensor_connector' ? wireNode.sensorHarness(wire) : wireNode.moduleHarness(wire);
+  return FIXED_POINTS[point] ?? LOCATION_NODE[location](point as WireRole);
 }
 
 const v = (x: Float64Array, i: number) => (i < 0 ? 0 : x[i]!);

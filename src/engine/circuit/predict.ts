@@ -2,7 +2,7 @@
  * From circuit, faults and a measurement request to a predicted reading: validate, build the netlist, apply the
  * faults, set the connector at the probed location, clip on jumpers and meter, solve.
  */
-import type { MeasurementRequest } from '../vocabulary';
+import { CONNECTOR_OF, OTHER_CONNECTOR, type MeasurementRequest } from '../vocabulary';
 import { finding, type Finding, type Result } from '../calc/findings';
 import { buildNetlist, contactId, MODULE_GROUND_NODE, MODULE_PIN } from './build';
 import { DEFAULT_METER } from './defaults';
@@ -41,9 +41,9 @@ export function prepareReading(
   const netlist = buildNetlist(circuit, request);
   found.push(...applyFaults(netlist, faults, circuit));
   if (found.length) return { ok: false, findings: found };
-  const other = request.location === 'sensor_connector' ? 'module_connector' : 'sensor_connector';
-  for (const [location, state] of [[request.location, request.connector], [other, request.otherConnector]] as const) {
-    if (state === 'unplugged') for (const wire of circuit.wires) netlist.remove(contactId[location](wire.role));
+  const connectors = [[CONNECTOR_OF[request.location], request.connector], [OTHER_CONNECTOR[request.location], request.otherConnector]] as const;
+  for (const [connector, state] of connectors) {
+    if (state === 'unplugged') for (const wire of circuit.wires) netlist.remove(contactId[connector](wire.role));
   }
   attachJumpers(netlist, request.jumpers, request.location);
   const leads = quantity.needsLeads

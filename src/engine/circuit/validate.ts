@@ -15,6 +15,7 @@ import {
   type Point,
 } from '../vocabulary';
 import { checkFinite, checkRange, checkResistance, describe, finding, joinPath, type Finding } from '../calc/findings';
+import { sensorPinsProblems } from '../sensor-pins';
 import { validateJumperVia } from './jumpers';
 import { sensorBehaviour } from './sensors';
 import { WIRE_ROLES, type CircuitSpec, type MeterSpec, type SensorKind, type WireRole } from './types';
@@ -132,6 +133,7 @@ export function validateRequest(request: MeasurementRequest, circuit: CircuitSpe
     ...(request.otherConnector === undefined ? [] : oneOf(request.otherConnector, CONNECTOR_STATES, joinPath(path, 'otherConnector'), 'request.unknown_connector_state')),
     ...oneOf(request.key, KEY_STATES, joinPath(path, 'key'), 'request.unknown_key_state'),
     ...oneOf(request.engine, ENGINE_STATES, joinPath(path, 'engine'), 'request.unknown_engine_state'),
+    ...sensorPinsProblems(request).map((p) => finding(p.code, joinPath(path, p.field), `${p.message.replace(/^./, (c) => c.toUpperCase())}.`)),
   ];
   if (request.key === 'off' && request.engine !== 'off' && ENGINE_STATES.includes(request.engine)) {
     found.push(finding('request.engine_without_key', joinPath(path, 'engine'), `The engine cannot be ${request.engine} with the key off.`));

@@ -5,7 +5,7 @@
  * work context calls for. Wording is our own; always defer to the manufacturer's service information.
  */
 import { sensorTerm } from '../sensors';
-import type { MeasurementRequest, Point } from '../vocabulary';
+import { OTHER_CONNECTOR, type MeasurementRequest, type Point } from '../vocabulary';
 
 /** What the bay knows about the work beyond the request: the sensor under test and the vehicle. */
 export interface WorkContext {
@@ -29,7 +29,7 @@ const BATTERY_POSTS: readonly Point[] = ['battery_positive', 'battery_negative']
 const leadsOf = (r: MeasurementRequest): Point[] => [r.at, ...(r.against ? [r.against] : [])];
 /** A lead on the module connector, or the module connector unplugged. */
 const touchesModuleConnector = (r: MeasurementRequest) =>
-  r.location === 'module_connector' || r.againstLocation === 'module_connector' || (r.location === 'sensor_connector' && r.otherConnector === 'unplugged');
+  r.location === 'module_connector' || r.againstLocation === 'module_connector' || (OTHER_CONNECTOR[r.location] === 'module_connector' && r.otherConnector === 'unplugged');
 
 export const CAUTION_KINDS: readonly CautionKind[] = [
   {
@@ -85,6 +85,13 @@ export const CAUTION_KINDS: readonly CautionKind[] = [
     id: 'backprobe_gently',
     text: 'Back-probe along the wire at the rear of the connector without spreading, bending or forcing the terminals.',
     appliesTo: (r) => r.connector === 'backprobed' || (r.againstLocation !== undefined && r.otherConnector === 'backprobed'),
+  },
+  {
+    id: 'sensor_pins',
+    text:
+      "On the sensor's own pins: hold the leads on the pin tips (or use adapters that fit them) without bending the " +
+      'pins, and hold the sensor by its body, not its tip: the warmth of a hand moves a thermistor\'s resistance.',
+    appliesTo: (r) => r.location === 'sensor_pins' || r.againstLocation === 'sensor_pins',
   },
   {
     id: 'module_connector',

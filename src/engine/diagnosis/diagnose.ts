@@ -14,6 +14,7 @@ import { jumperSafety } from './safety-rules';
 import { decide, type ResolvedOptions, type TestProgress } from './status-rules';
 import { weighCodes } from './code-evidence';
 import { undecided } from './undecided';
+import { checkScanConditions, scanTemperatureFindings } from './scan-temperature';
 import type { Test, Tree } from './tree-model';
 import type { Diagnosis, DiagnosisOptions, NextTest, PathEntry, Reading, Repair } from './index';
 import type { Posterior } from './posterior';
@@ -102,7 +103,7 @@ function outcomesOf(test: Test, r: CheckedReading): Promise<string[]> | string[]
 /** See `diagnose` in index.ts. */
 export async function runDiagnosis(untouched: Tree, readings: readonly Reading[], repairs: readonly Repair[], allOptions: DiagnosisOptions): Promise<Diagnosis> {
   // The order's trouble codes weigh the prior before any reading (code-evidence.ts).
-  const { codes, ...options } = allOptions;
+  const { codes, conditions, ...options } = allOptions;
   const coded = weighCodes(untouched, codes);
   const tree = coded.tree;
   const { resolved, findings } = resolve(tree, options);
@@ -110,7 +111,8 @@ export async function runDiagnosis(untouched: Tree, readings: readonly Reading[]
   const shapes = checkReadingShapes(tree, Array.isArray(readings) ? readings : []);
   if (!Array.isArray(readings)) findings.push(finding('readings.not_array', 'readings', 'expected an array of readings'));
   const repairCheck = checkRepairs(Array.isArray(repairs) ? repairs : []);
-  findings.push(...shapes.findings, ...repairCheck.findings);
+  findings.push(...shapes.findings, ...repairCheck.findings, ...checkScanConditions(conditions));
+  const implausible = scanTemperatureFindings(Array.isArray(readings) ? readings : [], conditions);
   const ctx: ReadingContext = {
     tree,
     readings: shapes.checked,
@@ -218,13 +220,16 @@ export async function runDiagnosis(untouched: Tree, readings: readonly Reading[]
     status: decision.status,
     ranked,
     nextTest,
-    path,
+    path: path.map((entry) => {
+      const notes = implausible.filter((x) => x.readingId === entry.readingId).map((x) => x.finding.message);
+      return notes.length ? { ...entry, note: [entry.note, ...notes].join('; ') } : entry;
+    }),
     conclusion,
     undecided: decision.status === 'exhausted' ? undecided(tree, ranked, decision.noneFits ? 'none_fits' : 'no_test_left') : null,
     logZ: post.logZ,
     logEvidenceVsChance: post.logEvidenceVsChance,
     codesWeighed: coded.codesWeighed,
-    findings: [...findings, ...decision.findings],
+    findings: [...findings, ...implausible.map((x) => x.finding), ...decision.findings],
   };
 }
 

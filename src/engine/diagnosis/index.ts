@@ -57,6 +57,8 @@ export {
   type DecisionProblem,
 } from './published-methods';
 
+import type { ScanConditions } from './scan-temperature';
+
 /** A reading as entered against a repair order. */
 export interface Reading {
   id: string;
@@ -114,6 +116,8 @@ export interface DiagnosisOptions {
    * by P(code | cause) before any reading is weighed; others are listed as not weighed.
    */
   codes?: CodeOptions;
+  /** What the technician knows of the temperatures (ambient, cold soak): bounds a scan temperature's plausibility. */
+  conditions?: ScanConditions;
 }
 
 export interface PathEntry {
@@ -192,6 +196,7 @@ export function loadTree(json: unknown, options: LoadOptions = {}): LoadResult {
 
 export { loadingCause, sharedReferenceTree, sharedReferenceTreeFor, sensorsOf as sharedReferenceSensors, type SharedSensor } from './shared-reference-tree';
 export { SHARED_REFERENCE_SENSORS } from './tree-limits';
+export { scanTemperatureFindings, checkScanConditions, COLD_SOAK_SPREAD_C, BELOW_AMBIENT_SPREAD_C, AMBIENT_RANGE_C, type ScanConditions } from './scan-temperature';
 
 let builtIns: Record<string, Tree> | undefined;
 

@@ -1,7 +1,7 @@
 import { Controller, HttpCode, Post } from '@nestjs/common';
 import { ApiOperation, ApiSecurity, ApiTags } from '@nestjs/swagger';
 import { ZBody } from '../../common/validation/zod-input';
-import { BiasResistance, MeterLoading, Pressure, ReferenceLoad, ScanDecode, Thermistor, TroubleCode, VoltageDrop } from './calculators.dto';
+import { BiasResistance, MeterLoading, Pressure, ReferenceLoad, ScanDecode, Thermistor, ThermistorChart, TroubleCode, VoltageDrop } from './calculators.dto';
 import { CalculatorsService } from './calculators.service';
 import { UNITS_CONVENTION } from './quantities';
 import { EngineAnswer, ZResponse } from '../../common/openapi/responses';
@@ -65,6 +65,17 @@ export class CalculatorsController {
   })
   thermistor(@ZBody(Thermistor) body: Thermistor) {
     return this.service.thermistor(body);
+  }
+
+  @Post('thermistor-chart')
+  @ZResponse(EngineAnswer)
+  @HttpCode(200)
+  @ApiOperation({
+    summary: "A reading at the sensor's own pins against its chart at the temperature the technician knows",
+    description: "The chart's resistance at that temperature, its band (R(T + spread)·(1 − tolerance) to R(T − spread)·(1 + tolerance), an NTC falling as it warms), whether the reading lies within, and the chart's temperature for the reading.",
+  })
+  thermistorChart(@ZBody(ThermistorChart) body: ThermistorChart) {
+    return this.service.thermistorChart(body);
   }
 
   @Post('pressure')

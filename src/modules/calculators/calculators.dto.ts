@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { DEFAULT_GROUND_DROP_LIMIT_VOLTS, DEFAULT_REFERENCE_LIMITS } from '../../engine/calc';
-import { GENERIC_10K_STEINHART_HART } from '../../engine/circuit';
+import { GENERIC_10K_STEINHART_HART, THERMISTOR_CURVES } from '../../engine/circuit';
 import { DEFAULT_METER_OHMS } from '../../engine/vocabulary';
 import { kpa, ohms, positiveOhms, volts } from './quantities';
 
@@ -69,6 +69,22 @@ export const Thermistor = z
     if (t.volts !== undefined && !t.divider) ctx.addIssue({ code: 'custom', path: ['divider'], message: 'a voltage needs the divider it was read on: divider.pullUpOhms' });
   });
 export type Thermistor = z.output<typeof Thermistor>;
+
+const CHART_IDS = THERMISTOR_CURVES.map((c) => c.id) as [string, ...string[]];
+
+export const ThermistorChart = z
+  .strictObject({
+    chart: z.enum(CHART_IDS).optional().describe('a catalogued chart (src/engine/circuit/thermistor-curves.ts); or give model'),
+    model: ThermistorModel.optional().describe("the sensor's chart as an equation; or give chart"),
+    ohms: z.union([z.number(), z.literal('overload')]).describe("the reading at the sensor's own pins, Ω, or \"overload\" (OL)"),
+    temperatureC: z.number().describe('the temperature the sensor sits at, as the technician knows it (air, cold-soaked engine, thermometer)'),
+    tolerancePercent: z.number().optional().describe("the chart's tolerance, % (default 5: common practice, no source)"),
+    temperatureSpreadC: z.number().optional().describe('how well the temperature is known, ±°C (default 3: common practice, no source)'),
+  })
+  .superRefine((t, ctx) => {
+    if ((t.chart === undefined) === (t.model === undefined)) ctx.addIssue({ code: 'custom', path: ['chart'], message: 'give exactly one of chart or model' });
+  });
+export type ThermistorChart = z.output<typeof ThermistorChart>;
 
 const CalibrationPoint = z.strictObject({ volts: volts('Sensor output'), kpa: kpa('Pressure') });
 

@@ -5,6 +5,7 @@ import {
   betaResistance,
   betaTemperature,
   biasOhmsFromReading,
+  compareWithChart,
   linearSensor,
   meterReading,
   referenceUnderLoad,
@@ -22,7 +23,8 @@ import {
 import { decodeDtcBytes, encodeDtc, genericMeaning, parseDtc, scopeOf, systemOf } from '../../engine/codes';
 import { decodePid, pidDefinition } from '../../engine/scan';
 import { fromSi, parseUnit, siUnitOf, toSi } from '../../engine/units';
-import type { BiasResistance, MeterLoading, Pressure, ReferenceLoad, ScanDecode, Thermistor, TroubleCode, VoltageDrop } from './calculators.dto';
+import type { BiasResistance, MeterLoading, Pressure, ReferenceLoad, ScanDecode, Thermistor, ThermistorChart, TroubleCode, VoltageDrop } from './calculators.dto';
+import { thermistorCurve } from '../../engine/circuit';
 import { orInvalid } from './engine-result';
 
 type Model = Thermistor['model'];
@@ -76,6 +78,14 @@ export class CalculatorsService {
       volts: orInvalid(thermistorDividerVolts({ ...body.divider, thermistorOhms: ohms }), 'body', { ...rename, thermistorOhms: 'ohms' }).value,
     };
     return { model: body.model, temperatureC, ohms, ...(divider ? { divider } : {}) };
+  }
+
+  /** A pins reading against a chart: the chart's resistance at the known temperature, its band and the verdict. */
+  thermistorChart(body: ThermistorChart) {
+    const model = body.model ?? thermistorCurve(body.chart!)!.model;
+    const { chart, ...rest } = body;
+    const compared = orInvalid(compareWithChart({ ...rest, model }), 'body').value;
+    return { ...(chart ? { chart } : {}), model, temperatureC: body.temperatureC, ohms: body.ohms, ...compared };
   }
 
   pressure(body: Pressure) {

@@ -2,7 +2,7 @@ import { Inject, Injectable } from '@nestjs/common';
 import { APP_CONFIG, type AppConfig } from '../../config/config';
 import type { CircuitKind } from '../../generated/prisma/client';
 import { NotFoundException } from '../../common/errors/domain.exception';
-import { diagnose, type Diagnosis, type Reading, type Repair, type Tree, type WorkContext } from '../../engine/diagnosis';
+import { diagnose, type Diagnosis, type Reading, type Repair, type ScanConditions, type Tree, type WorkContext } from '../../engine/diagnosis';
 import { orderScope, type Actor } from '../identity/actor';
 import { FaultTreeCatalog } from '../fault-trees/fault-tree-catalog.service';
 import { MeasurementsRepository, type MeasurementRow } from '../measurements/measurements.repository';
@@ -20,6 +20,12 @@ export function engineReading(m: MeasurementRow): Reading {
     phase: m.phase,
     ...(m.supersededBy ? { supersededBy: m.supersededBy.id } : {}),
   };
+}
+
+/** `asDiagnosed`: as it stood before any repair; `conditions`: the temperatures the technician gave. */
+export interface CircuitDiagnosisOptions {
+  asDiagnosed?: boolean;
+  conditions?: ScanConditions;
 }
 
 /**
@@ -44,7 +50,7 @@ export class DiagnosisService {
     actor: Actor,
     repairOrderId: string,
     circuitId: string,
-    options: { asDiagnosed?: boolean } = {},
+    options: CircuitDiagnosisOptions = {},
   ): Promise<{ tree: Tree; diagnosis: Diagnosis; readings: MeasurementRow[]; context: WorkContext }> {
     const order = await this.orders.findHeaderWithCircuitsAndVehicle(orderScope(actor), repairOrderId);
     if (!order) throw new NotFoundException('repair_order', repairOrderId);
@@ -62,7 +68,7 @@ export class DiagnosisService {
     actor: Actor,
     repairOrderId: string,
     circuit: { id: string; kind: CircuitKind; faultTreeId: string | null },
-    options: { asDiagnosed?: boolean } = {},
+    options: CircuitDiagnosisOptions = {},
     /** The circuit's readings (corrected ones included) and the order's repairs, when the caller read them already. */
     read?: { readings: MeasurementRow[]; repairs: Array<Pick<RepairRow, 'id' | 'part' | 'at' | 'circuitId'>> },
   ): Promise<{ tree: Tree; diagnosis: Diagnosis; readings: MeasurementRow[] }> {
@@ -80,7 +86,11 @@ export class DiagnosisService {
     // The codes read at intake weigh the causes of this circuit's sensor (which 5 V reference feeds it is not stored).
     const coded = await this.orders.codesForCircuit(repairOrderId, circuitId);
     const codes = coded ? { codes: coded.repairOrder.codes, sensor: coded.sensor } : undefined;
-    const diagnosis = await diagnose(tree, counted.map(engineReading), engineRepairs, { concludeAt: this.config.concludeAt, codes });
+    const diagnosis = await diagnose(tree, counted.map(engineReading), engineRepairs, {
+      concludeAt: this.config.concludeAt,
+      codes,
+      ...(options.conditions ? { conditions: options.conditions } : {}),
+    });
     return { tree, diagnosis, readings };
   }
 }

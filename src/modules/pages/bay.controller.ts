@@ -8,6 +8,7 @@ import { bayHomePage, newOrderPage } from './bay-home.view';
 import { orderPage, wiresPage, type Prefill } from './bay-order.view';
 import { PagesErrorFilter } from './pages-error.filter';
 import { testScreenPage } from './test-screen.view';
+import { temperatureInput } from './temperatures.view';
 
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
@@ -68,13 +69,15 @@ export class BayController {
     @UuidParam('circuitId') circuitId: string,
     @Query('correct') correct: unknown,
     @Query('verify') verify: unknown,
+    @Query() query: Record<string, unknown>,
   ) {
     const order = await this.bay.header(actor, id);
-    const circuit = await this.bay.circuit(actor, order, circuitId);
+    const temperatures = temperatureInput(query);
+    const circuit = await this.bay.circuit(actor, order, circuitId, undefined, temperatures.conditions);
     const entry = this.bay.entryFor(order, circuit, {
       correct: typeof correct === 'string' && UUID.test(correct) ? correct : undefined,
       verify: typeof verify === 'string' && /^\d{1,3}$/.test(verify) ? Number(verify) : undefined,
     });
-    return testScreenPage(actor, order, circuit, entry).value;
+    return testScreenPage(actor, order, circuit, entry, temperatures).value;
   }
 }

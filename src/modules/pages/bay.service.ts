@@ -1,6 +1,6 @@
 import { Injectable } from '@nestjs/common';
 import { NotFoundException } from '../../common/errors/domain.exception';
-import { requestKey, type Caution, type Diagnosis, type Tree, type WorkContext } from '../../engine/diagnosis';
+import { requestKey, type Caution, type Diagnosis, type ScanConditions, type Tree, type WorkContext } from '../../engine/diagnosis';
 import type { MeasurementRequest } from '../../engine/vocabulary';
 import { DiagnosisService } from '../diagnosis/diagnosis.service';
 import { OrderDiagnosisService } from '../diagnosis/order-diagnosis.service';
@@ -104,11 +104,17 @@ export class BayService {
   }
 
   /** `repairs`: the order's repairs when the caller has them already. */
-  async circuit(actor: Actor, order: OrderDetail, circuitId: string, repairs?: ReadonlyArray<{ circuitId: string | null }>): Promise<CircuitDiagnosis> {
+  async circuit(
+    actor: Actor,
+    order: OrderDetail,
+    circuitId: string,
+    repairs?: ReadonlyArray<{ circuitId: string | null }>,
+    conditions?: ScanConditions,
+  ): Promise<CircuitDiagnosis> {
     const found = order.circuits.find((c) => c.id === circuitId);
     if (!found) throw new NotFoundException('circuit', circuitId);
     const circuit: CircuitItem = { ...found, cavities: (found.cavities ?? {}) as Record<string, string> };
-    const { tree, diagnosis, readings } = await this.diagnoses.forCircuit(actor, order.id, circuitId);
+    const { tree, diagnosis, readings } = await this.diagnoses.forCircuit(actor, order.id, circuitId, conditions ? { conditions } : {});
     const repaired = (repairs ?? (await this.repairs.list(actor, order.id)).items).some((r) => r.circuitId === null || r.circuitId === circuitId);
     const atRepair = repaired ? (await this.diagnoses.forCircuit(actor, order.id, circuitId, { asDiagnosed: true })).diagnosis : null;
     return {

@@ -10,6 +10,7 @@ import { requestKey } from '../../engine/diagnosis';
 import { conditions, formatEntered, leads, PART_WORDS, padUnits, percent, predictedRange } from './words';
 import { repairable } from './diagnosis-state';
 import { codesWeighedPanel, returnedCodesNotice } from './codes.view';
+import { temperaturePanel, type TemperatureInput } from './temperatures.view';
 
 const REASON_WORDS: Record<string, string> = {
   recheck_indeterminate: 'The last reading fell between two outcomes. Check the probe points and the connector, then measure again.',
@@ -36,7 +37,11 @@ function instructions(entry: Entry, c: CircuitDiagnosis, next: NextTest | null):
     <div class="leads">
       <p class="lead-line"><span class="lead-tag ${scan ? 'lead-scan' : 'lead-red'}">${scan ? 'Scan tool' : 'Red lead'}</span> ${l.red}</p>
       ${l.black ? html`<p class="lead-line"><span class="lead-tag lead-black">Black lead</span> ${l.black}</p>` : ''}
-      <p class="muted lead-where">${l.where}</p>
+      ${
+        entry.request.location === 'sensor_pins' && !scan
+          ? html`<p class="notice lead-where lead-on-sensor">${ICON.flag} ${l.where}</p>`
+          : html`<p class="muted lead-where">${l.where}</p>`
+      }
     </div>
     <dl class="conditions">${conditions(entry.request).map((x) => html`<div class="condition"><dt>${x.label}</dt><dd>${x.value}</dd></div>`)}</dl>
     ${general.map((g) => html`<p class="caution-general">${ICON.caution} ${g.text}</p>`)}
@@ -132,7 +137,7 @@ function verificationPanel(order: OrderDetail, c: CircuitDiagnosis, entry: Entry
   </section>`;
 }
 
-export function testScreenPage(actor: Actor, order: OrderDetail, c: CircuitDiagnosis, entry: Entry | null): SafeHtml {
+export function testScreenPage(actor: Actor, order: OrderDetail, c: CircuitDiagnosis, entry: Entry | null, temperatures: TemperatureInput = { errors: [] }): SafeHtml {
   const d = c.diagnosis;
   const base = `/bay/orders/${order.id}/circuits/${c.circuit.id}`;
   const correctable = order.status === 'repaired' ? 'verification' : order.status === 'open' || order.status === 'diagnosing' ? 'diagnosis' : null;
@@ -163,6 +168,7 @@ export function testScreenPage(actor: Actor, order: OrderDetail, c: CircuitDiagn
       <div class="test-side">
         <section class="panel" aria-labelledby="causes-h"><h2 id="causes-h">${c.atRepair ? 'Causes as diagnosed before the repair' : 'Likely causes'}</h2>${rankedCauses(c.atRepair ?? d)}</section>
         ${codesWeighedPanel(c.atRepair ?? d)}
+        ${temperaturePanel(c, temperatures)}
         <section class="panel" aria-labelledby="path-h"><h2 id="path-h">Readings so far</h2>${pathList(c, (r) => (r.phase === correctable ? `${base}?correct=${r.id}` : undefined))}</section>
       </div>
     </div>`,

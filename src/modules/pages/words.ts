@@ -1,6 +1,6 @@
 /** The shared measurement vocabulary in plain words for the bay screens, and reading values formatted for people. */
 import { formatValue, UNITS, unitsFor, type Unit } from '../../engine/units';
-import type { MeasurementRequest, Point, Quantity } from '../../engine/vocabulary';
+import { CONNECTOR_OF, OTHER_CONNECTOR, type MeasurementRequest, type Point, type Quantity } from '../../engine/vocabulary';
 
 const POINT_WORDS: Record<Point, string> = {
   reference: '5 V reference wire',
@@ -19,6 +19,14 @@ const QUANTITY_WORDS: Record<Quantity, string> = {
 };
 
 const LOCATION_WORDS = { sensor_connector: 'at the sensor connector', module_connector: 'at the module connector' } as const;
+/** The sensor's own pins: the leads go on the component, not on the harness. */
+const PIN_WORDS: Partial<Record<Point, string>> = {
+  reference: '5 V reference pin on the sensor itself',
+  signal: 'signal pin on the sensor itself',
+  ground: 'sensor ground pin on the sensor itself',
+};
+const SENSOR_PINS_WHERE = "Leads on the sensor's own pins, sensor unplugged: on the component itself, not the harness connector";
+const CONNECTOR_NAMES = { sensor_connector: 'Sensor connector', module_connector: 'Module connector' } as const;
 /** A scan-tool test reads what the module sees; the "location" is where the circuit is left (plugged in) for it. */
 const SCAN_WHERE = 'Scan-tool test: no meter leads; read the value from the module through the diagnostic connector';
 const CONNECTOR_WORDS = { plugged: 'plugged in', unplugged: 'unplugged', backprobed: 'plugged in, back-probed' } as const;
@@ -75,11 +83,13 @@ export interface LeadWords {
 
 /** Where the leads go, in words, naming the cavity when the circuit's cavity map says which it is. */
 export function leads(request: MeasurementRequest, cavities: Record<string, string> = {}): LeadWords {
-  const where = LOCATION_WORDS[request.location];
+  if (request.location === 'sensor_pins' && request.quantity !== 'scan_value')
+    return { red: PIN_WORDS[request.at] ?? POINT_WORDS[request.at], black: request.against ? (PIN_WORDS[request.against] ?? POINT_WORDS[request.against]) : null, where: SENSOR_PINS_WHERE };
+  const where = LOCATION_WORDS[CONNECTOR_OF[request.location]];
   if (request.quantity === 'scan_value') {
     return { red: `Scan tool: read ${(request.pid ?? 'the parameter').replace(/_/g, ' ')} (the ${POINT_WORDS[request.at]})`, black: null, where: SCAN_WHERE };
   }
-  const far = request.againstLocation && request.againstLocation !== request.location ? request.againstLocation : null;
+  const far = request.againstLocation && request.againstLocation !== request.location ? CONNECTOR_OF[request.againstLocation] : null;
   if (far && request.against)
     // A lead at each end of the harness: name both ends (the cavity map is the sensor connector's).
     return {
@@ -102,10 +112,10 @@ export function conditions(request: MeasurementRequest): ConditionWords[] {
     { label: 'Engine', value: ENGINE_WORDS[request.engine] },
     { label: 'Connector', value: CONNECTOR_WORDS[request.connector] },
   ];
+  if (request.location === 'sensor_pins') out[3] = { label: 'Sensor', value: `${CONNECTOR_WORDS[request.connector]}, leads on its own pins` };
   if (request.otherConnector) {
-    const other = request.location === 'sensor_connector' ? 'Module connector' : 'Sensor connector';
-    out[3] = { label: request.location === 'sensor_connector' ? 'Sensor connector' : 'Module connector', value: CONNECTOR_WORDS[request.connector] };
-    out.push({ label: other, value: CONNECTOR_WORDS[request.otherConnector] });
+    if (request.location !== 'sensor_pins') out[3] = { label: CONNECTOR_NAMES[CONNECTOR_OF[request.location]], value: CONNECTOR_WORDS[request.connector] };
+    out.push({ label: CONNECTOR_NAMES[OTHER_CONNECTOR[request.location]], value: CONNECTOR_WORDS[request.otherConnector] });
   }
   for (const j of request.jumpers) {
     const via = j.via.kind === 'fused_jumper' ? 'fused jumper' : j.via.kind === 'resistor' ? `${formatSi(j.via.ohms, 'Ω')} resistor` : `${j.via.volts} V source`;
@@ -120,8 +130,9 @@ export function requestLine(request: MeasurementRequest, cavities: Record<string
   const how = l.black ? `${l.red} to ${l.black}` : l.red;
   const bothEnds = request.againstLocation !== undefined && request.againstLocation !== request.location;
   const where = request.quantity === 'scan_value' ? 'scan-tool test' : bothEnds ? 'a lead at each end of the harness' : l.where;
+  const first = request.location === 'sensor_pins' ? 'sensor' : CONNECTOR_NAMES[CONNECTOR_OF[request.location]].toLowerCase();
   const states = request.otherConnector
-    ? `${request.location === 'sensor_connector' ? 'sensor' : 'module'} connector ${CONNECTOR_WORDS[request.connector]}, ${request.location === 'sensor_connector' ? 'module' : 'sensor'} connector ${CONNECTOR_WORDS[request.otherConnector]}`
+    ? `${first} ${CONNECTOR_WORDS[request.connector]}, ${CONNECTOR_NAMES[OTHER_CONNECTOR[request.location]].toLowerCase()} ${CONNECTOR_WORDS[request.otherConnector]}`
     : CONNECTOR_WORDS[request.connector];
   return `${QUANTITY_WORDS[request.quantity]}: ${how}, ${where}, key ${request.key}, engine ${ENGINE_WORDS[request.engine]}, ${states}`;
 }

@@ -160,6 +160,9 @@ describe('node voltages agree with ngspice (.op, batch mode) within 1e-6 relativ
     ['a signal wire chafed onto the sensor ground wire, both connectors unplugged', { at: 'signal', against: 'ground' }, [{ kind: 'short_between', wires: ['signal', 'ground'], ohms: 470 }]],
     ['end-to-end continuity of a broken reference', { at: 'reference', against: 'reference', againstLocation: 'module_connector' }, faultsFor('reference_open')],
     ['a thermistor through its wires from the module connector, sensor plugged', { at: 'signal', against: 'ground', location: 'module_connector', otherConnector: 'plugged' }, [], 'two_wire_thermistor'],
+    ['a thermistor alone at its own pins, sensor unplugged', { at: 'signal', against: 'ground', location: 'sensor_pins' }, [], 'two_wire_thermistor'],
+    ['a thermistor at its own pins with a broken signal wire behind it', { at: 'signal', against: 'ground', location: 'sensor_pins', otherConnector: 'plugged' }, faultsFor('signal_open'), 'two_wire_thermistor'],
+    ['a potentiometer track at its own pins, sensor unplugged', { at: 'reference', against: 'ground', location: 'sensor_pins' }, []],
   ])('agrees with ngspice on the ohms reading of %s', (name, change, faults, kind: 'three_wire_5v' | 'two_wire_thermistor' = 'three_wire_5v') => {
     const request: MeasurementRequest = { ...keyOn, quantity: 'ohms', key: 'off', connector: 'unplugged', otherConnector: 'unplugged', ...change };
     const built = circuitNetlist(defaultCircuit(kind), faults, request);

@@ -45,6 +45,20 @@ describe('the cautions a request needs', () => {
       ['unplug_key_off'],
     ],
     ['a reading at the sensor alone needs no module-connector care', req({}), {}, [], ['module_connector']],
+    [
+      "ohms on the sensor's own pins: pin care and hands off the thermistor, key off, no module-connector care",
+      req({ quantity: 'ohms', key: 'off', at: 'signal', against: 'ground', location: 'sensor_pins', connector: 'unplugged' }),
+      {},
+      ['sensor_pins', 'unplug_key_off', 'ohms_unpowered'],
+      ['module_connector', 'backprobe_gently'],
+    ],
+    [
+      "the sensor's pins with the module connector unplugged as well bring its care back",
+      req({ quantity: 'ohms', key: 'off', at: 'signal', against: 'ground', location: 'sensor_pins', connector: 'unplugged', otherConnector: 'unplugged' }),
+      {},
+      ['sensor_pins', 'module_connector'],
+      [],
+    ],
   ])('%s', (_name, request, context, present, absent) => {
     const ids = requiredCautions(request, context);
     for (const id of present) expect(ids).toContain(id);

@@ -119,6 +119,19 @@ describe('the out-of-model circuits agree with closed forms (computed)', () => {
     for (const celsius of [-30, -20, 0, 25, 60, 100, 120]) expect(ntcCelsius(curve, ntcOhms(curve, celsius))).toBeCloseTo(celsius, 6);
   });
 
+  it.each(['no_fault_now', 'signal_open', 'signal_short_ground', 'ground_open', 'module_internal'])(
+    "reads a thermistor at its own pins, unplugged, as its curve plus the test leads, whatever the harness does (%s)",
+    (cause) => {
+      const c = drawOomCase('two-wire-thermistor', cause, 0, SEED);
+      const circuit = singleCircuit(c);
+      if (circuit.sensor.kind !== 'ntc') throw new Error('expected a thermistor');
+      const pins: MeasurementRequest = { quantity: 'ohms', at: 'signal', against: 'ground', location: 'sensor_pins', connector: 'unplugged', key: 'off', engine: 'off', jumpers: [] };
+      // The thermistor alone between its pins: R(T) from its own curve, plus the leads (computed).
+      const expected = ntcOhms(circuit.sensor.curve, circuit.sensor.celsius) + c.instruments.leadOhms;
+      expect(trueValue(circuit, c.instruments, pins)).toBeCloseTo(expected, 3);
+    },
+  );
+
   it('passes the generic 10 kΩ curve through its fit point of 10 kΩ at 25 °C (from memory)', () => {
     expect(ntcOhms(NTC_CURVES[1]!, 25)).toBeCloseTo(10_000, 3);
   });

@@ -58,17 +58,22 @@ function batteryVolts(c: Pick<CircuitCase, 'battery'>, r: MeasurementRequest): n
   return r.engine === 'running' ? c.battery.running : r.engine === 'cranking' ? c.battery.cranking : c.battery.keyOn;
 }
 
+/** Node prefix of each location: harness side at the module (m) or sensor (s), or the sensor's own pins (p). */
+const LOCATION_PREFIX: Record<MeasurementRequest['location'], string> = { module_connector: 'm', sensor_connector: 's', sensor_pins: 'p' };
+
 /** Node of a probe point for a request's location. */
 export function pointNode(point: Point, location: MeasurementRequest['location']): string {
   if (point === 'battery_negative') return GROUND;
   if (point === 'battery_positive') return 'bp';
   if (point === 'chassis_ground') return 'ch';
-  return `${location === 'module_connector' ? 'm' : 's'}_${point.slice(0, 3)}`;
+  return `${LOCATION_PREFIX[location]}_${point.slice(0, 3)}`;
 }
 
 /** Whether a connector is unplugged for a request: the first lead's connector, or the other one (`otherConnector`). */
-export function unplugged(r: MeasurementRequest, location: MeasurementRequest['location']): boolean {
-  return (r.location === location ? r.connector : r.otherConnector) === 'unplugged';
+export function unplugged(r: MeasurementRequest, connector: 'sensor_connector' | 'module_connector'): boolean {
+  // Leads on the sensor's own pins sit behind the sensor connector: its state is `connector`.
+  const first = r.location === 'sensor_pins' ? 'sensor_connector' : r.location;
+  return (first === connector ? r.connector : r.otherConnector) === 'unplugged';
 }
 
 /** The nodes of the two leads: the second on `againstLocation` when the leads sit at the two ends of the harness. */
@@ -109,8 +114,9 @@ export function buildNet(c: CircuitCase, r: MeasurementRequest, supplyMode: Supp
     n.r(`short${k}`, `x_${f.wire.slice(0, 3)}`, to, f.ohms);
   });
   const sensorOff = unplugged(r, 'sensor_connector');
-  if (!sensorOff) stampSensor(n, c, wires);
+  stampSensor(n, c, wires, !sensorOff);
   if (moduleOff && sensorOff) leakIsolatedWires(n, wires);
+  if (sensorOff) leakUnpluggedSensor(n, wires);
   for (const [k, j] of r.jumpers.entries()) if (!blown.has(k)) stampJumper(n, c, j, k, r.location);
   if (meterOhms !== undefined && r.against) n.r('meter', ...leadNodes(r), meterOhms);
   return n;
@@ -133,8 +139,9 @@ export function stampModule(n: Net, c: ModuleParts, powered: boolean, supplyMode
   n.r('rail', 'rl', 'mg', powered ? c.railLoadOhms : c.railOffOhms);
 }
 
-function stampSensor(n: Net, c: CircuitCase, wires: Wire[]): void {
-  for (const w of wires) n.r(`ts${w.slice(0, 3)}`, `s_${w.slice(0, 3)}`, `p_${w.slice(0, 3)}`, c.terminalOhms);
+/** The sensor between its pins `p_*`; mated to the harness `s_*` through its terminals when plugged in. */
+function stampSensor(n: Net, c: CircuitCase, wires: Wire[], plugged: boolean): void {
+  if (plugged) for (const w of wires) n.r(`ts${w.slice(0, 3)}`, `s_${w.slice(0, 3)}`, `p_${w.slice(0, 3)}`, c.terminalOhms);
   const fault = c.faults.find((f): f is Extract<Fault, { kind: 'sensor' }> => f.kind === 'sensor');
   const s = c.sensor;
   if (s.kind === 'ntc') {
@@ -153,6 +160,11 @@ function stampSensor(n: Net, c: CircuitCase, wires: Wire[]): void {
   }
   if (fault?.variant === 'output_to_reference') n.r('ishort', 'p_w', 'p_ref', fault.ohms);
   if (fault?.variant === 'output_to_ground') n.r('ishort', 'p_w', 'p_gro', fault.ohms);
+}
+
+/** An unplugged sensor touches nothing: a leak from each pin to battery negative keeps it solvable. */
+function leakUnpluggedSensor(n: Net, wires: Wire[]): void {
+  for (const w of wires) n.r(`pleak${w.slice(0, 3)}`, `p_${w.slice(0, 3)}`, GROUND, 1e12);
 }
 
 /** With both connectors unplugged a wire touches nothing: a leak to battery negative keeps it solvable (reads overload). */

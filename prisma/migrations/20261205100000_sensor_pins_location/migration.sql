@@ -1,0 +1,2 @@
+-- AlterEnum
+ALTER TYPE "ProbeLocation" ADD VALUE 'sensor_pins';
