@@ -10,6 +10,7 @@ import {
   LOCATIONS,
   POINTS,
   QUANTITIES,
+  SENSOR_INPUTS,
   type CircuitKind,
   type MeasurementRequest,
   type Point,
@@ -132,6 +133,7 @@ export function validateRequest(request: MeasurementRequest, circuit: CircuitSpe
     ...(request.otherConnector === undefined ? [] : oneOf(request.otherConnector, CONNECTOR_STATES, joinPath(path, 'otherConnector'), 'request.unknown_connector_state')),
     ...oneOf(request.key, KEY_STATES, joinPath(path, 'key'), 'request.unknown_key_state'),
     ...oneOf(request.engine, ENGINE_STATES, joinPath(path, 'engine'), 'request.unknown_engine_state'),
+    ...(request.sensorInput === undefined ? [] : oneOf(request.sensorInput, SENSOR_INPUTS, joinPath(path, 'sensorInput'), 'request.unknown_sensor_input')),
   ];
   if (request.key === 'off' && request.engine !== 'off' && ENGINE_STATES.includes(request.engine)) {
     found.push(finding('request.engine_without_key', joinPath(path, 'engine'), `The engine cannot be ${request.engine} with the key off.`));
