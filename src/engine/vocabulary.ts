@@ -31,6 +31,12 @@ export type EngineState = (typeof ENGINE_STATES)[number];
 export const SENSOR_INPUTS = ['at_rest', 'moved'] as const;
 export type SensorInput = (typeof SENSOR_INPUTS)[number];
 
+/** What to do with the sensor's input, in plain words for the bay and the proof (nothing when it stays at rest). */
+export function sensorInputWords(request: Pick<MeasurementRequest, 'sensorInput' | 'engine'>): string | undefined {
+  if (request.sensorInput !== 'moved') return undefined;
+  return request.engine === 'running' ? 'engine running at idle (manifold vacuum)' : 'press the throttle fully and hold';
+}
+
 /** What a jumper carries: a fused wire, a resistor of given ohms, or a variable voltage source of given volts. */
 export type JumperVia =
   | { kind: 'fused_jumper' }

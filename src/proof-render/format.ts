@@ -3,7 +3,7 @@
  * no locale), so the same view always prints the same words.
  */
 import { formatValue } from '../engine/units';
-import type { Jumper, JumperVia, MeasurementRequest, Point } from '../engine/vocabulary';
+import { sensorInputWords, type Jumper, type JumperVia, type MeasurementRequest, type Point } from '../engine/vocabulary';
 import { canonicalJson } from './digest';
 import { printBound } from './units';
 import type { ExpectedRange, ProofView } from './view';
@@ -96,6 +96,8 @@ export function conditionLines(r: MeasurementRequest): string[] {
     lines.push(`${QUANTITY_WORDS[r.quantity]}: red lead at ${POINT_WORDS[r.at]}${far ? ` at the ${LOCATION_WORDS[r.location]}` : ''}, black at ${POINT_WORDS[r.against ?? r.at]}${far}`);
   }
   if (r.otherConnector) lines.push(`${LOCATION_WORDS[r.location === 'sensor_connector' ? 'module_connector' : 'sensor_connector'].replace(/^./, (c) => c.toUpperCase())}: ${r.otherConnector === 'backprobed' ? 'back-probed' : r.otherConnector === 'unplugged' ? 'unplugged' : 'plugged in'}`);
+  const input = sensorInputWords(r);
+  if (input) lines.push(`Input: ${input.replace(/^./, (c) => c.toUpperCase())}`);
   if (r.sensor) lines.push(`Sensor on the shared reference: ${r.sensor}`);
   for (const j of r.jumpers) lines.push(`Jumper: ${jumperWords(j)}`);
   return lines;

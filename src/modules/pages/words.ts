@@ -1,6 +1,6 @@
 /** The shared measurement vocabulary in plain words for the bay screens, and reading values formatted for people. */
 import { formatValue, UNITS, unitsFor, type Unit } from '../../engine/units';
-import type { MeasurementRequest, Point, Quantity } from '../../engine/vocabulary';
+import { sensorInputWords, type MeasurementRequest, type Point, type Quantity } from '../../engine/vocabulary';
 
 const POINT_WORDS: Record<Point, string> = {
   reference: '5 V reference wire',
@@ -107,6 +107,8 @@ export function conditions(request: MeasurementRequest): ConditionWords[] {
     out[3] = { label: request.location === 'sensor_connector' ? 'Sensor connector' : 'Module connector', value: CONNECTOR_WORDS[request.connector] };
     out.push({ label: other, value: CONNECTOR_WORDS[request.otherConnector] });
   }
+  const input = sensorInputWords(request);
+  if (input) out.push({ label: 'Input', value: input });
   for (const j of request.jumpers) {
     const via = j.via.kind === 'fused_jumper' ? 'fused jumper' : j.via.kind === 'resistor' ? `${formatSi(j.via.ohms, 'Ω')} resistor` : `${j.via.volts} V source`;
     out.push({ label: 'Jumper', value: `${POINT_WORDS[j.from]} to ${POINT_WORDS[j.to]} with a ${via}` });
@@ -123,7 +125,8 @@ export function requestLine(request: MeasurementRequest, cavities: Record<string
   const states = request.otherConnector
     ? `${request.location === 'sensor_connector' ? 'sensor' : 'module'} connector ${CONNECTOR_WORDS[request.connector]}, ${request.location === 'sensor_connector' ? 'module' : 'sensor'} connector ${CONNECTOR_WORDS[request.otherConnector]}`
     : CONNECTOR_WORDS[request.connector];
-  return `${QUANTITY_WORDS[request.quantity]}: ${how}, ${where}, key ${request.key}, engine ${ENGINE_WORDS[request.engine]}, ${states}`;
+  const input = sensorInputWords(request);
+  return `${QUANTITY_WORDS[request.quantity]}: ${how}, ${where}, key ${request.key}, engine ${ENGINE_WORDS[request.engine]}, ${states}${input ? `, ${input}` : ''}`;
 }
 
 /** Units the number pad offers for a quantity (scan values: the common ones first). */

@@ -5,6 +5,8 @@
 import { describe, expect, it } from 'vitest';
 import { defaultCircuit, predictReading, sampleReadings, type CircuitSpec, type FaultSpec } from '../../../src/engine/circuit';
 import type { MeasurementRequest } from '../../../src/engine/vocabulary';
+import { issueCode, MeasurementRequestSchema } from '../../../src/engine/request-schema';
+import { requestKey } from '../../../src/engine/diagnosis/request-key';
 
 const backprobe: MeasurementRequest = { quantity: 'dc_volts', at: 'signal', against: 'battery_negative', location: 'sensor_connector', connector: 'backprobed', key: 'on', engine: 'off', jumpers: [] };
 const threeWire = (change: (c: CircuitSpec) => void = () => undefined): CircuitSpec => {
@@ -91,5 +93,30 @@ describe('the signal with the sensor’s input moved', () => {
     const r = predictReading(circuit, [], { ...backprobe, ...change });
     expect(r.ok).toBe(false);
     if (!r.ok) expect(r.findings[0]).toMatchObject({ code, path: 'request.sensorInput' });
+  });
+});
+
+describe('the sensor’s input in the request: schema and key', () => {
+  it.each<[string, Record<string, unknown>, string | undefined]>([
+    ['an old request without the field is valid', {}, undefined],
+    ['the input at rest, said', { sensorInput: 'at_rest' }, undefined],
+    ['the throttle pressed fully, key on engine off', { sensorInput: 'moved' }, undefined],
+    ['a pressure sensor at idle, engine running', { sensorInput: 'moved', engine: 'running' }, undefined],
+    ['an input state the vocabulary does not have', { sensorInput: 'pressed' }, 'invalid_value'],
+    // Common practice, no source: a throttle held fully open while cranking cuts fuel on many engines.
+    ['the input moved while cranking', { sensorInput: 'moved', engine: 'cranking' }, 'request.input_moved_while_cranking'],
+  ])('%s', (_name, change, code) => {
+    const parsed = MeasurementRequestSchema.safeParse({ ...backprobe, ...change });
+    if (code === undefined) expect(parsed.success, JSON.stringify(parsed.error?.issues)).toBe(true);
+    else {
+      expect(parsed.success).toBe(false);
+      const issue = parsed.error!.issues.find((i) => i.path.join('.') === 'sensorInput');
+      expect(issue && issueCode(issue)).toBe(code);
+    }
+  });
+
+  it('keys an old request and one at rest alike, and one with the input moved apart', () => {
+    expect(requestKey({ ...backprobe, sensorInput: 'at_rest' })).toBe(requestKey(backprobe));
+    expect(requestKey({ ...backprobe, sensorInput: 'moved' })).not.toBe(requestKey(backprobe));
   });
 });
