@@ -47,9 +47,13 @@ function potSegments(track: number, position: number): [number, number] {
   return [Math.max(track * (1 - position), MIN_SEGMENT_OHMS), Math.max(track * position, MIN_SEGMENT_OHMS)];
 }
 
-/** Where a wiper goes with the pedal or throttle pressed fully: the far end of the track from where it rests. */
-const FULL_TRAVEL_FROM_LOW_REST = 0.85;
-const FULL_TRAVEL_FROM_HIGH_REST = 0.15;
+/**
+ * Where a wiper goes with the pedal or throttle pressed fully: the far end of the track from where it rests, 0.76 to
+ * 0.96 of it (common practice, no source: a wide-open throttle reads about 3.8 to 4.8 V on a 5 V reference).
+ */
+const FULL_TRAVEL_FROM_LOW_REST = 0.86;
+const FULL_TRAVEL_FROM_HIGH_REST = 0.14;
+const FULL_TRAVEL_SPREAD = 0.1;
 /** Manifold pressure at idle, kPa: 19 inHg of vacuum under a 101.3 kPa barometer (common practice, no source). */
 export const IDLE_MANIFOLD_KPA = 35;
 
@@ -109,7 +113,9 @@ const potentiometer: SensorBehaviour<PotentiometerSpec> = {
   },
   sample(s, tolerance, u, out) {
     const track = s.trackOhms * (1 + 0.2 * u());
-    const [high, low] = potSegments(track, clamp(s.position + tolerance * u(), 0, 1));
+    // Pressed fully, where the pedal stops varies far more than where it rests.
+    const spread = s.restPosition === undefined ? tolerance : Math.max(tolerance, FULL_TRAVEL_SPREAD);
+    const [high, low] = potSegments(track, clamp(s.position + spread * u(), 0, 1));
     out.set('sensor.track_high.ohms', high);
     out.set('sensor.track_low.ohms', low);
   },
