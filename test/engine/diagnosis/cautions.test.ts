@@ -127,7 +127,7 @@ describe('the running-engine cautions on every test of every built-in tree', () 
     ['a test with the engine running', 'running'],
   ])('refuses %s that does not list them, with a coded finding at its cautions', (_name, engine) => {
     const doc = structuredClone(documents.find((d) => d.id === 'three-wire-5v')!);
-    const i = doc.tests.findIndex((t) => t.id === 'reference_backprobed');
+    const i = doc.tests.findIndex((t) => t.id === 'signal_backprobed');
     doc.tests[i]!.request = { ...doc.tests[i]!.request, engine };
     doc.tests[i]!.cautions = doc.tests[i]!.cautions.filter((c) => c !== 'engine_turning');
     const result = loadTree(doc);
