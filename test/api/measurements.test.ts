@@ -91,7 +91,7 @@ describe.each(BACKENDS)('circuits and measurements over HTTP on the %s database'
   });
 
   it.each([
-    ['an input state the vocabulary does not have', { sensorInput: 'half_way' }, 'invalid_value'],
+    ['an input state the vocabulary does not have', { sensorInput: 'half_way' }, 'body.invalid_value'],
     ['the input moved while the engine cranks', { sensorInput: 'moved', engine: 'cranking' }, 'request.input_moved_while_cranking'],
   ])('refuses %s with a 400 naming body.sensorInput', async (_name, overrides, code) => {
     const res = await post(reading({ value: 4.2, ...overrides }));
