@@ -4,7 +4,7 @@
  */
 import { z } from 'zod';
 import { sensorPinsProblems, type SensorPinsShape } from './sensor-pins';
-import { CONNECTOR_STATES, ENGINE_STATES, KEY_STATES, LOCATIONS, POINTS, QUANTITIES } from './vocabulary';
+import { CONNECTOR_STATES, ENGINE_STATES, KEY_STATES, LOCATIONS, POINTS, QUANTITIES, SENSOR_INPUTS } from './vocabulary';
 
 export const PointSchema = z.enum(POINTS);
 
@@ -42,12 +42,16 @@ export const measurementRequestFields = {
   otherConnector: z.enum(CONNECTOR_STATES).optional().describe('state of the other connector (not at location); omit for plugged'),
   key: z.enum(KEY_STATES),
   engine: z.enum(ENGINE_STATES),
+  sensorInput: z
+    .enum(SENSOR_INPUTS, { error: 'sensorInput is at_rest or moved (throttle or pedal pressed fully and held; a pressure sensor: engine running at idle)' })
+    .optional()
+    .describe('the sensor\'s input while reading: moved = throttle or pedal pressed fully and held (key on, engine off), or for a pressure sensor the engine running at idle; omit for at rest'),
   jumpers: z.array(JumperSchema).max(4, 'at most 4 jumpers').default([]),
   pid: label('a PID', '"11" or a short parameter name').max(32).optional().describe('scan_value only: the parameter read, e.g. an SAE J1979 PID'),
   sensor: label('a sensor name', '"MAP" or "all"').optional().describe('on a shared 5 V reference: which sensor the reading concerns, or "all"'),
 };
 
-type RequestShape = SensorPinsShape & { pid?: string; key: string; engine: string };
+type RequestShape = SensorPinsShape & { pid?: string; key: string; engine: string; sensorInput?: string };
 
 const FIXED_POINTS = ['battery_negative', 'battery_positive', 'chassis_ground'];
 
@@ -60,6 +64,9 @@ function rule(ctx: z.RefinementCtx, code: string, field: string, message: string
 export function refineMeasurementRequest(r: RequestShape, ctx: z.RefinementCtx): void {
   for (const p of sensorPinsProblems(r)) rule(ctx, p.code, p.field, p.message);
   if (r.key === 'off' && r.engine !== 'off') rule(ctx, 'request.engine_without_key', 'engine', `the engine cannot be ${r.engine} with the key off`);
+  // A throttle held fully open while cranking is many modules' signal to cut fuel (clearing a flooded engine).
+  if (r.sensorInput === 'moved' && r.engine === 'cranking')
+    rule(ctx, 'request.input_moved_while_cranking', 'sensorInput', 'the input is moved with the key on and the engine off (throttle or pedal), or at idle (pressure): not while cranking');
   // An ohmmeter reads its own test current; on a powered circuit the number means nothing (and can harm the meter).
   if (r.quantity === 'ohms' && r.key === 'on') rule(ctx, 'request.ohms_powered', 'key', 'an ohms reading is taken with the key off, on an unpowered circuit');
   if (r.quantity === 'scan_value') {

@@ -29,3 +29,15 @@ export function sensorTerm(text: string): SensorTerm | undefined {
   const head = text.trim().split(/[\s_-]+/)[0]?.toUpperCase() ?? '';
   return SENSOR_TERMS.find((s) => s.term === head);
 }
+
+/** Sensors whose input the throttle or pedal moves with the engine stopped (key on): position sensors. */
+const PEDAL_MOVED_TERMS: readonly string[] = ['TP', 'APP'];
+
+/**
+ * Whether pressing the throttle or pedal moves this sensor's input: true for TP and APP, false for any other known
+ * SAE J1930 sensor (a pressure sensor moves only with the engine running), undefined when the name is not a term.
+ */
+export function pedalMovesInput(sensor: string | undefined): boolean | undefined {
+  const term = sensor === undefined ? undefined : sensorTerm(sensor);
+  return term ? PEDAL_MOVED_TERMS.includes(term.term) : undefined;
+}

@@ -41,6 +41,20 @@ export type KeyState = (typeof KEY_STATES)[number];
 export const ENGINE_STATES = ['off', 'cranking', 'running'] as const;
 export type EngineState = (typeof ENGINE_STATES)[number];
 
+/**
+ * What the sensor senses while the reading is taken: left at rest (throttle closed, pedal released, engine stopped),
+ * or moved to the other end of its range and held there (throttle or pedal pressed fully, key on engine off; for a
+ * manifold pressure sensor, the engine running at idle gives manifold vacuum). Absent: at rest.
+ */
+export const SENSOR_INPUTS = ['at_rest', 'moved'] as const;
+export type SensorInput = (typeof SENSOR_INPUTS)[number];
+
+/** What to do with the sensor's input, in plain words for the bay and the proof (nothing when it stays at rest). */
+export function sensorInputWords(request: Pick<MeasurementRequest, 'sensorInput' | 'engine'>): string | undefined {
+  if (request.sensorInput !== 'moved') return undefined;
+  return request.engine === 'running' ? 'engine running at idle (manifold vacuum)' : 'press the throttle fully and hold';
+}
+
 /** What a jumper carries: a fused wire, a resistor of given ohms, or a variable voltage source of given volts. */
 export type JumperVia =
   | { kind: 'fused_jumper' }
@@ -72,6 +86,8 @@ export interface MeasurementRequest {
   otherConnector?: ConnectorState;
   key: KeyState;
   engine: EngineState;
+  /** The sensor's input while reading (see SENSOR_INPUTS); absent: at rest. */
+  sensorInput?: SensorInput;
   jumpers: Jumper[];
   /** For `scan_value`: the parameter read, e.g. an SAE J1979 PID such as "11" or a free name. */
   pid?: string;

@@ -3,7 +3,7 @@
  * no locale), so the same view always prints the same words.
  */
 import { formatValue } from '../engine/units';
-import { CONNECTOR_OF, OTHER_CONNECTOR, type HarnessLocation, type Jumper, type JumperVia, type MeasurementRequest, type Point } from '../engine/vocabulary';
+import { CONNECTOR_OF, OTHER_CONNECTOR, sensorInputWords, type HarnessLocation, type Jumper, type JumperVia, type MeasurementRequest, type Point } from '../engine/vocabulary';
 import { canonicalJson } from './digest';
 import { printBound } from './units';
 import type { ExpectedRange, ProofView } from './view';
@@ -98,6 +98,8 @@ export function conditionLines(r: MeasurementRequest): string[] {
     lines.push(`${QUANTITY_WORDS[r.quantity]}: red lead at ${POINT_WORDS[r.at]}${far ? ` at the ${LOCATION_WORDS[CONNECTOR_OF[r.location]]}` : ''}, black at ${POINT_WORDS[r.against ?? r.at]}${far}`);
   }
   if (r.otherConnector) lines.push(`${LOCATION_WORDS[OTHER_CONNECTOR[r.location]].replace(/^./, (c) => c.toUpperCase())}: ${r.otherConnector === 'backprobed' ? 'back-probed' : r.otherConnector === 'unplugged' ? 'unplugged' : 'plugged in'}`);
+  const input = sensorInputWords(r);
+  if (input) lines.push(`Input: ${input.replace(/^./, (c) => c.toUpperCase())}`);
   if (r.sensor) lines.push(`Sensor on the shared reference: ${r.sensor}`);
   for (const j of r.jumpers) lines.push(`Jumper: ${jumperWords(j)}`);
   return lines;

@@ -79,6 +79,28 @@ describe.each(BACKENDS)('circuits and measurements over HTTP on the %s database'
     expect(same.body.error.findings[0].path).toBe('body.against');
   });
 
+  it('records a reading with the throttle pressed fully and held, lists it as posted, and reads an old request as at rest', async () => {
+    const res = await post(reading({ value: 4.21, sensorInput: 'moved' }));
+    expect(res.status).toBe(201);
+    expect(res.body.request).toMatchObject({ at: 'signal', engine: 'off', sensorInput: 'moved' });
+    const items = (await api.call('GET', `/api/repair-orders/${roId}/measurements`, { user: TECH_A })).body.items;
+    expect(items.find((m: { id: string }) => m.id === res.body.id).request).toEqual(res.body.request);
+    const rest = await post(reading({ value: 0.76 }));
+    expect(rest.status).toBe(201);
+    expect(rest.body.request.sensorInput).toBeUndefined();
+  });
+
+  it.each([
+    ['an input state the vocabulary does not have', { sensorInput: 'half_way' }, 'body.invalid_value'],
+    ['the input moved while the engine cranks', { sensorInput: 'moved', engine: 'cranking' }, 'request.input_moved_while_cranking'],
+  ])('refuses %s with a 400 naming body.sensorInput', async (_name, overrides, code) => {
+    const res = await post(reading({ value: 4.2, ...overrides }));
+    expect(res.status).toBe(400);
+    const hit = res.body.error.findings.find((f: { path: string }) => f.path === 'body.sensorInput');
+    expect(hit, JSON.stringify(res.body.error.findings)).toMatchObject({ code });
+    expect(hit.message).toMatch(/sensorInput|input/);
+  });
+
   it('answers a reading on an order under diagnosis exactly as it lists it afterwards (a jumper, an over-range reading)', async () => {
     // A first reading puts the order under diagnosis, if an earlier test has not.
     expect((await post(reading({ clientKey: 'as-listed-0' }))).status).toBe(201);

@@ -40,6 +40,13 @@ describe('the html template', () => {
     expect(requestLine({ ...request, otherConnector: 'plugged' })).toContain('sensor unplugged, module connector plugged in');
   });
 
+  it('says plainly to press the throttle fully and hold when a test moves the input, and nothing when it stays at rest', () => {
+    const request: MeasurementRequest = { quantity: 'dc_volts', at: 'signal', against: 'battery_negative', location: 'sensor_connector', connector: 'backprobed', key: 'on', engine: 'off', sensorInput: 'moved', jumpers: [] };
+    expect(conditions(request)).toContainEqual({ label: 'Input', value: 'press the throttle fully and hold' });
+    expect(requestLine(request)).toMatch(/press the throttle fully and hold$/);
+    expect(conditions({ ...request, sensorInput: undefined }).map((c) => c.label)).not.toContain('Input');
+  });
+
   it('keeps nested templates and raw markup as they are, joins lists and drops null, undefined and booleans', () => {
     const items = ['a<', 'b'].map((s) => html`<li>${s}</li>`);
     expect(html`<ul>${items}</ul>${raw('<hr>')}${null}${undefined}${false}${0}`.value).toBe('<ul><li>a&lt;</li><li>b</li></ul><hr>0');

@@ -42,6 +42,11 @@ export function batteryVolts(circuit: CircuitSpec, conditions: Conditions): numb
   return conditions.key === 'off' ? circuit.battery.keyOffVolts : circuit.battery.volts[conditions.engine];
 }
 
+/** The 5 V output of a regulator that has dropped out: the battery less its headroom, never above its set point. */
+export function droppedOutVolts(reg: Pick<CircuitSpec['module']['regulator'], 'volts' | 'minInputVolts'>, battery: number): number {
+  return Math.max(0, Math.min(reg.volts, battery - Math.max(0, reg.minInputVolts - reg.volts)));
+}
+
 const BIAS_BUILDERS: { [K in BiasSpec['kind']]: (netlist: Netlist, bias: Extract<BiasSpec, { kind: K }>) => void } = {
   pull_up: (netlist, bias) =>
     netlist.add({ id: 'bias_r', kind: 'resistor', nodes: [MODULE_PIN.reference, MODULE_PIN.signal], value: bias.ohms, param: { key: 'bias.ohms', scale: 1 } }),
@@ -60,13 +65,14 @@ function buildModule(netlist: Netlist, circuit: CircuitSpec, conditions: Conditi
     netlist.add({ id: 'module_supply_r', kind: 'resistor', nodes: [BATTERY_POSITIVE_NODE, MODULE_GROUND_NODE], value: battery / module.supplyAmps, param: { key: 'module.supply.ohms', scale: 1 } });
   }
   if (conditions.key === 'on') {
-    // Regulates while the battery stays above its drop-out; cranking at ~10 V still gives 5 V.
+    // Regulates while the battery stays above its drop-out; cranking at ~10 V still gives 5 V. Below it the output
+    // follows the battery less the headroom the regulator needs.
     const regulating = battery >= reg.minInputVolts;
     netlist.add({
       id: 'regulator',
       kind: 'vsource',
       nodes: ['reg', MODULE_GROUND_NODE],
-      value: regulating ? reg.volts : Math.max(0, Math.min(reg.volts, battery - 1)),
+      value: regulating ? reg.volts : droppedOutVolts(reg, battery),
       ...(regulating ? { param: { key: 'regulator.volts', scale: 1 } } : {}),
     });
     netlist.add({ id: 'regulator_r', kind: 'resistor', nodes: ['reg', MODULE_PIN.reference], value: reg.outputOhms });

@@ -15,7 +15,7 @@ import type { FaultSpec, RegulatorSpec } from './types';
 export interface CauseAlternative {
   weight: number;
   faults: FaultSpec[];
-  regulator?: Partial<Pick<RegulatorSpec, 'currentLimitAmps' | 'outputOhms'>>;
+  regulator?: Partial<Pick<RegulatorSpec, 'currentLimitAmps' | 'outputOhms' | 'minInputVolts'>>;
   spreads?: Partial<Spreads>;
   /** Only on these circuit kinds (every kind when unset). */
   kinds?: CircuitKind[];
@@ -63,11 +63,13 @@ type HealthyId = (typeof HEALTHY_IDS)[number];
  * - a high-resistance ground ranges from tens of ohms to a kilohm;
  * - a shorted 5 V reference is hard (up to a few ohms) or partial (tens of ohms), and the module's supply either
  *   holds its voltage or limits its current (about 0.1–0.3 A on a sensor supply), so it reads 0 V to a few volts;
- * - a failed 5 V supply is dead (0 V, or a few hundred millivolts of leakage), regulates low (3–4.5 V), or is weak
- *   and sags under load (output resistance from a few hundred ohms to a few kilohms);
+ * - a failed 5 V supply is dead (0 V, or a few hundred millivolts of leakage), regulates low (3–4.5 V), is weak
+ *   and sags under load (output resistance from a few hundred ohms to a few kilohms), or needs so much headroom
+ *   that it holds 5 V on a 12 V battery and falls as the battery dips while the engine cranks (drop-out at 11.5 V);
  * - a failed module input reads module ground, full scale, or holds any fixed value;
- * - a three-wire sensor faulty inside has an open track, its output stuck at the reference or at ground, or its
- *   wiper lifted off the track (a thermistor: open).
+ * - a three-wire sensor faulty inside has an open track, its output stuck at the reference or at ground, stuck
+ *   where its input rests (it reads right until the pedal or throttle moves), or its wiper lifted off the track
+ *   where it rests (a thermistor: open).
  */
 const THREE_WIRE: CircuitKind[] = ['three_wire_5v'];
 const LIMITED = (amps: number) => ({ currentLimitAmps: amps });
@@ -105,12 +107,14 @@ const CAUSE_ALTERNATIVES: Record<string, CauseAlternative[]> = {
     { weight: 0.2, faults: [], regulator: { outputOhms: 20 }, spreads: { regulatorVolts: [3.0, 4.5] } },
     { weight: 0.2, faults: [{ kind: 'module_internal', variant: 'weak_regulator', ohms: 500 }] },
     { weight: 0.2, faults: [{ kind: 'module_internal', variant: 'weak_regulator', ohms: 2000 }] },
+    { weight: 0.15, faults: [], regulator: { minInputVolts: 11.5 }, kinds: THREE_WIRE },
   ],
   sensor_internal: [
     { weight: 0.4, faults: [{ kind: 'sensor_internal', variant: 'open_track' }] },
     { weight: 0.2, faults: [{ kind: 'sensor_internal', variant: 'stuck', value: 0.995 }], kinds: THREE_WIRE },
     { weight: 0.2, faults: [{ kind: 'sensor_internal', variant: 'stuck', value: 0.005 }], kinds: THREE_WIRE },
     { weight: 0.2, faults: [{ kind: 'sensor_internal', variant: 'worn_spot', value: 1e7 }], kinds: THREE_WIRE },
+    { weight: 0.2, faults: [{ kind: 'sensor_internal', variant: 'stuck', atRest: true }], kinds: THREE_WIRE },
   ],
   module_internal: [
     { weight: 0.35, faults: [{ kind: 'module_internal', variant: 'dead_input' }] },

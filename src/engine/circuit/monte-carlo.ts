@@ -177,7 +177,7 @@ export function sampleReadings(input: SampleInput): SampleResult {
   if (!evaluator.ok) return evaluator;
   const random = mulberry32(input.seed);
   const params = new Float64Array(compiled.paramKeys.length);
-  const draw = paramSampler(input, spreads, compiled.paramKeys, prepared.value.netlist.params(), random);
+  const draw = paramSampler({ ...input, circuit: prepared.value.circuit }, spreads, compiled.paramKeys, prepared.value.netlist.params(), random);
   const quantity = QUANTITY_BEHAVIOURS[input.request.quantity];
   const accuracy = spreads.meterError ? quantity.accuracy(meter) : undefined;
   const values = new Float64Array(input.samples);

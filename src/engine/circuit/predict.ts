@@ -10,6 +10,7 @@ import { applyFaults, validateFaults } from './faults';
 import { attachJumpers } from './jumpers';
 import { QUANTITY_BEHAVIOURS, pointNode, type Evaluator, type Leads } from './measure';
 import { CompiledNetlist, Netlist, solveNodeVoltages } from './netlist';
+import { sensorBehaviour } from './sensors';
 import type { CircuitSpec, FaultSpec, MeterSpec, ReadingUnit } from './types';
 import { validateCircuit, validateMeter, validateRequest } from './validate';
 
@@ -21,22 +22,34 @@ export interface PreparedReading {
   leads?: Leads;
   meter: MeterSpec;
   request: MeasurementRequest;
+  /** The circuit as read: its sensor's input moved when the request says so. */
+  circuit: CircuitSpec;
+}
+
+/** The circuit with its sensor's input where the request puts it (moved, or at rest). */
+export function circuitAsRead(circuit: CircuitSpec, request: MeasurementRequest): Result<CircuitSpec> {
+  if (request.sensorInput !== 'moved') return { ok: true, value: circuit };
+  const moved = sensorBehaviour(circuit.sensor)!.moved(circuit.sensor, request, 'request.sensorInput');
+  return moved.ok ? { ok: true, value: { ...circuit, sensor: moved.value } } : moved;
 }
 
 /** Validates everything and builds the netlist for one reading. */
 export function prepareReading(
-  circuit: CircuitSpec,
+  given: CircuitSpec,
   faults: FaultSpec[],
   request: MeasurementRequest,
   meter: MeterSpec = DEFAULT_METER,
 ): Result<PreparedReading> {
-  const circuitFindings = validateCircuit(circuit);
+  const circuitFindings = validateCircuit(given);
   if (circuitFindings.length) return { ok: false, findings: circuitFindings };
-  const found: Finding[] = [...validateMeter(meter), ...validateFaults(faults, circuit), ...validateRequest(request, circuit)];
+  const found: Finding[] = [...validateMeter(meter), ...validateFaults(faults, given), ...validateRequest(request, given)];
   if (found.length) return { ok: false, findings: found };
   const quantity = QUANTITY_BEHAVIOURS[request.quantity];
   found.push(...quantity.check(request, 'request'));
   if (found.length) return { ok: false, findings: found };
+  const asRead = circuitAsRead(given, request);
+  if (!asRead.ok) return asRead;
+  const circuit = asRead.value;
 
   const netlist = buildNetlist(circuit, request);
   found.push(...applyFaults(netlist, faults, circuit));
@@ -52,7 +65,7 @@ export function prepareReading(
   quantity.attach(netlist, leads, meter);
   netlist.addLeaks(leads ? [leads.at, leads.against] : []);
   limitRegulatorCurrent(netlist, circuit);
-  return { ok: true, value: { netlist, unit: quantity.unit, leads, meter, request } };
+  return { ok: true, value: { netlist, unit: quantity.unit, leads, meter, request, circuit } };
 }
 
 /**

@@ -5,6 +5,7 @@
 import { steinhartHartResistance, betaResistance } from '../calc/thermistor';
 import { checkFinite, checkRange, checkResistance, finding, joinPath, type Finding, type Result } from '../calc/findings';
 import { Netlist } from './netlist';
+import type { MeasurementRequest } from '../vocabulary';
 import type { PotentiometerSpec, PressureSpec, SensorKind, SensorSpec, ThermistorSpec, FaultSpec, ThermistorModel } from './types';
 
 /** Sensor pin nodes (sensor side of the sensor connector). */
@@ -17,6 +18,11 @@ export interface SensorBehaviour<S extends SensorSpec = SensorSpec> {
   build(netlist: Netlist, spec: S): void;
   /** Applies an internal fault, or returns a finding when the variant means nothing for this sensor. */
   applyInternal(netlist: Netlist, spec: S, fault: InternalFault, path: string): Finding[];
+  /**
+   * The sensor with its input moved (see `SensorInput`), or a finding when this sensor's input cannot be moved under
+   * the request's conditions (`path` is the request's `sensorInput`).
+   */
+  moved(spec: S, request: Pick<MeasurementRequest, 'engine'>, path: string): Result<S>;
   /** Draws the sensor's parameters for one Monte Carlo sample; `u()` is uniform on [−1, 1]. */
   sample(spec: S, tolerance: number, u: () => number, out: Map<string, number>): void;
 }
@@ -41,12 +47,33 @@ function potSegments(track: number, position: number): [number, number] {
   return [Math.max(track * (1 - position), MIN_SEGMENT_OHMS), Math.max(track * position, MIN_SEGMENT_OHMS)];
 }
 
+/**
+ * Where a wiper goes with the pedal or throttle pressed fully: the far end of the track from where it rests, 0.76 to
+ * 0.96 of it (common practice, no source: a wide-open throttle reads about 3.8 to 4.8 V on a 5 V reference).
+ */
+const FULL_TRAVEL_FROM_LOW_REST = 0.86;
+const FULL_TRAVEL_FROM_HIGH_REST = 0.14;
+const FULL_TRAVEL_SPREAD = 0.1;
+/** Manifold pressure at idle, kPa: 19 inHg of vacuum under a 101.3 kPa barometer (common practice, no source). */
+export const IDLE_MANIFOLD_KPA = 35;
+
+function setTrack(netlist: Netlist, track: number, position: number): void {
+  const [high, low] = potSegments(track, position);
+  setFixed(netlist, 'track_high', high);
+  setFixed(netlist, 'track_low', low);
+}
+
 const potentiometer: SensorBehaviour<PotentiometerSpec> = {
   validate: (s, path) => [
     ...checkResistance(s.trackOhms, joinPath(path, 'trackOhms'), 'Track resistance', true),
     ...checkRange(s.position, joinPath(path, 'position'), 'Wiper position', 0, 1),
     ...checkResistance(s.wiperOhms, joinPath(path, 'wiperOhms'), 'Wiper resistance', true),
+    ...(s.fullTravelPosition === undefined ? [] : checkRange(s.fullTravelPosition, joinPath(path, 'fullTravelPosition'), 'Full-travel wiper position', 0, 1)),
   ],
+  moved: (s) => ({
+    ok: true,
+    value: { ...s, position: s.fullTravelPosition ?? (s.position <= 0.5 ? FULL_TRAVEL_FROM_LOW_REST : FULL_TRAVEL_FROM_HIGH_REST), restPosition: s.restPosition ?? s.position },
+  }),
   build(netlist, s) {
     const [high, low] = potSegments(s.trackOhms, s.position);
     netlist.add({ id: 'track_high', kind: 'resistor', nodes: [SENSOR_PIN.reference, 'wiper'], value: high, param: { key: 'sensor.track_high.ohms', scale: 1 } });
@@ -58,25 +85,27 @@ const potentiometer: SensorBehaviour<PotentiometerSpec> = {
       open_track: () => (netlist.remove('track_high'), []),
       worn_spot: () => {
         const found = fault.value === undefined ? [] : checkResistance(fault.value, joinPath(path, 'value'), 'Wiper contact resistance', true);
-        if (!found.length) setFixed(netlist, 'wiper_r', fault.value ?? 1e6);
+        // The worn spot is where the wiper rests; moved, it runs on sound track.
+        if (!found.length && s.restPosition === undefined) setFixed(netlist, 'wiper_r', fault.value ?? 1e6);
         return found;
       },
       stuck: () => {
-        if (fault.value !== undefined) {
+        if (fault.value !== undefined && !fault.atRest) {
           const found = checkRange(fault.value, joinPath(path, 'value'), 'Stuck wiper position', 0, 1);
           if (found.length) return found;
         }
-        const [high, low] = potSegments(s.trackOhms, fault.value ?? 0.5);
-        setFixed(netlist, 'track_high', high);
-        setFixed(netlist, 'track_low', low);
+        if (fault.atRest) {
+          // Stuck where it rests: at rest the track keeps its spread, moved it stays at its rest position.
+          if (s.restPosition !== undefined) setTrack(netlist, s.trackOhms, s.restPosition);
+          return [];
+        }
+        setTrack(netlist, s.trackOhms, fault.value ?? 0.5);
         return [];
       },
       skewed: () => {
         const found = fault.value === undefined ? [] : checkRange(fault.value, joinPath(path, 'value'), 'Wiper position skew', -1, 1);
         if (found.length) return found;
-        const [high, low] = potSegments(s.trackOhms, clamp(s.position + (fault.value ?? 0.1), 0, 1));
-        setFixed(netlist, 'track_high', high);
-        setFixed(netlist, 'track_low', low);
+        setTrack(netlist, s.trackOhms, clamp(s.position + (fault.value ?? 0.1), 0, 1));
         return [];
       },
     };
@@ -84,7 +113,9 @@ const potentiometer: SensorBehaviour<PotentiometerSpec> = {
   },
   sample(s, tolerance, u, out) {
     const track = s.trackOhms * (1 + 0.2 * u());
-    const [high, low] = potSegments(track, clamp(s.position + tolerance * u(), 0, 1));
+    // Pressed fully, where the pedal stops varies far more than where it rests.
+    const spread = s.restPosition === undefined ? tolerance : Math.max(tolerance, FULL_TRAVEL_SPREAD);
+    const [high, low] = potSegments(track, clamp(s.position + spread * u(), 0, 1));
     out.set('sensor.track_high.ohms', high);
     out.set('sensor.track_low.ohms', low);
   },
@@ -110,9 +141,15 @@ const pressure: SensorBehaviour<PressureSpec> = {
       ...checkResistance(s.supplyOhms, joinPath(path, 'supplyOhms'), 'Supply resistance', true),
       ...checkResistance(s.outputOhms, joinPath(path, 'outputOhms'), 'Output resistance', true),
     ];
+    if (s.idleKpa !== undefined) found.push(...checkFinite(s.idleKpa, joinPath(path, 'idleKpa'), 'Idle manifold pressure'));
     if (!found.length && c.lowKpa === c.highKpa) found.push(finding('sensor.calibration_points_coincide', joinPath(cp, 'highKpa'), 'The calibration pressures must differ.'));
     return found;
   },
+  // Manifold pressure moves when the engine runs: at idle the manifold is under vacuum.
+  moved: (s, request, path) =>
+    request.engine === 'running'
+      ? { ok: true, value: { ...s, pressureKpa: s.idleKpa ?? IDLE_MANIFOLD_KPA, restKpa: s.restKpa ?? s.pressureKpa } }
+      : { ok: false, findings: [finding('request.input_needs_running_engine', path, 'A pressure sensor\'s input moves with the engine running at idle (manifold vacuum): set engine to running.')] },
   build(netlist, s) {
     netlist.add({ id: 'sensor_supply', kind: 'resistor', nodes: [SENSOR_PIN.reference, SENSOR_PIN.ground], value: s.supplyOhms });
     netlist.add({
@@ -128,6 +165,10 @@ const pressure: SensorBehaviour<PressureSpec> = {
     const variants: Record<string, () => Finding[]> = {
       open_track: () => (netlist.remove('sensor_output_r'), []),
       stuck: () => {
+        if (fault.atRest) {
+          if (_s.restKpa !== undefined) setFixed(netlist, 'sensor_output', pressureFraction({ ..._s, pressureKpa: _s.restKpa }));
+          return [];
+        }
         const found = fault.value === undefined ? [] : checkRange(fault.value, joinPath(path, 'value'), 'Stuck output fraction', 0, 1);
         if (!found.length) setFixed(netlist, 'sensor_output', fault.value ?? 0.5);
         return found;
@@ -177,6 +218,7 @@ const thermistor: SensorBehaviour<ThermistorSpec> = {
     if (!r.ok && !found.length) found.push(...r.findings.map((f) => ({ ...f, path: joinPath(path, f.path.replace(/^coefficients/, 'model')) })));
     return found;
   },
+  moved: (_s, _r, path) => ({ ok: false, findings: [finding('request.input_not_movable', path, 'A thermistor senses temperature: there is no input to move; leave sensorInput out.')] }),
   build(netlist, s) {
     const ohms = thermistorOhms(s.model, s.temperatureC) ?? Number.NaN;
     netlist.add({ id: 'sensor_ntc', kind: 'resistor', nodes: [SENSOR_PIN.signal, SENSOR_PIN.ground], value: ohms, param: { key: 'sensor.ntc.ohms', scale: 1 } });

@@ -31,7 +31,11 @@ export interface RegulatorSpec {
   outputOhms: number;
   /** With the key off the output is unpowered and sits on this resistance to module ground, Ω. */
   offOhms: number;
-  /** Below this battery voltage the regulator drops out (output follows the battery minus 1 V). */
+  /**
+   * Below this battery voltage the regulator drops out: its output follows the battery less the headroom it needs
+   * (`minInputVolts − volts`, 1 V for a 5 V output that needs 6 V). A failing supply that needs more headroom holds
+   * 5 V at 12 V but falls while the engine cranks.
+   */
   minInputVolts: number;
   /** Most current the 5 V output delivers; above it the output sags to hold this current, A (absent: no limit). */
   currentLimitAmps?: number;
@@ -57,6 +61,10 @@ export interface PotentiometerSpec {
   /** Wiper position as a fraction of the track from the ground end (0…1). */
   position: number;
   wiperOhms: number;
+  /** Wiper position with the input moved fully (pedal or throttle pressed); absent: 0.85 from a rest below mid-track, else 0.15. */
+  fullTravelPosition?: number;
+  /** Set by the model when the input is moved: where the wiper sits at rest (a stuck or worn sensor stays there). */
+  restPosition?: number;
 }
 
 /** Linear three-wire pressure sensor: ratiometric output stage behind an output resistance. */
@@ -68,6 +76,10 @@ export interface PressureSpec {
   /** The supply current draw, modelled as this resistance from reference pin to ground pin, Ω. */
   supplyOhms: number;
   outputOhms: number;
+  /** Manifold pressure with the engine running at idle (the input moved), kPa; absent: 35 kPa. */
+  idleKpa?: number;
+  /** Set by the model when the input is moved: the pressure at rest (a stuck sensor stays there). */
+  restKpa?: number;
 }
 
 export type ThermistorModel =
@@ -105,7 +117,8 @@ export type FaultSpec =
   | { kind: 'short_to_voltage'; wire: WireRole; ohms?: number }
   | { kind: 'short_between'; wires: [WireRole, WireRole]; ohms?: number }
   | { kind: 'high_resistance'; wire: WireRole; ohms: number }
-  | { kind: 'sensor_internal'; variant: SensorInternalVariant; value?: number }
+  /** `atRest` (stuck only): the output stays where the input sits at rest, whatever `value` says. */
+  | { kind: 'sensor_internal'; variant: SensorInternalVariant; value?: number; atRest?: boolean }
   | { kind: 'module_internal'; variant: ModuleInternalVariant; ohms?: number; volts?: number }
   /** The module's own ground strap or splice resistive: its ground, and every reading against it, rises by I × R. */
   | { kind: 'module_ground_resistance'; ohms: number }
@@ -117,8 +130,9 @@ export type FaultKind = FaultSpec['kind'];
  * `open_track`: the track/element/output stage is open. `worn_spot` (potentiometer): the wiper lost contact at its
  * position (`value` = contact resistance, default 1 MΩ). `stuck`: the output no longer follows the measurand
  * (`value` = wiper position 0…1, default 0.5; output fraction 0…1, default 0.5; or thermistor temperature °C,
- * default 40). `shorted` (pressure, thermistor): output/element shorted to the ground pin (`value` Ω, default 1).
+ * default 40; with `atRest`, where the input sits at rest, so it reads right until the input moves). `shorted` (pressure, thermistor): output/element shorted to the ground pin (`value` Ω, default 1).
  * `skewed`: reads in range but wrong by `value` (wiper position or output fraction +0.1, or thermistor +20 °C, by default).
+ * A worn spot is where the wiper rests: with the input moved the wiper is on sound track again.
  */
 export const SENSOR_INTERNAL_VARIANTS = ['open_track', 'worn_spot', 'stuck', 'shorted', 'skewed'] as const;
 export type SensorInternalVariant = (typeof SENSOR_INTERNAL_VARIANTS)[number];

@@ -10,6 +10,7 @@ import {
   LOCATIONS,
   POINTS,
   QUANTITIES,
+  SENSOR_INPUTS,
   type CircuitKind,
   type MeasurementRequest,
   type Point,
@@ -134,6 +135,7 @@ export function validateRequest(request: MeasurementRequest, circuit: CircuitSpe
     ...oneOf(request.key, KEY_STATES, joinPath(path, 'key'), 'request.unknown_key_state'),
     ...oneOf(request.engine, ENGINE_STATES, joinPath(path, 'engine'), 'request.unknown_engine_state'),
     ...sensorPinsProblems(request).map((p) => finding(p.code, joinPath(path, p.field), `${p.message.replace(/^./, (c) => c.toUpperCase())}.`)),
+    ...(request.sensorInput === undefined ? [] : oneOf(request.sensorInput, SENSOR_INPUTS, joinPath(path, 'sensorInput'), 'request.unknown_sensor_input')),
   ];
   if (request.key === 'off' && request.engine !== 'off' && ENGINE_STATES.includes(request.engine)) {
     found.push(finding('request.engine_without_key', joinPath(path, 'engine'), `The engine cannot be ${request.engine} with the key off.`));

@@ -11,6 +11,7 @@ import { contradictingReadings, posterior, readingFactors } from './posterior';
 import { argmax, type PolicyModel, type PolicyState } from './policy';
 import { checkReadingShapes, checkRepairs, verdictOf, type CheckedReading, type ReadingContext } from './reading-checks';
 import { jumperSafety } from './safety-rules';
+import { pedalMovesInput } from '../sensors';
 import { decide, type ResolvedOptions, type TestProgress } from './status-rules';
 import { weighCodes } from './code-evidence';
 import { undecided } from './undecided';
@@ -189,6 +190,14 @@ export async function runDiagnosis(untouched: Tree, readings: readonly Reading[]
   const safety = jumperSafety(tree, ctx.readings, ctx.repairs, done);
   for (const t of safety.closed) if (done[t] === -1) done[t] = -2;
   findings.push(...safety.findings);
+  // Pressing the pedal with the engine stopped moves nothing on a sensor the pedal does not drive (a MAP sensor).
+  if (pedalMovesInput(codes?.sensor) === false)
+    for (const t of tree.tests)
+      if (t.request.sensorInput === 'moved' && t.request.engine === 'off' && done[t.index] === -1) {
+        done[t.index] = -2;
+        safety.blocked.add(t.index);
+        findings.push(finding('diagnosis.input_not_moved_by_pedal', `tests[${t.index}]`, `"${t.label}" is not proposed: the pedal does not move the input of a ${codes!.sensor} sensor`, 'info'));
+      }
   const state: PolicyState = { p: post.p, done, paid };
   const replacements = new Set(ctx.readings.flatMap((r) => (r.supersededBy && ctx.byId.has(r.supersededBy) ? [r.supersededBy] : [])));
   const readingIndex = new Map(ctx.readings.map((r) => [r.id, r.inputIndex]));

@@ -33,6 +33,8 @@ export function settledTests(tree: Tree, d: Diagnosis, maxAttempts = 2): Set<str
   const tries = new Map<string, number>();
   for (const e of d.path) if (e.verdict === 'indeterminate') tries.set(e.testId!, (tries.get(e.testId!) ?? 0) + 1);
   for (const [id, n] of tries) if (n >= maxAttempts) done.add(id);
+  // A test that means nothing on this circuit (the pedal does not move its sensor) is settled for baselines too.
+  for (const f of d.findings) if (f.code === 'diagnosis.input_not_moved_by_pedal') done.add(tree.tests[Number(/\d+/.exec(f.path)![0])]!.id);
   return done;
 }
 

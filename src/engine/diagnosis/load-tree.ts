@@ -67,7 +67,8 @@ function compileTest(t: TestDocument, index: number, doc: TreeDocument, setups: 
   const safety = preconditionText(requires, t.request.location);
   const intervals = t.outcomes.map((o) => conditionInterval(o.condition));
   const predictive = t.predictive && intervals.every((r) => r) ? compilePredictive(t.predictive, t, doc, latent, nClasses, intervals.map((r) => r!)) : undefined;
-  const crankable = t.request.quantity === 'scan_value' && t.request.key === 'on' && t.request.engine === 'off';
+  // Not with the input moved: a throttle held open while cranking cuts fuel on many engines.
+  const crankable = t.request.quantity === 'scan_value' && t.request.key === 'on' && t.request.engine === 'off' && t.request.sensorInput !== 'moved';
   const crankRequest = crankable ? withConditions(t.request, { engine: 'cranking' }) : undefined;
   return {
     index,

@@ -1,6 +1,6 @@
 /**
  * Canonical keys for measurement requests: a reading answers a test when the two requests have the same key
- * (quantity, at, against, location, connector, key, engine, jumpers, pid). Jumper order does not matter.
+ * (quantity, at, against, location, connector, key, engine, the sensor's input, jumpers, pid). Jumper order does not matter.
  */
 import type { Jumper, MeasurementRequest } from '../vocabulary';
 
@@ -32,6 +32,8 @@ export function requestKey(request: TreeRequest): string {
     otherConnector: request.otherConnector,
     key: request.key,
     engine: request.engine,
+    // At rest is the default: an old request without the field and one that says at_rest are the same reading.
+    sensorInput: request.sensorInput === 'moved' ? 'moved' : undefined,
     jumpers: [...(request.jumpers ?? [])].map(jumperKey).sort(),
     pid: request.pid,
     sensor: request.sensor,

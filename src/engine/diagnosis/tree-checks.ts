@@ -17,6 +17,9 @@ interface TreeCheck {
   relaxedWhenStored?: boolean;
 }
 
+const RUNNING_ENGINE: readonly string[] = ['cranking', 'running'];
+const ENGINE_TURNING = 'engine_turning';
+
 function duplicates(ids: string[]): Array<[string, number]> {
   const seen = new Set<string>();
   return ids.flatMap((id, i) => (seen.has(id) ? [[id, i] as [string, number]] : (seen.add(id), [])));
@@ -65,6 +68,24 @@ export const TREE_CHECKS: readonly TreeCheck[] = [
         ...t.cautions.flatMap((c, j) => (cautionKind(c) ? [] : [finding('tree.unknown_caution', joinPath('tests', i, 'cautions', j), `no caution with id "${c}"`)])),
       ]);
     },
+  },
+  {
+    // Any test with the engine cranking or running says so on its own: loading would add the caution, but a tree that
+    // forgot it was written without the running engine in mind.
+    name: 'running-engine cautions',
+    relaxedWhenStored: true,
+    run: (doc) =>
+      doc.tests.flatMap((t, i) =>
+        RUNNING_ENGINE.includes(t.request.engine) && !t.cautions.includes(ENGINE_TURNING)
+          ? [
+              finding(
+                'tree.running_engine_caution_missing',
+                joinPath('tests', i, 'cautions'),
+                `test "${t.id}" has the engine ${t.request.engine}: list the "${ENGINE_TURNING}" caution (exhaust ventilated, parking brake set, transmission in park or neutral, hands, leads and clothing clear of belts and fans)`,
+              ),
+            ]
+          : [],
+      ),
   },
   {
     name: 'outcome conditions',

@@ -32,6 +32,7 @@ export class MeasurementsRepository extends PrismaRepository {
         otherConnector: true,
         key: true,
         engine: true,
+        sensorInput: true,
         pid: true,
         sensor: true,
         jumpers: true,

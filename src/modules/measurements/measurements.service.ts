@@ -48,6 +48,7 @@ function rowFor(m: MeasurementInput, repairOrderId: string, takenById: string, n
     otherConnector: m.otherConnector ?? null,
     key: m.key,
     engine: m.engine,
+    sensorInput: m.sensorInput ?? null,
     jumpers: m.jumpers,
     pid: m.pid ?? null,
     sensor: m.sensor ?? null,

@@ -12,6 +12,7 @@ export function requestOf(m: MeasurementRow): MeasurementRequest {
     ...(m.otherConnector ? { otherConnector: m.otherConnector } : {}),
     key: m.key,
     engine: m.engine,
+    ...(m.sensorInput ? { sensorInput: m.sensorInput } : {}),
     jumpers: m.jumpers as unknown as Jumper[],
     ...(m.pid ? { pid: m.pid } : {}),
     ...(m.sensor ? { sensor: m.sensor } : {}),

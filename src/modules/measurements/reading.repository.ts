@@ -119,11 +119,11 @@ export class ReadingRepository extends PrismaRepository {
       added AS (
         INSERT INTO "Measurement" ("id", "repairOrderId", "circuitId", "quantity", "at", "against", "location", "connector", "key",
           "engine", "jumpers", "pid", "sensor", "valueEntered", "unitEntered", "valueSi", "overload", "siUnit", "meterOhms", "phase",
-          "note", "supersedesId", "clientKey", "takenById", "takenAt", "againstLocation", "otherConnector")
+          "note", "supersedesId", "clientKey", "takenById", "takenAt", "againstLocation", "otherConnector", "sensorInput")
         SELECT $8::uuid, still."id", $9::uuid, $10::"Quantity", $11::"ProbePoint", $12::"ProbePoint", $13::"ProbeLocation",
           $14::"ConnectorState", $15::"KeyState", $16::"EngineState", $17::jsonb, $18::varchar, $19::varchar, $20::float8, $21::varchar,
           $22::float8, $23::boolean, $24::varchar, $25::float8, $26::"Phase", $27::text, NULL, $28::varchar, $7::uuid, $29::timestamptz,
-          $31::"ProbeLocation", $32::"ConnectorState"
+          $31::"ProbeLocation", $32::"ConnectorState", $33::"SensorInput"
         FROM still
         RETURNING *
       ),
@@ -147,7 +147,7 @@ export class ReadingRepository extends PrismaRepository {
         id, data.circuitId, data.quantity, data.at, data.against, data.location, data.connector, data.key, data.engine,
         JSON.stringify(data.jumpers), data.pid, data.sensor, data.valueEntered, data.unitEntered, data.valueSi, data.overload,
         data.siUnit, data.meterOhms, data.phase, data.note, data.clientKey, data.takenAt, history,
-        data.againstLocation, data.otherConnector,
+        data.againstLocation, data.otherConnector, data.sensorInput,
       ],
     );
     const r = rows[0];

@@ -7,6 +7,7 @@ import { html, jsonAttr, type SafeHtml } from './html';
 import { ICON, page } from './layout.view';
 import { cautionList, conclusionCard, diagnosisStatus, pathList, proofLink, rankedCauses, statusTag } from './parts.view';
 import { requestKey } from '../../engine/diagnosis';
+import { sensorInputWords } from '../../engine/vocabulary';
 import { conditions, formatEntered, leads, PART_WORDS, padUnits, percent, predictedRange } from './words';
 import { repairable } from './diagnosis-state';
 import { codesWeighedPanel, returnedCodesNotice } from './codes.view';
@@ -25,6 +26,7 @@ const GENERAL_CAUTIONS = new Set(['service_information']);
 function instructions(entry: Entry, c: CircuitDiagnosis, next: NextTest | null): SafeHtml {
   const l = leads(entry.request, c.circuit.cavities);
   const scan = entry.request.quantity === 'scan_value';
+  const input = sensorInputWords(entry.request);
   const useNext = next && entry.mode !== 'correct' && entry.mode !== 'verify' ? next : null;
   // Corrections and verification readings repeat a test of the tree: show its own steps and cautions.
   const known = useNext ?? c.howTo.get(requestKey(entry.request)) ?? null;
@@ -42,6 +44,7 @@ function instructions(entry: Entry, c: CircuitDiagnosis, next: NextTest | null):
           ? html`<p class="notice lead-where lead-on-sensor">${ICON.flag} ${l.where}</p>`
           : html`<p class="muted lead-where">${l.where}</p>`
       }
+      ${input ? html`<p class="lead-line input-moved"><strong>${input.replace(/^./, (ch) => ch.toUpperCase())}</strong> while you read.</p>` : ''}
     </div>
     <dl class="conditions">${conditions(entry.request).map((x) => html`<div class="condition"><dt>${x.label}</dt><dd>${x.value}</dd></div>`)}</dl>
     ${general.map((g) => html`<p class="caution-general">${ICON.caution} ${g.text}</p>`)}

@@ -1,6 +1,6 @@
 /** The shared measurement vocabulary in plain words for the bay screens, and reading values formatted for people. */
 import { formatValue, UNITS, unitsFor, type Unit } from '../../engine/units';
-import { CONNECTOR_OF, OTHER_CONNECTOR, type MeasurementRequest, type Point, type Quantity } from '../../engine/vocabulary';
+import { CONNECTOR_OF, OTHER_CONNECTOR, sensorInputWords, type MeasurementRequest, type Point, type Quantity } from '../../engine/vocabulary';
 
 const POINT_WORDS: Record<Point, string> = {
   reference: '5 V reference wire',
@@ -117,6 +117,8 @@ export function conditions(request: MeasurementRequest): ConditionWords[] {
     if (request.location !== 'sensor_pins') out[3] = { label: CONNECTOR_NAMES[CONNECTOR_OF[request.location]], value: CONNECTOR_WORDS[request.connector] };
     out.push({ label: CONNECTOR_NAMES[OTHER_CONNECTOR[request.location]], value: CONNECTOR_WORDS[request.otherConnector] });
   }
+  const input = sensorInputWords(request);
+  if (input) out.push({ label: 'Input', value: input });
   for (const j of request.jumpers) {
     const via = j.via.kind === 'fused_jumper' ? 'fused jumper' : j.via.kind === 'resistor' ? `${formatSi(j.via.ohms, 'Ω')} resistor` : `${j.via.volts} V source`;
     out.push({ label: 'Jumper', value: `${POINT_WORDS[j.from]} to ${POINT_WORDS[j.to]} with a ${via}` });
@@ -134,7 +136,8 @@ export function requestLine(request: MeasurementRequest, cavities: Record<string
   const states = request.otherConnector
     ? `${first} ${CONNECTOR_WORDS[request.connector]}, ${CONNECTOR_NAMES[OTHER_CONNECTOR[request.location]].toLowerCase()} ${CONNECTOR_WORDS[request.otherConnector]}`
     : CONNECTOR_WORDS[request.connector];
-  return `${QUANTITY_WORDS[request.quantity]}: ${how}, ${where}, key ${request.key}, engine ${ENGINE_WORDS[request.engine]}, ${states}`;
+  const input = sensorInputWords(request);
+  return `${QUANTITY_WORDS[request.quantity]}: ${how}, ${where}, key ${request.key}, engine ${ENGINE_WORDS[request.engine]}, ${states}${input ? `, ${input}` : ''}`;
 }
 
 /** Units the number pad offers for a quantity (scan values: the common ones first). */

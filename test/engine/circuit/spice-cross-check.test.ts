@@ -153,6 +153,21 @@ describe('node voltages agree with ngspice (.op, batch mode) within 1e-6 relativ
     crossCheck(`trade-${name.replace(/[^a-z0-9]+/gi, '-')}`, circuitNetlist(drawing(), faults, { ...keyOn, ...change }));
   });
 
+  // The engine's states and the sensor's input moved: the battery the regulator sees, the wiper where the pedal puts it.
+  const dropsOut = (minInputVolts: number, cranking = 10): ReturnType<typeof defaultCircuit> => {
+    const c = drawing();
+    return { ...c, battery: { ...c.battery, volts: { ...c.battery.volts, cranking } }, module: { ...c.module, regulator: { ...c.module.regulator, minInputVolts } } };
+  };
+  it.each<[string, ReturnType<typeof defaultCircuit>, Partial<MeasurementRequest>, FaultSpec[]]>([
+    ['the throttle pressed fully and held', drawing(), { sensorInput: 'moved' }, []],
+    ['a sensor stuck where it rests, throttle pressed', drawing(), { sensorInput: 'moved' }, [{ kind: 'sensor_internal', variant: 'stuck', atRest: true }]],
+    ['a manifold pressure sensor at idle', { ...drawing(), sensor: defaultCircuit('three_wire_5v', { sensor: 'pressure' }).sensor }, { engine: 'running', sensorInput: 'moved' }, []],
+    ['the reference while cranking on a battery that falls to 5.5 V', dropsOut(6, 5.5), { at: 'reference', engine: 'cranking' }, []],
+    ['the reference while cranking on a supply that drops out at 11.5 V', dropsOut(11.5), { at: 'reference', engine: 'cranking' }, []],
+  ])('agrees with ngspice on %s', (name, circuit, change, faults) => {
+    crossCheck(`state-${name.replace(/[^a-z0-9]+/gi, '-')}`, circuitNetlist(circuit, faults, { ...keyOn, ...change }));
+  });
+
   // Ohms: the ohmmeter's test current as a SPICE current source between the leads; V/I must be our reading.
   it.each<[string, Partial<MeasurementRequest>, FaultSpec[], ('three_wire_5v' | 'two_wire_thermistor')?]>([
     ['end-to-end continuity of a signal wire with 10 kΩ in it', { at: 'signal', against: 'signal', againstLocation: 'module_connector' }, faultsFor('signal_high_resistance')],

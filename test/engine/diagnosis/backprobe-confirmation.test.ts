@@ -21,7 +21,7 @@ describe('an open concluded from back-probed readings alone waits for a confirmi
     expect(['reference_open', 'signal_open', 'ground_open', 'sensor_internal'].every(isOpenCause)).toBe(true);
     expect(['signal_short_ground', 'ground_high_resistance', 'no_fault_now'].some(isOpenCause)).toBe(false);
     const ids = tree.tests.filter(backprobed).map((t) => t.id).sort();
-    expect(ids).toEqual(['ground_drop_along_wire', 'ground_drop_backprobed', 'reference_backprobed', 'reference_drop_along_wire', 'signal_backprobed']);
+    expect(ids).toEqual(['ground_drop_along_wire', 'ground_drop_backprobed', 'reference_backprobed', 'reference_drop_along_wire', 'reference_while_cranking', 'signal_backprobed', 'signal_full_travel']);
   });
 
   it('holds back a broken sensor ground read only through back-probes, proposes a test without one, then concludes', async () => {

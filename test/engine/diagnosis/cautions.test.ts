@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { mulberry32 } from '../../../src/engine/circuit';
-import { builtInTrees, cautionsInContext, diagnose, requiredCautions, type Reading, type TreeRequest, type WorkContext } from '../../../src/engine/diagnosis';
+import { builtInDocuments, builtInTrees, cautionsInContext, diagnose, loadTree, requiredCautions, type Reading, type TreeRequest, type WorkContext } from '../../../src/engine/diagnosis';
+import { cautionKind } from '../../../src/engine/diagnosis/cautions';
 import { driveToEnd } from '../../../src/engine/diagnosis/drive';
 import { drawCase } from '../../../src/engine/diagnosis/simulate';
 
@@ -117,5 +118,38 @@ describe.each(Object.values(trees).filter((t) => t.circuitKind !== 'shared_5v_re
       expect(shown[0]).toBe('high_voltage_system');
       expect(shown).toContain('fuel_vapour');
     }
+  });
+});
+
+// Which conditions need the running-engine caution is common practice, no source.
+describe('the running-engine cautions on every test of every built-in tree', () => {
+  const documents = builtInDocuments();
+  const loaded = Object.values(trees);
+  it.each(loaded.flatMap((tree) => tree.tests.map((t) => [`${tree.id} / ${t.id}`, t] as const)))('%s: engine cranking or running carries them, and its cranking re-read too', (_name, test) => {
+    const ids = test.cautions.map((c) => c.id);
+    if (test.request.engine !== 'off') expect(ids).toContain('engine_turning');
+    if (test.crankRequest) expect(test.crankCautions.map((c) => c.id)).toContain('engine_turning');
+    expect(cautionKind('engine_turning')!.text).toMatch(/ventilated.*parking brake.*park or neutral.*hands, leads and clothing clear of belts and fans/);
+  });
+
+  it.each(documents.flatMap((doc) => doc.tests.filter((t) => t.request.engine !== 'off').map((t) => [`${doc.id} / ${t.id}`, t] as const)))('%s lists the caution in the tree itself', (_name, test) => {
+    expect(test.cautions).toContain('engine_turning');
+  });
+
+  it.each<[string, 'cranking' | 'running']>([
+    ['a test with the engine cranking', 'cranking'],
+    ['a test with the engine running', 'running'],
+  ])('refuses %s that does not list them, with a coded finding at its cautions', (_name, engine) => {
+    const doc = structuredClone(documents.find((d) => d.id === 'three-wire-5v')!);
+    const i = doc.tests.findIndex((t) => t.id === 'signal_backprobed');
+    doc.tests[i]!.request = { ...doc.tests[i]!.request, engine };
+    doc.tests[i]!.cautions = doc.tests[i]!.cautions.filter((c) => c !== 'engine_turning');
+    const result = loadTree(doc);
+    expect(result.ok).toBe(false);
+    expect(result.findings.find((f) => f.code === 'tree.running_engine_caution_missing')).toMatchObject({ path: `tests[${i}].cautions`, severity: 'error' });
+    // A tree stored before the rule still loads, warned, with the caution added.
+    const stored = loadTree(doc, { stored: true });
+    expect(stored.ok).toBe(true);
+    if (stored.ok) expect(stored.tree.tests[i]!.cautions.map((c) => c.id)).toContain('engine_turning');
   });
 });

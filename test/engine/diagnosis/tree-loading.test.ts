@@ -47,7 +47,8 @@ describe('loading fault trees', () => {
 
   it('adds the safety cautions a test needs and says so (common practice, no source)', () => {
     const doc = base();
-    doc.tests.forEach((t) => (t.cautions = []));
+    // A test with the engine turning must list its caution (a tree is refused without it); the rest are added.
+    doc.tests.forEach((t) => (t.cautions = t.request.engine === 'off' ? [] : ['engine_turning']));
     const result = loadTree(doc);
     expect(result.ok).toBe(true);
     if (!result.ok) return;

@@ -174,8 +174,8 @@ function drawFault(cause: string, c: CircuitCase, random: Random): Draw {
     case 'sensor_internal': {
       if (!three) return { faults: [{ kind: 'sensor', variant: 'ntc_open', ohms: OPEN(random) }], variant: 'thermistor open' };
       const variants = c.sensor.kind === 'potentiometer'
-        ? (['element_open', 'wiper_open', 'output_to_reference', 'output_to_ground'] as const)
-        : (['output_dead', 'output_high', 'wiper_open', 'output_to_ground'] as const);
+        ? (['element_open', 'wiper_open', 'output_to_reference', 'output_to_ground', 'output_stuck'] as const)
+        : (['output_dead', 'output_high', 'wiper_open', 'output_to_ground', 'output_stuck'] as const);
       const variant = pick(random, variants);
       const ohms = variant === 'wiper_open' || variant === 'element_open' ? OPEN(random) : u(random, 1, 50);
       return { faults: [{ kind: 'sensor', variant, ohms }], variant: `${c.sensor.kind} ${variant.replaceAll('_', ' ')}` };
@@ -230,15 +230,20 @@ export function drawOomCase(tree: OomTreeId, cause: string, index: number, seed:
 
 /**
  * Redraws faults that leave no trace a tree test could see: a "weak" supply must sag below 4.6 V where the
- * sensor takes its supply, a module input that misreads must misread by more than 0.5 V, and a three-wire sensor
- * faulty inside must put its signal outside its working range (no tree test moves the sensor, so a wrong value
- * inside the range looks like another position).
+ * sensor takes its supply, a module input that misreads must misread by more than 0.5 V, a three-wire sensor
+ * faulty inside must put its signal outside its working range (a wrong value inside the range looks like another
+ * position), and one stuck where it rests must read at least 0.5 V away from a sound sensor with the throttle
+ * pressed fully, key on engine off (the one tree test that moves the input).
  */
 function showsItself(c: OomCase): boolean {
   if (!('kind' in c.circuit)) return sharedTrueValue(c.circuit, c.instruments, { ...REFERENCE_AT_SENSOR, sensor: 'throttle' }) < 4.5;
   if (c.cause === 'reference_supply_failed' && c.circuit.supply.volts > 1) {
     const probe = c.circuit.kind === 'three_wire_5v' ? REFERENCE_AT_SENSOR : { ...REFERENCE_AT_SENSOR, at: 'signal' as const, connector: 'unplugged' as const };
     return trueValue(c.circuit, c.instruments, probe) < 4.6;
+  }
+  if (c.cause === 'sensor_internal' && c.circuit.kind === 'three_wire_5v' && c.variant.endsWith('output stuck')) {
+    const pressed = { ...REFERENCE_AT_SENSOR, at: 'signal' as const, sensorInput: 'moved' as const };
+    return Math.abs(trueValue(c.circuit, c.instruments, pressed) - trueValue({ ...c.circuit, faults: [] }, c.instruments, pressed)) > 0.5;
   }
   if (c.cause === 'sensor_internal' && c.circuit.kind === 'three_wire_5v') {
     const signal = trueValue(c.circuit, c.instruments, { ...REFERENCE_AT_SENSOR, at: 'signal' });

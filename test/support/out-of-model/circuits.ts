@@ -21,7 +21,8 @@ export type Fault =
   | { kind: 'series'; wire: Wire; ohms: number }
   /** From a wire's fault point to chassis ground, to the battery-voltage circuit, or to another wire. */
   | { kind: 'shunt'; wire: Wire; to: 'chassis' | 'feed' | Wire; ohms: number }
-  | { kind: 'sensor'; variant: 'element_open' | 'wiper_open' | 'output_to_reference' | 'output_to_ground' | 'output_dead' | 'output_high' | 'ntc_open' | 'ntc_shorted'; ohms: number };
+  /** `output_stuck`: the output stays where the input rests, whatever the pedal or the manifold does. */
+  | { kind: 'sensor'; variant: 'element_open' | 'wiper_open' | 'output_to_reference' | 'output_to_ground' | 'output_dead' | 'output_high' | 'output_stuck' | 'ntc_open' | 'ntc_shorted'; ohms: number };
 
 export interface CircuitCase {
   kind: 'three_wire_5v' | 'two_wire_thermistor';
@@ -114,7 +115,7 @@ export function buildNet(c: CircuitCase, r: MeasurementRequest, supplyMode: Supp
     n.r(`short${k}`, `x_${f.wire.slice(0, 3)}`, to, f.ohms);
   });
   const sensorOff = unplugged(r, 'sensor_connector');
-  stampSensor(n, c, wires, !sensorOff);
+  stampSensor(n, c, wires, !sensorOff, r);
   if (moduleOff && sensorOff) leakIsolatedWires(n, wires);
   if (sensorOff) leakUnpluggedSensor(n, wires);
   for (const [k, j] of r.jumpers.entries()) if (!blown.has(k)) stampJumper(n, c, j, k, r.location);
@@ -139,11 +140,23 @@ export function stampModule(n: Net, c: ModuleParts, powered: boolean, supplyMode
   n.r('rail', 'rl', 'mg', powered ? c.railLoadOhms : c.railOffOhms);
 }
 
+/**
+ * The sensor's input as the request has it. Pressed fully, a pedal or throttle track runs to the end stop away from
+ * where it rests (within 5 % of it); an active pressure sensor sees manifold vacuum only with the engine running, a
+ * third of the barometric pressure or so at idle (common practice, no source). A stuck output stays where it rests.
+ */
+function asRead(s: Sensor, r: MeasurementRequest, stuck: boolean): Sensor {
+  if (r.sensorInput !== 'moved' || stuck) return s;
+  if (s.kind === 'potentiometer') return { ...s, position: s.position < 0.5 ? 0.95 : 0.05 };
+  if (s.kind === 'active' && r.engine === 'running') return { ...s, ratio: s.ratio / 3 };
+  return s;
+}
+
 /** The sensor between its pins `p_*`; mated to the harness `s_*` through its terminals when plugged in. */
-function stampSensor(n: Net, c: CircuitCase, wires: Wire[], plugged: boolean): void {
+function stampSensor(n: Net, c: CircuitCase, wires: Wire[], plugged: boolean, r: MeasurementRequest): void {
   if (plugged) for (const w of wires) n.r(`ts${w.slice(0, 3)}`, `s_${w.slice(0, 3)}`, `p_${w.slice(0, 3)}`, c.terminalOhms);
   const fault = c.faults.find((f): f is Extract<Fault, { kind: 'sensor' }> => f.kind === 'sensor');
-  const s = c.sensor;
+  const s = asRead(c.sensor, r, fault?.variant === 'output_stuck');
   if (s.kind === 'ntc') {
     const ohms = fault?.variant === 'ntc_open' || fault?.variant === 'ntc_shorted' ? fault.ohms : ntcOhms(s.curve, s.celsius);
     n.r('ntc', 'p_sig', 'p_gro', ohms);

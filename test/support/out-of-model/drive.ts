@@ -50,6 +50,12 @@ export function blamesAPart(tree: Tree, hypothesisId: string): boolean {
   return part !== undefined && part !== 'none' && part !== 'unknown';
 }
 
+/** The circuit's sensor as a technician enters it (no codes): a position sensor, or a pressure sensor for an active one. */
+function sensorNamed(c: OomCase): DiagnosisOptions {
+  if (!('kind' in c.circuit) || c.circuit.kind !== 'three_wire_5v') return {};
+  return { codes: { codes: [], sensor: c.circuit.sensor.kind === 'active' ? 'MAP' : 'TP A' } };
+}
+
 export async function runOomCase(tree: Tree, c: OomCase, opts: { choose?: TestChooser; options?: DiagnosisOptions; maxSteps?: number } = {}): Promise<OomRun> {
   const readings: Reading[] = [];
   const latencies: number[] = [];
@@ -60,7 +66,7 @@ export async function runOomCase(tree: Tree, c: OomCase, opts: { choose?: TestCh
   for (let step = 0; ; step++) {
     const t0 = performance.now();
     // A simulated drive is reproducible whatever the machine's load: no planning deadline unless one is given.
-    const d = await diagnose(tree, readings, [], { planningBudgetMs: UNBOUNDED_PLANNING_MS, ...opts.options });
+    const d = await diagnose(tree, readings, [], { planningBudgetMs: UNBOUNDED_PLANNING_MS, ...sensorNamed(c), ...opts.options });
     latencies.push(performance.now() - t0);
     if (d.status === 'concluded' || d.status === 'exhausted' || !d.nextTest || step >= (opts.maxSteps ?? STEP_CAP)) {
       const proven = isProven(d) ? d.conclusion!.hypothesisId : null;

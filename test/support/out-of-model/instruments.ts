@@ -88,7 +88,7 @@ export function instrumentReading(c: CircuitCase, inst: Instruments, r: Measurem
   const random = readingRandom(noiseSeed, r, attempt);
   if (r.quantity === 'scan_value') {
     const frozen = inst.scanNeedsEngineSpeed && r.engine === 'off';
-    const sampled = adcOverride ?? trueValue(c, inst, frozen ? { ...r, connector: 'plugged', location: 'sensor_connector', jumpers: [], engine: 'running' } : r);
+    const sampled = adcOverride ?? trueValue(c, inst, frozen ? { ...r, connector: 'plugged', location: 'sensor_connector', jumpers: [], engine: 'running', sensorInput: undefined } : r);
     const lsb = inst.adcFullScale / (2 ** inst.adcBits - 1);
     const clamped = Math.min(inst.adcFullScale, Math.max(0, sampled));
     const jitter = frozen ? Math.round(2 * random() - 1) : 0;
