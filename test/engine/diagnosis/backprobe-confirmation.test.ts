@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { defaultCircuit, faultsFor, predictReading } from '../../../src/engine/circuit';
-import { builtInTrees, diagnose, type Reading } from '../../../src/engine/diagnosis';
+import { builtInTrees, type Reading } from '../../../src/engine/diagnosis';
 import { backprobed, isOpenCause } from '../../../src/engine/diagnosis/backprobe-confirmation';
+import { diagnoseFully } from '../../support/diagnose-fully';
 
 // A back-probe pin that misses its terminal reads like an open (common practice, no source): an open is concluded
 // only once a reading that does not hang on a back-probe, or a repeat of the back-probed one, agrees.
@@ -26,20 +27,20 @@ describe('an open concluded from back-probed readings alone waits for a confirmi
 
   it('holds back a broken sensor ground read only through back-probes, proposes a test without one, then concludes', async () => {
     const probed = ['ground_drop_backprobed', 'ground_drop_along_wire', 'reference_backprobed', 'signal_backprobed'].map((t) => reading(t, 'ground_open'));
-    const held = await diagnose(tree, probed);
+    const held = await diagnoseFully(tree, probed);
     expect(held.ranked[0]!.id).toBe('ground_open');
     expect(held.ranked[0]!.probability).toBeGreaterThanOrEqual(0.95);
     expect(held.status).toBe('testing');
     expect(held.findings.map((f) => f.code)).toContain('diagnosis.backprobe_unconfirmed');
     const next = tree.tests.find((t) => t.id === held.nextTest!.id)!;
     expect(backprobed(next)).toBe(false);
-    const done = await diagnose(tree, [...probed, reading(next.id, 'ground_open')]);
+    const done = await diagnoseFully(tree, [...probed, reading(next.id, 'ground_open')]);
     expect(done.status).toBe('concluded');
     expect(done.conclusion!.hypothesisId).toBe('ground_open');
   });
 
   it('does not hold back a cause that is not an open', async () => {
-    const d = await diagnose(tree, [reading('reference_backprobed', 'reference_short_voltage'), reading('signal_backprobed', 'reference_short_voltage')]);
+    const d = await diagnoseFully(tree, [reading('reference_backprobed', 'reference_short_voltage'), reading('signal_backprobed', 'reference_short_voltage')]);
     expect(d.findings.map((f) => f.code)).not.toContain('diagnosis.backprobe_unconfirmed');
   });
 });

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { builtInDocuments, builtInTrees, diagnose, loadTree, type Reading, type TreeRequest } from '../../../src/engine/diagnosis';
+import { diagnoseFully } from '../../support/diagnose-fully';
 
 const tree = builtInTrees()['three-wire-5v']!;
 const requestOf = (testId: string): TreeRequest => structuredClone(tree.tests.find((t) => t.id === testId)!.request);
@@ -16,7 +17,7 @@ const probabilityOf = (d: Awaited<ReturnType<typeof diagnose>>, id: string) => d
 
 describe('diagnosing the three-wire 5 V tree', () => {
   it('proposes a first test with its request, cautions, set-up minutes and predicted readings', async () => {
-    const d = await diagnose(tree, []);
+    const d = await diagnoseFully(tree, []);
     expect(d.status).toBe('testing');
     const next = d.nextTest!;
     expect(tree.testByRequest.get(JSON.stringify(null))).toBeUndefined();
@@ -30,11 +31,11 @@ describe('diagnosing the three-wire 5 V tree', () => {
 
   it('is a pure function: the same input gives the same diagnosis', async () => {
     const readings = [reading('a', 'reference_backprobed', 0.02), reading('b', 'signal_backprobed', 0.01)];
-    expect(await diagnose(tree, readings)).toEqual(await diagnose(tree, structuredClone(readings)));
+    expect(await diagnoseFully(tree, readings)).toEqual(await diagnoseFully(tree, structuredClone(readings)));
   });
 
   it('concludes a reference short to ground from 0 V on the reference and 0 Ω to ground, naming the deciding readings', async () => {
-    const d = await diagnose(tree, [
+    const d = await diagnoseFully(tree, [
       reading('r1', 'reference_backprobed', 0.06),
       reading('r2', 'reference_unplugged', 0.07),
       reading('r3', 'reference_ohms_to_ground', 0.2),
@@ -47,7 +48,7 @@ describe('diagnosing the three-wire 5 V tree', () => {
   });
 
   it('counts set-ups once: after one unplugged test, another unplugged test costs only its own minutes', async () => {
-    const d = await diagnose(tree, [reading('r1', 'signal_unplugged', 4.88)], { strategy: 'lookahead' });
+    const d = await diagnoseFully(tree, [reading('r1', 'signal_unplugged', 4.88)], { strategy: 'lookahead' });
     const ranking = d.nextTest!.ranking;
     const unpluggedOhms = ranking.find((r) => r.testId === 'signal_ohms_to_ground')!;
     expect(unpluggedOhms.minutes).toBe(tree.tests.find((t) => t.id === 'signal_ohms_to_ground')!.minutes);
@@ -57,8 +58,8 @@ describe('diagnosing the three-wire 5 V tree', () => {
 
   it('keeps a reading that matches no test in the path as "not in this tree" without moving the posterior', async () => {
     const odd = { ...reading('x', 'reference_backprobed', 4.99), request: { ...requestOf('reference_backprobed'), location: 'module_connector' as const } };
-    const d = await diagnose(tree, [odd]);
-    const prior = await diagnose(tree, []);
+    const d = await diagnoseFully(tree, [odd]);
+    const prior = await diagnoseFully(tree, []);
     expect(d.path[0]!.verdict).toBe('not_in_tree');
     expect(d.ranked).toEqual(prior.ranked);
   });
@@ -68,27 +69,27 @@ describe('diagnosing the three-wire 5 V tree', () => {
     ['a missing value', undefined, 'readings[0].value'],
     ['NaN', Number.NaN, 'readings[0].value'],
   ])('refuses %s with a finding at its path and does not count it', async (_name, value, path) => {
-    const d = await diagnose(tree, [reading('v', 'reference_backprobed', value as number)]);
+    const d = await diagnoseFully(tree, [reading('v', 'reference_backprobed', value as number)]);
     expect(d.findings.find((f) => f.code === 'reading.value_not_number')!.path).toBe(path);
     expect(d.path[0]!.verdict).toBe('invalid');
   });
 
   it('refuses a reading whose request has an unknown connector state, naming the field', async () => {
     const bad = { ...reading('q', 'reference_backprobed', 5), request: { ...requestOf('reference_backprobed'), connector: 'half_plugged' } } as unknown as Reading;
-    const d = await diagnose(tree, [bad]);
+    const d = await diagnoseFully(tree, [bad]);
     expect(d.findings.some((f) => f.path === 'readings[0].request.connector')).toBe(true);
   });
 
   it('weighs a reading between two outcome ranges by its value: the bands are labels, not the arithmetic', async () => {
-    const d = await diagnose(tree, [reading('g1', 'reference_backprobed', 4.82)]);
+    const d = await diagnoseFully(tree, [reading('g1', 'reference_backprobed', 4.82)]);
     expect(d.path[0]!.verdict).toBe('counted');
     expect(d.path[0]!.note).toMatch(/between outcome ranges/);
-    const nudged = await diagnose(tree, [reading('g2', 'reference_backprobed', 4.83)]);
+    const nudged = await diagnoseFully(tree, [reading('g2', 'reference_backprobed', 4.83)]);
     for (const h of d.ranked) expect(Math.abs(probabilityOf(nudged, h.id) - h.probability), h.id).toBeLessThan(0.05);
   });
 
   it('drops a superseded reading and counts its replacement', async () => {
-    const d = await diagnose(tree, [
+    const d = await diagnoseFully(tree, [
       reading('old', 'reference_backprobed', 0.01, { supersededBy: 'new' }),
       reading('new', 'reference_backprobed', 5.0),
     ]);
@@ -100,17 +101,17 @@ describe('diagnosing the three-wire 5 V tree', () => {
     const before = [reading('b1', 'reference_unplugged', 0.01), reading('b2', 'reference_ohms_to_ground', 0.1)];
     const repairAt = new Date((clock += 60_000)).toISOString();
     const after = reading('a1', 'signal_backprobed', 0.75);
-    const d = await diagnose(tree, [...before, after], [{ id: 'fix1', part: 'reference', at: repairAt }]);
+    const d = await diagnoseFully(tree, [...before, after], [{ id: 'fix1', part: 'reference', at: repairAt }]);
     expect(d.path.filter((p) => p.verdict === 'before_repair').map((p) => p.readingId)).toEqual(['b1', 'b2']);
     expect(d.path.find((p) => p.readingId === 'a1')!.verdict).toBe('counted');
-    const unrelated = await diagnose(tree, [...before, after], [{ id: 'fix2', part: 'ground', at: repairAt }]);
+    const unrelated = await diagnoseFully(tree, [...before, after], [{ id: 'fix2', part: 'ground', at: repairAt }]);
     expect(unrelated.path.filter((p) => p.verdict === 'counted')).toHaveLength(3);
   });
 
   it('keeps verification readings out of the diagnosis', async () => {
-    const d = await diagnose(tree, [reading('v1', 'reference_backprobed', 0.01, { phase: 'verification' })]);
+    const d = await diagnoseFully(tree, [reading('v1', 'reference_backprobed', 0.01, { phase: 'verification' })]);
     expect(d.path[0]!.verdict).toBe('verification');
-    expect(d.ranked).toEqual((await diagnose(tree, [])).ranked);
+    expect(d.ranked).toEqual((await diagnoseFully(tree, [])).ranked);
   });
 
   it('flags a contradiction and asks to repeat the reading most likely to be wrong, once per reading', async () => {
@@ -122,7 +123,7 @@ describe('diagnosing the three-wire 5 V tree', () => {
       reading('c3', 'ground_drop_backprobed', 4.9),
       reading('c4', 'signal_ohms_to_reference', 0.2),
     ];
-    const d = await diagnose(tree, readings);
+    const d = await diagnoseFully(tree, readings);
     expect(d.logEvidenceVsChance).toBeLessThan(-4);
     expect(d.status).toBe('recheck');
     expect(d.nextTest!.reason).toBe('recheck_contradiction');
@@ -130,7 +131,7 @@ describe('diagnosing the three-wire 5 V tree', () => {
     expect(d.findings.find((f) => f.code === 'diagnosis.contradiction')!.path).toMatch(/^readings\[[0-3]\]$/);
     const doubtful = d.nextTest!.recheckOf!;
     const repeated = [...readings.map((r) => (r.id === doubtful ? { ...r, supersededBy: 'again' } : r)), { ...readings.find((r) => r.id === doubtful)!, id: 'again', takenAt: new Date((clock += 60_000)).toISOString() }];
-    const after = await diagnose(tree, repeated);
+    const after = await diagnoseFully(tree, repeated);
     expect(after.nextTest?.recheckOf).not.toBe('again');
     expect(after.nextTest?.recheckOf).not.toBe(doubtful);
   });
@@ -144,7 +145,7 @@ describe('scan values that do not refresh with the engine stopped (common practi
     const safe = [reading('v1', 'signal_unplugged', 0.76), reading('v2', 'ground_drop_backprobed', 0.01)];
     const first = reading('s1', 'scan_signal_unplugged', 0.76);
     const frozen = reading('s2', 'jumper_signal_to_ground', 0.761);
-    const d = await diagnose(tree, [...safe, first, frozen]);
+    const d = await diagnoseFully(tree, [...safe, first, frozen]);
     expect(d.status).toBe('crank_and_reread');
     expect(d.nextTest!.id).toBe('jumper_signal_to_ground');
     expect(d.nextTest!.request.engine).toBe('cranking');
@@ -153,15 +154,15 @@ describe('scan values that do not refresh with the engine stopped (common practi
   });
 
   it('does not ask to crank with a jumper fitted before the wires it joins were measured', async () => {
-    const d = await diagnose(tree, [baseline(), reading('s2', 'jumper_signal_to_ground', 4.98)]);
+    const d = await diagnoseFully(tree, [baseline(), reading('s2', 'jumper_signal_to_ground', 4.98)]);
     expect(d.status).not.toBe('crank_and_reread');
     expect(d.nextTest?.id).not.toBe('jumper_signal_to_ground');
   });
 
   it('does not blame the circuit for the frozen value: the posterior ignores it', async () => {
     const first = baseline();
-    const withFrozen = await diagnose(tree, [first, reading('s2', 'jumper_signal_to_ground', 4.98)]);
-    const without = await diagnose(tree, [first]);
+    const withFrozen = await diagnoseFully(tree, [first, reading('s2', 'jumper_signal_to_ground', 4.98)]);
+    const without = await diagnoseFully(tree, [first]);
     expect(withFrozen.ranked).toEqual(without.ranked);
   });
 
@@ -169,7 +170,7 @@ describe('scan values that do not refresh with the engine stopped (common practi
     const first = baseline();
     const frozen = reading('s2', 'jumper_signal_to_ground', 4.98);
     const cranked = { ...reading('s3', 'jumper_signal_to_ground', 0.002), request: { ...requestOf('jumper_signal_to_ground'), engine: 'cranking' as const } };
-    const d = await diagnose(tree, [first, frozen, cranked]);
+    const d = await diagnoseFully(tree, [first, frozen, cranked]);
     expect(d.status).not.toBe('crank_and_reread');
     expect(d.path[2]!.verdict).toBe('counted');
     expect(d.path[2]!.testId).toBe('jumper_signal_to_ground');
@@ -177,7 +178,7 @@ describe('scan values that do not refresh with the engine stopped (common practi
 
   it('counts a key-on scan value that did change with the jumper', async () => {
     const first = baseline();
-    const d = await diagnose(tree, [first, reading('s2', 'jumper_signal_to_ground', 0.001)]);
+    const d = await diagnoseFully(tree, [first, reading('s2', 'jumper_signal_to_ground', 0.001)]);
     expect(d.path[1]!.verdict).toBe('counted');
     expect(d.status).not.toBe('crank_and_reread');
   });
@@ -198,11 +199,11 @@ describe('the shared 5 V reference tree', () => {
   const hand = loadedHand.tree;
 
   it('asks for a re-check when a reading lands in a guard band of a hand-given tree, and sets the test aside after two tries', async () => {
-    const once = await diagnose(hand, [at('reference_plugged', 4.7, 'g1')]);
+    const once = await diagnoseFully(hand, [at('reference_plugged', 4.7, 'g1')]);
     expect(once.status).toBe('recheck');
     expect(once.nextTest!.recheckOf).toBe('g1');
     expect(once.path[0]!.verdict).toBe('indeterminate');
-    const twice = await diagnose(hand, [at('reference_plugged', 4.7, 'g1'), at('reference_plugged', 4.72, 'g2')]);
+    const twice = await diagnoseFully(hand, [at('reference_plugged', 4.7, 'g1'), at('reference_plugged', 4.72, 'g2')]);
     expect(twice.nextTest!.id).not.toBe('reference_plugged');
     expect(twice.findings.some((f) => f.code === 'diagnosis.test_unresolved')).toBe(true);
   });
@@ -210,7 +211,7 @@ describe('the shared 5 V reference tree', () => {
   it('counts a guard-band reading that the re-check superseded as an attempt, so the re-check is not asked for again and again', async () => {
     // The model-derived tree weighs a guard-band value by its density; the hand-given copy sets it aside.
     const first = { ...at('reference_plugged', 4.7, 'g1'), supersededBy: 'g2' };
-    const d = await diagnose(hand, [first, at('reference_plugged', 4.72, 'g2')]);
+    const d = await diagnoseFully(hand, [first, at('reference_plugged', 4.72, 'g2')]);
     expect(d.path.map((p) => p.verdict)).toEqual(['superseded', 'indeterminate']);
     expect(d.status).not.toBe('recheck');
     expect(d.nextTest?.id).not.toBe('reference_plugged');
@@ -220,11 +221,11 @@ describe('the shared 5 V reference tree', () => {
   it('proposes unplugging the sensors one at a time and finds the one pulling the reference down', async () => {
     const proposed: string[] = [];
     const readings: Reading[] = [at('reference_plugged', 1.2, 'p0')];
-    let d = await diagnose(shared, readings);
+    let d = await diagnoseFully(shared, readings);
     for (let i = 0; i < 8 && d.status !== 'concluded'; i++) {
       proposed.push(d.nextTest!.id);
       readings.push(at(d.nextTest!.id, answer(d.nextTest!.id), `p${i + 1}`));
-      d = await diagnose(shared, readings);
+      d = await diagnoseFully(shared, readings);
     }
     expect(d.status).toBe('concluded');
     expect(d.conclusion!.hypothesisId).toBe('tank_sensor_loading_reference');

@@ -1,9 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import { causeAlternatives, faultsFor, HYPOTHESIS_IDS, mulberry32, validateFaults, type FaultSpec } from '../../../src/engine/circuit';
-import { builtInDocuments, builtInTrees, diagnose, loadTree, requestKey, type Reading, type Tree, type TreeDocument } from '../../../src/engine/diagnosis';
+import { builtInDocuments, builtInTrees, loadTree, requestKey, type Reading, type Tree, type TreeDocument } from '../../../src/engine/diagnosis';
 import { driveToEnd } from '../../../src/engine/diagnosis/drive';
 import { jumperViolations } from '../../../src/engine/diagnosis/safety-rules';
 import { drawCase, type SimulatedCase } from '../../../src/engine/diagnosis/simulate';
+import { diagnoseFully } from '../../support/diagnose-fully';
 
 // The rule (common practice, no source): no jumper before every wire it joins has read at most 5.5 V, key on; never a
 // fused jumper between the 5 V reference and ground (a load resistor of 1 kΩ or more may join them).
@@ -33,16 +34,16 @@ describe('no jumper before its wires were measured at or below 5.5 V key on', ()
 
   it('holds the reference-to-signal jumper back until the reference and signal have both read 5.5 V or less', async () => {
     const signalOnly = [reading(threeWire, 'signal_backprobed', 0.96, 1), reading(threeWire, 'scan_signal_plugged', 0.955, 2)];
-    const held = await diagnose(threeWire, signalOnly);
+    const held = await diagnoseFully(threeWire, signalOnly);
     expect(held.nextTest!.id).not.toBe('jumper_reference_to_signal');
     expect(held.nextTest!.ranking.map((r) => r.testId)).not.toContain('jumper_reference_to_signal');
-    const cleared = await diagnose(threeWire, [...signalOnly, reading(threeWire, 'reference_backprobed', 5.01, 3)]);
+    const cleared = await diagnoseFully(threeWire, [...signalOnly, reading(threeWire, 'reference_backprobed', 5.01, 3)]);
     expect(cleared.nextTest!.ranking.map((r) => r.testId)).toContain('jumper_reference_to_signal');
   });
 
   it('never proposes a jumper on a wire that read battery voltage, and says why with the reading path', async () => {
     const readings = [reading(threeWire, 'signal_backprobed', 1.9, 1), reading(threeWire, 'reference_backprobed', 11.87, 2)];
-    const d = await diagnose(threeWire, readings);
+    const d = await diagnoseFully(threeWire, readings);
     const unsafe = d.findings.find((f) => f.code === 'diagnosis.jumper_unsafe');
     expect(unsafe?.path).toBe('readings[1]');
     expect(unsafe?.message).toContain('11.87 V');
@@ -171,7 +172,7 @@ describe('tree validation refuses a jumper test without the safety precondition'
     expect(result.findings.find((f) => f.code === 'tree.jumper_precondition_missing')?.severity).toBe('warning');
     const jumper = result.tree.tests.find((t) => t.id === 'jumper_reference_to_signal')!;
     expect(jumper.requires.map((r) => r.measured).sort()).toEqual(['reference', 'signal']);
-    const d2 = await diagnose(result.tree, [reading(result.tree, 'signal_backprobed', 0.96, 1), reading(result.tree, 'scan_signal_plugged', 0.955, 2)]);
+    const d2 = await diagnoseFully(result.tree, [reading(result.tree, 'signal_backprobed', 0.96, 1), reading(result.tree, 'scan_signal_plugged', 0.955, 2)]);
     expect(d2.nextTest!.ranking.map((r) => r.testId)).not.toContain('jumper_reference_to_signal');
   });
 });

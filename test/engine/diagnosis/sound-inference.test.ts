@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { defaultCircuit, faultsFor, predictReading } from '../../../src/engine/circuit';
-import { builtInDocuments, builtInTrees, diagnose, loadTree, type Diagnosis, type Reading, type Tree, type TreeDocument } from '../../../src/engine/diagnosis';
+import { builtInDocuments, builtInTrees, loadTree, type Diagnosis, type Reading, type Tree, type TreeDocument } from '../../../src/engine/diagnosis';
+import { diagnoseFully } from '../../support/diagnose-fully';
 
 // Each case here is a defect that once gave a confident wrong answer; the readings are what a healthy or faulted
 // circuit shows on the circuit model (src/engine/circuit) or on the bench, as each comment says.
@@ -25,7 +26,7 @@ describe('a circuit that tests good is not blamed on a part', () => {
     // Healthy 10 kΩ thermistor at 20 °C behind a 10 kΩ pull-up: 2.775 V (model); ground 0.1 Ω and no drop.
     ['a thermistor circuit whose ground reads 0.1 Ω and 0.000 V drop', thermistor, [['signal_backprobed', 2.78], ['scan_signal_plugged', 2.78], ['ground_drop_backprobed', 0.0], ['ground_ohms_to_battery', 0.1]], 'ground_high_resistance'],
   ])('does not conclude a part fault from %s', async (_name, tree, values, blamed) => {
-    const d = await diagnose(tree, values.map(([id, v]) => at(tree, id, v)));
+    const d = await diagnoseFully(tree, values.map(([id, v]) => at(tree, id, v)));
     expect(partFault(d)).toBe(false);
     // Readings that cannot tell the two apart leave the blamed part near its prior odds against "no fault now".
     expect(p(d, blamed)).toBeLessThan(0.5);
@@ -33,7 +34,7 @@ describe('a circuit that tests good is not blamed on a part', () => {
   });
 
   it('keeps testing instead of blaming a part when the readings fit a healthy circuit', async () => {
-    const d = await diagnose(threeWire, [at(threeWire, 'signal_backprobed', 0.82), at(threeWire, 'scan_signal_plugged', 0.82), at(threeWire, 'jumper_reference_to_signal', 5.04)]);
+    const d = await diagnoseFully(threeWire, [at(threeWire, 'signal_backprobed', 0.82), at(threeWire, 'scan_signal_plugged', 0.82), at(threeWire, 'jumper_reference_to_signal', 5.04)]);
     expect(d.status).toBe('testing');
     expect(d.conclusion).toBeNull();
     expect(['signal_backprobed', 'scan_signal_plugged', 'jumper_reference_to_signal']).not.toContain(d.nextTest!.id);
@@ -43,16 +44,16 @@ describe('a circuit that tests good is not blamed on a part', () => {
     // Healthy values on the model: reference unplugged 5.00 V, signal 0.76 V near closed and 4.3 V with the throttle
     // pressed fully, ground drop 0 V.
     const values: Array<[string, number]> = [['signal_backprobed', 0.76], ['scan_signal_plugged', 0.762], ['signal_full_travel', 4.3], ['ground_drop_backprobed', 0.0], ['reference_unplugged', 5.0], ['signal_unplugged', 4.88], ['jumper_signal_to_ground', 0.0], ['ground_ohms_to_battery', 0.2], ['scan_signal_unplugged', 5.0]];
-    const d = await diagnose(threeWire, values.map(([id, v]) => at(threeWire, id, v)));
+    const d = await diagnoseFully(threeWire, values.map(([id, v]) => at(threeWire, id, v)));
     expect(p(d, 'reference_supply_failed')).toBeGreaterThan(0.05);
     expect(d.status).toBe('testing');
     // Either reads the reference on the working circuit: key on, or its lowest while cranking (which also finds a
     // supply that drops out as the battery dips).
     expect(['reference_backprobed', 'reference_while_cranking']).toContain(d.nextTest!.id);
-    const done = await diagnose(threeWire, [...values, ['reference_backprobed', 5.0], ['reference_while_cranking', 4.97]].map(([id, v]) => at(threeWire, id as string, v as number)));
+    const done = await diagnoseFully(threeWire, [...values, ['reference_backprobed', 5.0], ['reference_while_cranking', 4.97]].map(([id, v]) => at(threeWire, id as string, v as number)));
     expect(p(done, 'reference_supply_failed')).toBeLessThan(0.05);
     // A sagging supply would pull the pressed throttle down with it: that reading is left out here.
-    const sagging = await diagnose(threeWire, [...values.filter(([id]) => id !== 'signal_full_travel'), ['reference_backprobed', 3.9] as [string, number]].map(([id, v]) => at(threeWire, id, v)));
+    const sagging = await diagnoseFully(threeWire, [...values.filter(([id]) => id !== 'signal_full_travel'), ['reference_backprobed', 3.9] as [string, number]].map(([id, v]) => at(threeWire, id, v)));
     expect(sagging.ranked[0]!.id).toBe('reference_supply_failed');
   });
 
@@ -70,19 +71,19 @@ describe('the scan tool reads through the module converter', () => {
   });
 
   it('does not conclude a wrong cause when the meter reads 12.3 V and the scan tool 5.00 V on a signal shorted to battery voltage', async () => {
-    const d = await diagnose(threeWire, [at(threeWire, 'signal_backprobed', 12.3), at(threeWire, 'scan_signal_plugged', 5.0)]);
+    const d = await diagnoseFully(threeWire, [at(threeWire, 'signal_backprobed', 12.3), at(threeWire, 'scan_signal_plugged', 5.0)]);
     expect(d.ranked[0]!.id).toBe('signal_short_voltage');
     if (d.status === 'concluded') expect(d.conclusion!.hypothesisId).toBe('signal_short_voltage');
   });
 
   it('converts a coolant scan value of 20 °C to volts through the thermistor curve and pull-up, not as 20 V', async () => {
-    const d = await diagnose(thermistor, [at(thermistor, 'scan_signal_plugged', 20, { unit: '°C' })]);
+    const d = await diagnoseFully(thermistor, [at(thermistor, 'scan_signal_plugged', 20, { unit: '°C' })]);
     expect(d.path[0]!.verdict).toBe('counted');
     expect(p(d, 'signal_short_voltage')).toBeLessThan(0.05);
   });
 
   it('refuses a scan value in a unit the test cannot convert, naming the expected unit', async () => {
-    const d = await diagnose(threeWire, [at(threeWire, 'scan_signal_plugged', 101, { unit: 'kPa' })]);
+    const d = await diagnoseFully(threeWire, [at(threeWire, 'scan_signal_plugged', 101, { unit: 'kPa' })]);
     expect(d.path[0]!.verdict).toBe('invalid');
     const f = d.findings.find((x) => x.code === 'reading.scan_unit_unexpected')!;
     expect(f.path).toBe('readings[0].unit');
@@ -93,7 +94,7 @@ describe('the scan tool reads through the module converter', () => {
 describe('a dead or weak 5 V supply', () => {
   it('is the module supply, not a reference short, when the reference reads 0 V plugged and unplugged with normal ohms to ground', async () => {
     // The model's healthy reference-to-ground resistance with the key off is the regulator's 1 kΩ off-state path.
-    const d = await diagnose(threeWire, [at(threeWire, 'reference_backprobed', 0.0), at(threeWire, 'reference_unplugged', 0.0), at(threeWire, 'reference_ohms_to_ground', 1002)]);
+    const d = await diagnoseFully(threeWire, [at(threeWire, 'reference_backprobed', 0.0), at(threeWire, 'reference_unplugged', 0.0), at(threeWire, 'reference_ohms_to_ground', 1002)]);
     expect(d.ranked[0]!.id).toBe('reference_supply_failed');
     expect(p(d, 'reference_short_ground')).toBeLessThan(0.05);
     expect(threeWire.hypotheses.find((h) => h.id === 'reference_supply_failed')!.part).toBe('module');
@@ -102,7 +103,7 @@ describe('a dead or weak 5 V supply', () => {
 
 describe('frozen scan values are judged against what the change should have done', () => {
   it('counts 0.000 V plugged then 0.000 V unplugged on a signal shorted to ground (it should not move)', async () => {
-    const d = await diagnose(threeWire, [at(threeWire, 'signal_backprobed', 0.0), at(threeWire, 'scan_signal_plugged', 0.0), at(threeWire, 'scan_signal_unplugged', 0.0)]);
+    const d = await diagnoseFully(threeWire, [at(threeWire, 'signal_backprobed', 0.0), at(threeWire, 'scan_signal_plugged', 0.0), at(threeWire, 'scan_signal_unplugged', 0.0)]);
     expect(d.path.map((e) => e.verdict)).toEqual(['counted', 'counted', 'counted']);
     expect(d.status).not.toBe('crank_and_reread');
   });
@@ -110,7 +111,7 @@ describe('frozen scan values are judged against what the change should have done
   it('calls 0.760 V then 0.761 V frozen when grounding the signal should have moved it', async () => {
     // The jumper's wires read safe first (the jumper safety rule): signal 0.76 V unplugged, ground drop 0.01 V.
     const safe = [at(threeWire, 'signal_unplugged', 0.76), at(threeWire, 'ground_drop_backprobed', 0.01)];
-    const d = await diagnose(threeWire, [...safe, at(threeWire, 'scan_signal_unplugged', 0.76), at(threeWire, 'jumper_signal_to_ground', 0.761)]);
+    const d = await diagnoseFully(threeWire, [...safe, at(threeWire, 'scan_signal_unplugged', 0.76), at(threeWire, 'jumper_signal_to_ground', 0.761)]);
     expect(d.path[3]!.verdict).toBe('frozen_scan');
     expect(d.status).toBe('crank_and_reread');
   });
@@ -118,14 +119,14 @@ describe('frozen scan values are judged against what the change should have done
 
 describe('evidence is counted once', () => {
   it('counts three identical readings of one test like one', async () => {
-    const once = await diagnose(threeWire, [at(threeWire, 'signal_backprobed', 0.82)]);
-    const thrice = await diagnose(threeWire, [at(threeWire, 'signal_backprobed', 0.82), at(threeWire, 'signal_backprobed', 0.82), at(threeWire, 'signal_backprobed', 0.82)]);
+    const once = await diagnoseFully(threeWire, [at(threeWire, 'signal_backprobed', 0.82)]);
+    const thrice = await diagnoseFully(threeWire, [at(threeWire, 'signal_backprobed', 0.82), at(threeWire, 'signal_backprobed', 0.82), at(threeWire, 'signal_backprobed', 0.82)]);
     for (const h of once.ranked) expect(Math.abs(p(thrice, h.id) - h.probability), h.id).toBeLessThan(0.02);
     expect(Math.abs(thrice.logEvidenceVsChance - once.logEvidenceVsChance)).toBeLessThan(1);
   });
 
   it('takes 0.8 / 5.0 / 0.8 V on one test as a sign of an intermittent and proposes a wiggle test', async () => {
-    const d = await diagnose(threeWire, [at(threeWire, 'signal_backprobed', 0.8), at(threeWire, 'signal_backprobed', 5.0), at(threeWire, 'signal_backprobed', 0.8)]);
+    const d = await diagnoseFully(threeWire, [at(threeWire, 'signal_backprobed', 0.8), at(threeWire, 'signal_backprobed', 5.0), at(threeWire, 'signal_backprobed', 0.8)]);
     expect(d.findings.some((f) => f.code === 'diagnosis.intermittent')).toBe(true);
     expect(d.nextTest?.reason).toBe('wiggle_test');
     expect(d.nextTest?.id).toBe('signal_backprobed');
@@ -156,7 +157,7 @@ describe('no test left is not a conclusion', () => {
   it('ends "exhausted" with no conclusion and no repair, naming the leading causes', async () => {
     const loaded = loadTree(doc());
     if (!loaded.ok) throw new Error(JSON.stringify(loaded.findings));
-    const d = await diagnose(loaded.tree, [at(loaded.tree, 'reference_plugged', 1.2)]);
+    const d = await diagnoseFully(loaded.tree, [at(loaded.tree, 'reference_plugged', 1.2)]);
     expect(d.status).toBe('exhausted');
     expect(d.conclusion).toBeNull();
     expect(d.undecided!.leading.map((h) => h.id).slice(0, 2)).toEqual(['a_cause', 'b_cause']);
