@@ -39,6 +39,7 @@ function row(tree: string, cause: string, policy: string, t: Tally): Record<stri
     right: `${t.right} (${pct(t.right, t.cases)})`,
     'confidently wrong': `${t.confidentlyWrong} (${pct(t.confidentlyWrong, t.cases)})`,
     undecided: `${t.undecided} (${pct(t.undecided, t.cases)})`,
+    'fault shows on no test': t.hidden,
     'mean readings': (t.readings / t.cases).toFixed(1),
     'mean minutes': (t.minutes / t.cases).toFixed(1),
   };
