@@ -75,7 +75,7 @@ type HealthyId = (typeof HEALTHY_IDS)[number];
  * - the sensor ground shorted to a battery-voltage circuit is hard (up to a few ohms: the chafe that reaches a
  *   feed);
  * - a short between signal and sensor ground is hard or partial (a few hundred ohms to a few kilohms: water in a
- *   connector or a chafe between the two wires);
+ *   connector or a chafe between the two wires), in the same forms as a signal short to ground;
  * - a three-wire sensor faulty inside has an open track, its output stuck at the reference or at ground, or its
  *   wiper lifted off the track (a thermistor: open).
  */
@@ -129,7 +129,9 @@ const CAUSE_ALTERNATIVES: Record<string, CauseAlternative[]> = {
   ground_short_voltage: [{ weight: 1, faults: [{ kind: 'short_to_voltage', wire: 'ground', ohms: 0.5 }], spreads: { shortOhms: [0.05, 5] } }],
   signal_short_sensor_ground: [
     { weight: 0.6, faults: [{ kind: 'short_between', wires: ['signal', 'ground'], ohms: 0.5 }], spreads: { shortOhms: [0.02, 5] } },
-    { weight: 0.4, faults: [{ kind: 'short_between', wires: ['signal', 'ground'], ohms: 700 }], spreads: { shortOhms: [150, 3000] } },
+    // The partial forms of a short to ground: from the sensor connector the two read alike, wire-to-wire isolation tells.
+    { weight: 0.2, faults: [{ kind: 'short_between', wires: ['signal', 'ground'], ohms: 1000 }], spreads: { shortOhms: [150, 1500] } },
+    { weight: 0.2, faults: [{ kind: 'short_between', wires: ['signal', 'ground'], ohms: 4000 }], spreads: { shortOhms: [1500, 6000] } },
   ],
   reference_supply_failed: [
     { weight: 0.25, faults: [{ kind: 'module_internal', variant: 'dead_regulator' }] },
