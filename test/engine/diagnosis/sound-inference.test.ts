@@ -48,8 +48,9 @@ describe('a circuit that tests good is not blamed on a part', () => {
     expect(d.nextTest!.id).toBe('reference_backprobed');
     const done = await diagnose(threeWire, [...values, ['reference_backprobed', 5.0] as [string, number]].map(([id, v]) => at(threeWire, id, v)));
     expect(p(done, 'reference_supply_failed')).toBeLessThan(0.05);
+    // Sagging only under load: a weak supply, or resistance in the reference wire (the drop along it tells which).
     const sagging = await diagnose(threeWire, [...values, ['reference_backprobed', 3.9] as [string, number]].map(([id, v]) => at(threeWire, id, v)));
-    expect(sagging.ranked[0]!.id).toBe('reference_supply_failed');
+    expect(sagging.ranked.slice(0, 2).map((r) => r.id).sort()).toEqual(['reference_high_resistance', 'reference_supply_failed']);
   });
 
   it('gives every built-in tree the "no fault now" cause with no repair part', () => {
