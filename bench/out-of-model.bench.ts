@@ -11,7 +11,8 @@
  * Each case is diagnosed to the end by the engine and by the fixed checklist (src/engine/diagnosis/drive.ts's
  * chooser). Right = proven on the true cause; confidently wrong = proven on another cause; undecided = the rest.
  * A healthy circuit is right only when proven `no_fault_now`; proven as a wire or part fault it is also counted
- * on its own line, the worst error.
+ * on its own line, the worst error. A wiring fault that shows on none of the tree's tests is right undecided or
+ * proven `no_fault_now` too, and counted in its own column.
  */
 import { builtInTrees, sharedReferenceTreeFor } from '../src/engine/diagnosis';
 import { checklistChooser, type TestChooser } from '../src/engine/diagnosis/drive';
@@ -39,6 +40,7 @@ function row(tree: string, cause: string, policy: string, t: Tally): Record<stri
     right: `${t.right} (${pct(t.right, t.cases)})`,
     'confidently wrong': `${t.confidentlyWrong} (${pct(t.confidentlyWrong, t.cases)})`,
     undecided: `${t.undecided} (${pct(t.undecided, t.cases)})`,
+    'fault shows on no test': t.hidden,
     'mean readings': (t.readings / t.cases).toFixed(1),
     'mean minutes': (t.minutes / t.cases).toFixed(1),
   };

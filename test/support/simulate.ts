@@ -16,9 +16,9 @@ function faultsOf(hypothesis: string) {
 export function simulatedReading(hypothesis: string, request: MeasurementRequest): { value: number | 'OL'; unit: string } {
   const faults = hypothesis === 'good' ? [] : faultsOf(hypothesis);
   const predicted = predictReading(defaultCircuit('three_wire_5v'), faults, request);
-  // An ohmmeter on a circuit that is powered anyway (a reference shorted to battery voltage) shows a number that
-  // means nothing; the technician types what it shows (common practice, no source).
-  if (!predicted.ok && predicted.findings.some((f) => f.code === 'measurement.ohms_on_powered_circuit')) return { value: 1234.5, unit: 'ohm' };
+  // An ohmmeter on a circuit that is powered anyway (a wire shorted to battery voltage) has its test current
+  // swamped and shows overload; the technician types what it shows (common practice, no source).
+  if (!predicted.ok && predicted.findings.some((f) => f.code === 'measurement.ohms_on_powered_circuit')) return { value: 'OL', unit: 'ohm' };
   if (!predicted.ok) throw new Error(`circuit model cannot predict ${JSON.stringify(request)}: ${predicted.findings[0]?.message}`);
   if (predicted.overload || !Number.isFinite(predicted.value)) return { value: 'OL', unit: UNIT[predicted.unit]! };
   return { value: Number(predicted.value.toFixed(predicted.unit === 'ohm' ? 1 : 3)), unit: UNIT[predicted.unit]! };

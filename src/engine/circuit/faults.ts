@@ -101,7 +101,7 @@ const FAULT_BEHAVIOURS: { [K in FaultKind]: FaultBehaviour<Extract<FaultSpec, { 
       const node = netlist.uniqueId(`hr_${f.wire}`);
       const from = half.nodes[0]!;
       half.nodes = [node, half.nodes[1]!];
-      netlist.add({ id: node, kind: 'resistor', nodes: [from, node], value: f.ohms });
+      netlist.add({ id: node, kind: 'resistor', nodes: [from, node], value: f.ohms, param: { key: `fault.series.${f.wire}.ohms`, scale: 1 } });
       return [];
     },
   },

@@ -55,51 +55,85 @@ type HealthyId = (typeof HEALTHY_IDS)[number];
 
 /**
  * Causes that cover several forms, each with a weight (common practice, no source):
- * - an open wire is often a corroded splice or terminal that still passes a little (ten kilohms and more on the
- *   reference: below that it looks like a weak supply from the sensor connector; a fraction of the bias
+ * - an open wire is often a corroded splice or terminal that still passes a little (3 kΩ and more on the
+ *   reference: below that it is the reference's high-resistance cause; a fraction of the bias
  *   resistance or more on the signal);
- * - a short between signal and reference is up to a few ohms;
- * - a short to ground on a signal is often partial (chafed insulation in water: a kilohm or a few);
- * - a high-resistance ground ranges from tens of ohms to a kilohm;
+ * - a short between signal and reference is up to a few ohms, or partial (a few hundred ohms to a few kilohms);
+ * - a short to ground on a signal is often partial (chafed insulation in water: a kilohm or a few); each form is
+ *   drawn across its range;
+ * - a high-resistance ground ranges from tens of ohms to a few kilohms (drawn across each form's range);
  * - a shorted 5 V reference is hard (up to a few ohms) or partial (tens of ohms), and the module's supply either
  *   holds its voltage or limits its current (about 0.1–0.3 A on a sensor supply), so it reads 0 V to a few volts;
  * - a failed 5 V supply is dead (0 V, or a few hundred millivolts of leakage), regulates low (3–4.5 V), is weak
  *   and sags under load (output resistance from a few hundred ohms to a few kilohms), or needs so much headroom
  *   that it holds 5 V on a 12 V battery and falls as the battery dips while the engine cranks (drop-out at 11.5 V);
  * - a failed module input reads module ground, full scale, or holds any fixed value;
+ * - a wire with high resistance short of an open (damaged strands, a corroded splice or terminal): on the reference
+ *   a hundred ohms to a few kilohms (beyond that it is the open reference's form), on the signal wire a few to
+ *   some tens of kilohms on a three-wire input (against a bias of 47 kΩ–1 MΩ), about a kilohm to tens of kilohms
+ *   on a thermistor input; a terminal with poor fit or corrosion is this same cause (the same wire to repair, and
+ *   with the leads on the harness side of the mated connector no tree test reads across the contact itself);
+ * - the sensor ground shorted to a battery-voltage circuit is hard (up to a few ohms: the chafe that reaches a
+ *   feed);
+ * - a short between signal and sensor ground is hard or partial (a few hundred ohms to a few kilohms: water in a
+ *   connector or a chafe between the two wires), in the same forms as a signal short to ground;
  * - a three-wire sensor faulty inside has an open track, its output stuck at the reference or at ground, stuck
  *   where its input rests (it reads right until the pedal or throttle moves), or its wiper lifted off the track
  *   where it rests (a thermistor: open).
  */
 const THREE_WIRE: CircuitKind[] = ['three_wire_5v'];
+const THERMISTOR: CircuitKind[] = ['two_wire_thermistor'];
 const LIMITED = (amps: number) => ({ currentLimitAmps: amps });
 const CAUSE_ALTERNATIVES: Record<string, CauseAlternative[]> = {
   reference_open: [
     { weight: 0.6, faults: [{ kind: 'open', wire: 'reference' }] },
-    { weight: 0.2, faults: [{ kind: 'high_resistance', wire: 'reference', ohms: 10_000 }] },
-    { weight: 0.2, faults: [{ kind: 'high_resistance', wire: 'reference', ohms: 50_000 }] },
+    { weight: 0.2, faults: [{ kind: 'high_resistance', wire: 'reference', ohms: 10_000 }], spreads: { seriesOhms: [3000, 30_000] } },
+    { weight: 0.2, faults: [{ kind: 'high_resistance', wire: 'reference', ohms: 50_000 }], spreads: { seriesOhms: [30_000, 300_000] } },
   ],
   signal_open: [
     { weight: 0.6, faults: [{ kind: 'open', wire: 'signal' }] },
     { weight: 0.2, faults: [{ kind: 'high_resistance', wire: 'signal', ohms: 100_000 }], kinds: THREE_WIRE },
     { weight: 0.2, faults: [{ kind: 'high_resistance', wire: 'signal', ohms: 500_000 }], kinds: THREE_WIRE },
   ],
-  signal_short_reference: [{ weight: 1, faults: [{ kind: 'short_between', wires: ['signal', 'reference'], ohms: 0.5 }], spreads: { shortOhms: [0.01, 5] } }],
+  signal_short_reference: [
+    { weight: 0.7, faults: [{ kind: 'short_between', wires: ['signal', 'reference'], ohms: 0.5 }], spreads: { shortOhms: [0.01, 5] } },
+    { weight: 0.3, faults: [{ kind: 'short_between', wires: ['signal', 'reference'], ohms: 700 }], spreads: { shortOhms: [150, 3000] } },
+  ],
   signal_short_ground: [
-    { weight: 0.6, faults: [{ kind: 'short_to_ground', wire: 'signal' }] },
-    { weight: 0.2, faults: [{ kind: 'short_to_ground', wire: 'signal', ohms: 1000 }] },
-    { weight: 0.2, faults: [{ kind: 'short_to_ground', wire: 'signal', ohms: 4000 }] },
+    { weight: 0.6, faults: [{ kind: 'short_to_ground', wire: 'signal' }], spreads: { shortOhms: [0.01, 5] } },
+    { weight: 0.2, faults: [{ kind: 'short_to_ground', wire: 'signal', ohms: 1000 }], spreads: { shortOhms: [150, 1500] } },
+    { weight: 0.2, faults: [{ kind: 'short_to_ground', wire: 'signal', ohms: 4000 }], spreads: { shortOhms: [1500, 6000] } },
   ],
   ground_high_resistance: [
-    { weight: 0.5, faults: [{ kind: 'high_resistance', wire: 'ground', ohms: 200 }] },
-    { weight: 0.25, faults: [{ kind: 'high_resistance', wire: 'ground', ohms: 50 }] },
-    { weight: 0.25, faults: [{ kind: 'high_resistance', wire: 'ground', ohms: 1000 }] },
+    { weight: 0.5, faults: [{ kind: 'high_resistance', wire: 'ground', ohms: 200 }], spreads: { seriesOhms: [100, 500] } },
+    { weight: 0.25, faults: [{ kind: 'high_resistance', wire: 'ground', ohms: 50 }], spreads: { seriesOhms: [30, 100] } },
+    { weight: 0.25, faults: [{ kind: 'high_resistance', wire: 'ground', ohms: 1000 }], spreads: { seriesOhms: [500, 6000] } },
   ],
   reference_short_ground: [
     { weight: 0.3, faults: [{ kind: 'short_to_ground', wire: 'reference' }] },
     { weight: 0.25, faults: [{ kind: 'short_to_ground', wire: 'reference', ohms: 1 }], regulator: LIMITED(0.1), spreads: { shortOhms: [0.05, 5] } },
     { weight: 0.2, faults: [{ kind: 'short_to_ground', wire: 'reference', ohms: 1 }], regulator: LIMITED(0.25), spreads: { shortOhms: [0.05, 5] } },
     { weight: 0.25, faults: [{ kind: 'short_to_ground', wire: 'reference', ohms: 15 }], regulator: LIMITED(0.15), spreads: { shortOhms: [5, 40] } },
+  ],
+  reference_high_resistance: [
+    { weight: 0.4, faults: [{ kind: 'high_resistance', wire: 'reference', ohms: 300 }], spreads: { seriesOhms: [80, 600] }, kinds: THREE_WIRE },
+    { weight: 0.4, faults: [{ kind: 'high_resistance', wire: 'reference', ohms: 1500 }], spreads: { seriesOhms: [600, 3000] }, kinds: THREE_WIRE },
+    // A sensor drawing several milliamps drops as much across a few kilohms as the model's potentiometer does across
+    // ten: this form keeps the drop along the wire from deciding between this cause and an open that still passes.
+    { weight: 0.2, faults: [{ kind: 'high_resistance', wire: 'reference', ohms: 6000 }], spreads: { seriesOhms: [3000, 12_000] }, kinds: THREE_WIRE },
+  ],
+  signal_high_resistance: [
+    { weight: 0.5, faults: [{ kind: 'high_resistance', wire: 'signal', ohms: 5000 }], spreads: { seriesOhms: [2000, 12_000] }, kinds: THREE_WIRE },
+    { weight: 0.5, faults: [{ kind: 'high_resistance', wire: 'signal', ohms: 30_000 }], spreads: { seriesOhms: [12_000, 70_000] }, kinds: THREE_WIRE },
+    { weight: 0.5, faults: [{ kind: 'high_resistance', wire: 'signal', ohms: 2000 }], spreads: { seriesOhms: [600, 4000] }, kinds: THERMISTOR },
+    { weight: 0.5, faults: [{ kind: 'high_resistance', wire: 'signal', ohms: 10_000 }], spreads: { seriesOhms: [4000, 30_000] }, kinds: THERMISTOR },
+  ],
+  ground_short_voltage: [{ weight: 1, faults: [{ kind: 'short_to_voltage', wire: 'ground', ohms: 0.5 }], spreads: { shortOhms: [0.05, 5] } }],
+  signal_short_sensor_ground: [
+    { weight: 0.6, faults: [{ kind: 'short_between', wires: ['signal', 'ground'], ohms: 0.5 }], spreads: { shortOhms: [0.02, 5] } },
+    // The partial forms of a short to ground: from the sensor connector the two read alike, wire-to-wire isolation tells.
+    { weight: 0.2, faults: [{ kind: 'short_between', wires: ['signal', 'ground'], ohms: 1000 }], spreads: { shortOhms: [150, 1500] } },
+    { weight: 0.2, faults: [{ kind: 'short_between', wires: ['signal', 'ground'], ohms: 4000 }], spreads: { shortOhms: [1500, 6000] } },
   ],
   reference_supply_failed: [
     { weight: 0.25, faults: [{ kind: 'module_internal', variant: 'dead_regulator' }] },

@@ -36,6 +36,8 @@ export interface Spreads {
   deadRegulatorVolts?: [number, number];
   /** A short's resistance, Ω, drawn log-uniformly (every short of the sample; unset = the fault's own). */
   shortOhms?: [number, number];
+  /** A high resistance's value in its wire, Ω, drawn log-uniformly (every one of the sample; unset = the fault's own). */
+  seriesOhms?: [number, number];
   /** The value a converter that reads a fixed value holds, V (only with a `fixed_input` module fault). */
   moduleInputVolts?: [number, number];
 }
@@ -115,6 +117,7 @@ function validateSampling(input: SampleInput, spreads: Spreads): Finding[] {
     ...(spreads.regulatorOffOhms ? checkRangePair(spreads.regulatorOffOhms, 'spreads.regulatorOffOhms', 'Regulator off resistance spread', true) : []),
     ...(spreads.deadRegulatorVolts ? checkRangePair(spreads.deadRegulatorVolts, 'spreads.deadRegulatorVolts', 'Dead regulator volts spread', false) : []),
     ...(spreads.shortOhms ? checkRangePair(spreads.shortOhms, 'spreads.shortOhms', 'Short resistance spread', true) : []),
+    ...(spreads.seriesOhms ? checkRangePair(spreads.seriesOhms, 'spreads.seriesOhms', 'High resistance spread', true) : []),
     ...(spreads.moduleInputVolts ? checkRangePair(spreads.moduleInputVolts, 'spreads.moduleInputVolts', 'Fixed input volts spread', false) : []),
   );
   if (!found.length && spreads.biasOhms[0] === 0 && input.circuit.module.bias.kind !== 'none') {
@@ -143,6 +146,10 @@ function paramSampler(input: SampleInput, spreads: Spreads, keys: string[], nomi
     if (spreads.shortOhms) {
       const ohms = Math.exp(uniform(random, Math.log(spreads.shortOhms[0]), Math.log(spreads.shortOhms[1])));
       for (const key of keys) if (key.startsWith('fault.short_')) draws.set(key, ohms);
+    }
+    if (spreads.seriesOhms) {
+      const ohms = Math.exp(uniform(random, Math.log(spreads.seriesOhms[0]), Math.log(spreads.seriesOhms[1])));
+      for (const key of keys) if (key.startsWith('fault.series.')) draws.set(key, ohms);
     }
     sensor.sample(input.circuit.sensor, spreads.sensorTolerance, u, draws);
     for (let i = 0; i < keys.length; i++) out[i] = draws.get(keys[i]!) ?? Number.NaN;

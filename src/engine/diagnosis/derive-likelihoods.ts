@@ -43,6 +43,17 @@ export function classesOf(doc: TreeDocument): ClassDocument[] {
 const MODULE_AMPS_NOMINAL = 0.5;
 const MODULE_SPREADS: Partial<Spreads> = { moduleAmps: [0.1, 1.0], moduleGroundOhms: [0.003, 0.04], chassisGroundOhms: [0.001, 0.03], regulatorOffOhms: [300, 100_000] };
 
+/**
+ * What an ohmmeter shows on a wire a short keeps at battery voltage with the key off: its test current is swamped,
+ * so it shows overload or a value that means nothing (common practice, no source: taken as half overload, half
+ * anywhere from 0.1 Ω to 60 MΩ log-uniformly). Sorted, overloads (+Infinity) last.
+ */
+function poweredOhms(samples: number): Float64Array {
+  const finite = Math.max(2, Math.floor(samples / 2));
+  const [lo, hi] = [Math.log(0.1), Math.log(60e6)];
+  return Float64Array.from({ length: 2 * finite }, (_, i) => (i < finite ? Math.exp(lo + ((hi - lo) * i) / (finite - 1)) : Infinity));
+}
+
 /** Sorted readings of one cell, or why the model cannot predict it. */
 function sampleCell(kind: CircuitKind, cls: ClassDocument, alt: CauseAlternative, test: TestDocument, spreads: Partial<Spreads>, opts: DeriveOptions): { values: Float64Array } | { problem: string } {
   const parts: Float64Array[] = [];
@@ -52,6 +63,7 @@ function sampleCell(kind: CircuitKind, cls: ClassDocument, alt: CauseAlternative
     circuit.module.regulator = { ...circuit.module.regulator, ...alt.regulator };
     const samples = Math.max(1, Math.round(opts.samples / cls.circuits.length));
     const sampled = sampleReadings({ circuit, faults: alt.faults, request: circuitRequest(test.request), samples, seed: opts.seed + 97 * j, spreads: { ...MODULE_SPREADS, ...spreads, ...alt.spreads, meterError: false } });
+    if (!sampled.ok && sampled.findings.every((f) => f.code === 'measurement.ohms_on_powered_circuit')) return { values: poweredOhms(opts.samples) };
     if (!sampled.ok) return { problem: sampled.findings.map((f) => f.message).join('; ') };
     parts.push(sampled.values);
   }
@@ -73,9 +85,9 @@ function toCell(values: Float64Array): { q: number[]; overload?: number } {
 const asCell = (c: { q: number[]; overload?: number }): Cell => ({ q: Float64Array.from(c.q), overload: c.overload ?? 0 });
 
 /**
- * Recomputes the predictive block, likelihood rows and bands of a circuit-model tree. A cell the model cannot
- * predict (an ohms reading on a circuit a short keeps powered) is stored as -1: the broad density, the test says
- * nothing about that cause.
+ * Recomputes the predictive block, likelihood rows and bands of a circuit-model tree. An ohms reading on a circuit
+ * a short keeps powered is half overload, half anything (`poweredOhms`); a cell the model cannot predict otherwise is
+ * stored as -1: the broad density, the test says nothing about that cause.
  */
 export function deriveLikelihoods(doc: TreeDocument, opts: DeriveOptions): { document: TreeDocument; findings: Finding[] } {
   const findings: Finding[] = [];

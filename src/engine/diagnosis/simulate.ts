@@ -78,8 +78,12 @@ export function simulateReading(c: SimulatedCase, request: TreeRequest, attempt 
   return Number((Math.round(noisy / resolution) * resolution).toPrecision(6));
 }
 
-/** A value for a request the model cannot predict: a technician's meter shows something arbitrary. */
-export function arbitraryReading(c: SimulatedCase, request: TreeRequest, attempt = 0): number {
+/**
+ * A value for a request the model cannot predict (an ohmmeter on a powered wire): overload or something arbitrary,
+ * half and half, the arbitrary value log-uniform from 0.1 Ω to 60 MΩ, as the derivation assumes.
+ */
+export function arbitraryReading(c: SimulatedCase, request: TreeRequest, attempt = 0): number | 'overload' {
   const random = mulberry32(c.noiseSeed ^ hashString(`arbitrary:${JSON.stringify(request)}#${attempt}`));
-  return Number((random() * 2000).toFixed(1));
+  if (random() < 0.5) return 'overload';
+  return Number(Math.exp(Math.log(0.1) + random() * (Math.log(60e6) - Math.log(0.1))).toPrecision(4));
 }

@@ -61,7 +61,8 @@ describe('no jumper before its wires were measured at or below 5.5 V key on', ()
 
 // Every cause the circuit model knows that fits the circuit (tree causes and faults no tree names), each variant, two
 // seeds: the engine drives the diagnosis on the simulated circuit and no jumper may come before its wires were measured.
-describe.each(Object.values(trees).filter((t) => t.circuitKind !== 'shared_5v_reference'))('the jumper rule over every cause of the %s tree', (tree) => {
+// Named by id: a whole tree object in the title is as long as its document.
+describe.each(Object.values(trees).filter((t) => t.circuitKind !== 'shared_5v_reference').map((t) => [t.id, t] as const))('the jumper rule over every cause of the %s tree', (_id, tree) => {
   const variants = tree.document.derivation?.variants?.map((v) => v.id) ?? ['default'];
   const sample = drawCase(tree, mulberry32(1));
   const causes = HYPOTHESIS_IDS.filter((id) => validateFaults(faultsFor(id), sample.circuit).length === 0);

@@ -6,6 +6,7 @@
 import { describe, expect, it } from 'vitest';
 import { builtInTrees, type Diagnosis } from '../../../src/engine/diagnosis';
 import { blamesAPart, isProven } from '../../support/out-of-model/drive';
+import { drawOomCase, faultShows, singleCircuit } from '../../support/out-of-model/cases';
 
 const conclusion = (reachedThreshold: boolean) => ({ hypothesisId: 'ground_open', label: 'x', probability: 0.97, repair: { part: 'ground', action: 'x' }, decidedBy: [], reachedThreshold });
 const diagnosis = (status: Diagnosis['status'], c: ReturnType<typeof conclusion> | null) => ({ status, conclusion: c }) as unknown as Diagnosis;
@@ -36,5 +37,29 @@ describe('which causes blame a wire or part', () => {
   it('does not count "no fault now" (repair part "none") as blaming a part', () => {
     expect(tree.hypotheses.find((h) => h.id === 'no_fault_now')?.part).toBe('none');
     expect(blamesAPart(tree, 'no_fault_now')).toBe(false);
+  });
+});
+
+describe('a wiring fault counts as hidden only when no test of the tree shows it', () => {
+  const tree = builtInTrees()['three-wire-5v']!;
+  const requests = tree.tests.map((t) => t.request);
+  const withSeries = (ohms: number) => {
+    const c = drawOomCase('three-wire-5v', 'reference_high_resistance', 0, 5);
+    singleCircuit(c).faults = [{ kind: 'series', wire: 'reference', ohms }];
+    return c;
+  };
+  // 1 mΩ is below every reading's resolution (the ohms display steps 0.1 Ω, common practice, no source); 100 Ω
+  // reads end to end as 100 Ω against a fraction of an ohm.
+  it.each([
+    ['a milliohm in the reference', 0.001, false],
+    ['a hundred ohms in the reference', 100, true],
+    ['an open reference', 1e10, true],
+  ] as const)('%s: shows %s', (_name, ohms, shows) => {
+    expect(faultShows(withSeries(ohms), requests)).toBe(shows);
+  });
+
+  it('counts a healthy circuit and a case whose fault is not in the wiring as showing', () => {
+    expect(faultShows(drawOomCase('three-wire-5v', 'no_fault_now', 0, 5), requests)).toBe(true);
+    expect(faultShows(drawOomCase('three-wire-5v', 'module_internal', 0, 5), requests)).toBe(true);
   });
 });

@@ -52,9 +52,10 @@ describe('a circuit that tests good is not blamed on a part', () => {
     expect(['reference_backprobed', 'reference_while_cranking']).toContain(d.nextTest!.id);
     const done = await diagnoseFully(threeWire, [...values, ['reference_backprobed', 5.0], ['reference_while_cranking', 4.97]].map(([id, v]) => at(threeWire, id as string, v as number)));
     expect(p(done, 'reference_supply_failed')).toBeLessThan(0.05);
+    // Sagging only under load: a weak supply, or resistance in the reference wire (the drop along it tells which).
     // A sagging supply would pull the pressed throttle down with it: that reading is left out here.
     const sagging = await diagnoseFully(threeWire, [...values.filter(([id]) => id !== 'signal_full_travel'), ['reference_backprobed', 3.9] as [string, number]].map(([id, v]) => at(threeWire, id, v)));
-    expect(sagging.ranked[0]!.id).toBe('reference_supply_failed');
+    expect(sagging.ranked.slice(0, 2).map((r) => r.id).sort()).toEqual(['reference_high_resistance', 'reference_supply_failed']);
   });
 
   it('gives every built-in tree the "no fault now" cause with no repair part', () => {

@@ -13,7 +13,7 @@ import { hashString, splitmix32, type Random } from './random';
 import type { MeasurementRequest } from '../../../src/engine/vocabulary';
 import type { CircuitCase, Fault, Sensor, Wire } from './circuits';
 import { SHARED_SENSORS, sharedReading, sharedTrueValue, type SharedCase, type SharedSensor } from './shared-reference';
-import { instrumentReading, trueValue, type Instruments } from './instruments';
+import { instrumentReading, METER, statedError, trueValue, type Instruments } from './instruments';
 import { NTC_CURVES } from './ntc';
 
 export type OomTreeId = 'three-wire-5v' | 'two-wire-thermistor' | 'shared-reference';
@@ -32,7 +32,7 @@ export interface OomCase {
   adcStuck?: number;
 }
 
-/** Causes per tree, in report order: every modelled hypothesis (not `unknown`) plus the two new ones. */
+/** Causes per tree, in report order: every modelled hypothesis (not `unknown`) plus a healthy circuit and a failed supply. */
 export const OOM_CAUSES: Record<OomTreeId, readonly string[]> = {
   'three-wire-5v': [
     'no_fault_now',
@@ -48,6 +48,10 @@ export const OOM_CAUSES: Record<OomTreeId, readonly string[]> = {
     'ground_high_resistance',
     'sensor_internal',
     'module_internal',
+    'reference_high_resistance',
+    'signal_high_resistance',
+    'ground_short_voltage',
+    'signal_short_sensor_ground',
   ],
   'two-wire-thermistor': [
     'no_fault_now',
@@ -60,6 +64,9 @@ export const OOM_CAUSES: Record<OomTreeId, readonly string[]> = {
     'sensor_internal',
     'sensor_internal_shorted',
     'module_internal',
+    'signal_high_resistance',
+    'ground_short_voltage',
+    'signal_short_sensor_ground',
   ],
   'shared-reference': [
     'no_fault_now',
@@ -144,7 +151,8 @@ function drawFault(cause: string, c: CircuitCase, random: Random): Draw {
       return { faults: [], variant: 'healthy' };
     case 'reference_open': {
       if (random() < 0.65) return { faults: [{ kind: 'series', wire: 'reference', ohms: OPEN(random) }], variant: 'open' };
-      const ohms = logU(random, 1_000, 200_000);
+      // From 3 kΩ: below that it is the reference's high-resistance cause, drawn on its own.
+      const ohms = logU(random, 3_000, 200_000);
       return { faults: [{ kind: 'series', wire: 'reference', ohms }], variant: `high resistance ${Math.round(ohms)} Ω` };
     }
     case 'reference_short_ground': {
@@ -187,7 +195,6 @@ function drawFault(cause: string, c: CircuitCase, random: Random): Draw {
       const adcStuck = form === 'reads 0' ? 0 : form === 'reads full scale' ? 5 : u(random, 0.3, 4.7);
       return { faults: [], variant: `input ${form}`, adcStuck };
     }
-    // Causes the circuit model knows but no built-in tree lists yet (drawn when a tree adds them).
     // Resistance a wire picks up short of an open (strands broken, a corroded splice): enough to matter, not a break.
     case 'reference_high_resistance': {
       const ohms = logU(random, 100, 3_000);
@@ -252,6 +259,31 @@ function showsItself(c: OomCase): boolean {
   if (c.adcStuck !== undefined) return Math.abs(Math.min(5, trueValue(c.circuit, c.instruments, KEY_ON_PLUGGED)) - c.adcStuck) > 0.5;
   return true;
 }
+
+/**
+ * Whether a case's wiring fault shows on any of `requests` at all: some reading's true value differs from the same
+ * circuit's without the fault by more than the instrument's stated accuracy on both (a scan value: two converter
+ * steps). A fault that shows on none (a resistance too small for the current through it) cannot be told from a
+ * healthy circuit by these tests. Cases whose fault is not in the wiring (a failed supply, a misreading module
+ * input) were drawn to show themselves and count as showing.
+ */
+export function faultShows(c: OomCase, requests: readonly MeasurementRequest[]): boolean {
+  if (!('kind' in c.circuit) || c.circuit.faults.length === 0 || c.adcStuck !== undefined) return true;
+  const faulted = c.circuit;
+  const healthy: CircuitCase = { ...faulted, faults: [] };
+  return requests.some((request) => {
+    const { sensor: _sensor, ...r } = request;
+    const a = trueValue(faulted, c.instruments, r as MeasurementRequest);
+    const b = trueValue(healthy, c.instruments, r as MeasurementRequest);
+    if (request.quantity === 'scan_value') return Math.abs(clampScan(a, c.instruments) - clampScan(b, c.instruments)) > (2 * c.instruments.adcFullScale) / (2 ** c.instruments.adcBits - 1);
+    const over = (v: number) => !Number.isFinite(v) || (request.quantity === 'ohms' && v >= METER.maxOhms);
+    if (over(a) || over(b)) return over(a) !== over(b);
+    const spec = request.quantity === 'ohms' ? METER.ohms : METER.volts;
+    return Math.abs(a - b) > statedError(a, spec) + statedError(b, spec);
+  });
+}
+
+const clampScan = (v: number, inst: Instruments) => Math.min(inst.adcFullScale, Math.max(0, v));
 
 /** A stratified set: `perCause` cases of every cause of the tree. */
 export function oomCases(tree: OomTreeId, perCause: number, seed: number): OomCase[] {

@@ -9,11 +9,16 @@
  * - undecided: everything else (no test left, "not proven", step cap). For a healthy circuit (`no_fault_now`)
  *   only a proven `no_fault_now` is right; undecided is safe but not right; proven as a wire or part fault
  *   (any cause whose repair names a part, not "none" or "unknown") is the worst error and is counted on its own.
+ * - a wiring fault that shows on none of the tree's tests (`faultShows`: every reading within the instrument's
+ *   accuracy of the same circuit without it) cannot be told from a healthy circuit: for it, undecided and a proven
+ *   "no fault now" are right too (a proven wire or part fault other than the true one stays confidently wrong).
+ *   Such cases are counted on their own line.
  */
 import { diagnose, requestKey, type Diagnosis, type DiagnosisOptions, type Reading, type Tree } from '../../../src/engine/diagnosis';
 import { UNBOUNDED_PLANNING_MS, type TestChooser } from '../../../src/engine/diagnosis/drive';
 import type { TreeRequest } from '../../../src/engine/diagnosis/request-key';
-import { answerOomRequest, type OomCase } from './cases';
+import { HEALTHY_CAUSE } from '../../../src/engine/diagnosis/load-tree';
+import { answerOomRequest, faultShows, type OomCase } from './cases';
 
 export type Verdict = 'right' | 'confidently_wrong' | 'undecided';
 
@@ -25,6 +30,8 @@ export interface OomRun {
   healthyBlamed: boolean;
   /** Proven on a wrong cause whose repair names a wire or part (not "none" or "unknown"). */
   wrongPartBlamed: boolean;
+  /** The case's fault shows on none of the tree's tests. */
+  hidden: boolean;
   /** Proven wrongly as `no_fault_now` (a fault missed) or as `unknown` (not modelled). */
   wrongNoFault: boolean;
   wrongUnknown: boolean;
@@ -70,9 +77,10 @@ export async function runOomCase(tree: Tree, c: OomCase, opts: { choose?: TestCh
     latencies.push(performance.now() - t0);
     if (d.status === 'concluded' || d.status === 'exhausted' || !d.nextTest || step >= (opts.maxSteps ?? STEP_CAP)) {
       const proven = isProven(d) ? d.conclusion!.hypothesisId : null;
-      const verdict: Verdict = proven === null ? 'undecided' : proven === c.cause ? 'right' : 'confidently_wrong';
+      const hidden = !faultShows(c, tree.tests.map((t) => t.request));
+      const verdict: Verdict = proven === c.cause || (hidden && (proven === null || proven === HEALTHY_CAUSE)) ? 'right' : proven === null ? 'undecided' : 'confidently_wrong';
       const blames = proven !== null && blamesAPart(tree, proven);
-      return { verdict, proven, healthyBlamed: c.cause === 'no_fault_now' && blames, wrongPartBlamed: verdict === 'confidently_wrong' && blames, wrongNoFault: verdict === 'confidently_wrong' && proven === 'no_fault_now', wrongUnknown: verdict === 'confidently_wrong' && proven === 'unknown', status: d.status, readings: readings.length, minutes, latencies, last: d, taken: readings };
+      return { verdict, proven, hidden, healthyBlamed: c.cause === 'no_fault_now' && blames, wrongPartBlamed: verdict === 'confidently_wrong' && blames, wrongNoFault: verdict === 'confidently_wrong' && proven === 'no_fault_now', wrongUnknown: verdict === 'confidently_wrong' && proven === 'unknown', status: d.status, readings: readings.length, minutes, latencies, last: d, taken: readings };
     }
     const override = d.status === 'testing' && opts.choose ? opts.choose(tree, d) : undefined;
     const test = override ?? tree.tests.find((t) => t.id === d.nextTest!.id)!;
@@ -100,11 +108,12 @@ export interface Tally {
   wrongPartBlamed: number;
   wrongNoFault: number;
   wrongUnknown: number;
+  hidden: number;
   readings: number;
   minutes: number;
 }
 
-export const emptyTally = (): Tally => ({ cases: 0, right: 0, confidentlyWrong: 0, undecided: 0, healthyBlamed: 0, wrongPartBlamed: 0, wrongNoFault: 0, wrongUnknown: 0, readings: 0, minutes: 0 });
+export const emptyTally = (): Tally => ({ cases: 0, right: 0, confidentlyWrong: 0, undecided: 0, healthyBlamed: 0, wrongPartBlamed: 0, wrongNoFault: 0, wrongUnknown: 0, hidden: 0, readings: 0, minutes: 0 });
 
 export function addRun(t: Tally, run: OomRun): void {
   t.cases++;
@@ -115,6 +124,7 @@ export function addRun(t: Tally, run: OomRun): void {
   if (run.wrongPartBlamed) t.wrongPartBlamed++;
   if (run.wrongNoFault) t.wrongNoFault++;
   if (run.wrongUnknown) t.wrongUnknown++;
+  if (run.hidden) t.hidden++;
   t.readings += run.readings;
   t.minutes += run.minutes;
 }

@@ -45,6 +45,11 @@ function resolution(value: number): number {
   return range / METER.counts;
 }
 
+/** The stated accuracy band of a reading of `value`: ±(percent + counts). */
+export function statedError(value: number, spec: { percent: number; counts: number }): number {
+  return (spec.percent / 100) * Math.abs(value) + spec.counts * resolution(value);
+}
+
 /** The noise source of one attempt of one request: the same (case, request, attempt) always reads the same. */
 export function readingRandom(noiseSeed: number, r: MeasurementRequest, attempt: number): () => number {
   return splitmix32(noiseSeed ^ hashString(`${JSON.stringify(r)}#${attempt}`));
