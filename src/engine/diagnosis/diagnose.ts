@@ -14,6 +14,7 @@ import { jumperSafety } from './safety-rules';
 import { decide, type ResolvedOptions, type TestProgress } from './status-rules';
 import { weighCodes } from './code-evidence';
 import { undecided } from './undecided';
+import { pairComparisons, halfLabel, type ComparisonEntry } from './comparisons';
 import type { Test, Tree } from './tree-model';
 import type { Diagnosis, DiagnosisOptions, NextTest, PathEntry, Reading, Repair } from './index';
 import type { Posterior } from './posterior';
@@ -143,6 +144,8 @@ export async function runDiagnosis(untouched: Tree, readings: readonly Reading[]
   for (const r of ctx.readings) {
     const base = { readingId: r.id, takenAt: new Date(r.takenAtMs).toISOString(), value: r.value === Infinity ? 'overload' : r.value, testId: r.test?.id, testLabel: r.test?.label };
     const early = verdictOf(r, ctx);
+    // A reading that answers only a comparison is paired below.
+    if (!r.test && r.halves.length && early?.verdict !== 'invalid') continue;
     if (r.test && early?.verdict !== 'not_in_tree' && early?.verdict !== 'verification') paid |= r.test.setupMask;
     if (early) {
       path.push({ ...base, verdict: early.verdict, note: early.note });
@@ -173,6 +176,16 @@ export async function runDiagnosis(untouched: Tree, readings: readonly Reading[]
     path.push({ ...base, verdict: 'counted', outcomeId: outcome.id, outcomeLabel: outcome.label, note: `outcome: ${outcome.label}${within}${r.conversion ? `; ${r.conversion}` : ''}` });
   }
 
+  const frozen = new Set(path.filter((p) => p.verdict === 'frozen_scan').map((p) => p.readingId));
+  const paired = await pairComparisons(ctx, frozen);
+  counted.push(...paired.counted);
+  path.push(...paired.path);
+  paid |= paired.paid;
+  for (const c of paired.counted) progress[c.test.index]!.counted++;
+  for (const { test, reading } of paired.indeterminate) progress[test.index]!.indeterminate.push(reading);
+  // Time order as read (refused readings, which have none, stay first).
+  const order = new Map(ctx.readings.map((r) => [r.id, r.index]));
+  path.sort((x, y) => (order.get(x.readingId) ?? -1) - (order.get(y.readingId) ?? -1));
   const evidence = groupEvidence(counted);
   const post = posterior(tree, evidence);
   const model = policyModel(tree, resolved, planningLikelihoods(tree, post));
@@ -193,7 +206,7 @@ export async function runDiagnosis(untouched: Tree, readings: readonly Reading[]
   const leader = argmax(post.p);
   const against = contradictingReadings(tree, post, leader);
   const factors = readingFactors(tree, post, leader);
-  const confirmedBy = factors.filter((f) => f.factor > CONFIRMING_FACTOR).flatMap((f) => f.ids);
+  const confirmedBy = [...new Set(factors.filter((f) => f.factor > CONFIRMING_FACTOR).flatMap((f) => f.ids))];
   const decision = decide({ tree, options: resolved, evidence, posterior: post, progress, replacements, readingIndex, model, state, leaderContradictedBy: against, leaderConfirmedBy: confirmedBy, blocked: safety.blocked });
 
   const ranked = tree.hypotheses
@@ -206,12 +219,12 @@ export async function runDiagnosis(untouched: Tree, readings: readonly Reading[]
           label: tree.hypotheses[leader]!.label,
           probability: post.p[leader]!,
           repair: { part: tree.hypotheses[leader]!.part, action: tree.hypotheses[leader]!.repairAction },
-          decidedBy: factors.filter((f) => f.factor > 1.5).flatMap((f) => f.ids),
+          decidedBy: [...new Set(factors.filter((f) => f.factor > 1.5).flatMap((f) => f.ids))],
           confirmedBy,
           reachedThreshold: true,
         }
       : null;
-  const nextTest: NextTest | null = decision.choice ? nextTestOf(tree, decision.choice, paid, ranked, resolved.leadingCauses, model) : null;
+  const nextTest: NextTest | null = decision.choice ? nextTestOf(tree, decision.choice, paid, ranked, resolved.leadingCauses, model, paired.entries) : null;
   return {
     treeId: tree.id,
     treeVersion: tree.version,
@@ -224,6 +237,7 @@ export async function runDiagnosis(untouched: Tree, readings: readonly Reading[]
     logZ: post.logZ,
     logEvidenceVsChance: post.logEvidenceVsChance,
     codesWeighed: coded.codesWeighed,
+    comparisons: paired.entries,
     findings: [...findings, ...decision.findings],
   };
 }
@@ -240,6 +254,7 @@ function nextTestOf(
   ranked: Diagnosis['ranked'],
   leading: number,
   model: PolicyModel,
+  comparisons: readonly ComparisonEntry[],
 ): NextTest {
   const test = choice.test;
   const setupsToDo = test.setups.filter((s) => !((paid >> s.index) & 1));
@@ -258,7 +273,9 @@ function nextTestOf(
     minutes: test.minutes,
     setupMinutes,
     totalMinutes: test.minutes + setupMinutes,
-    request: structuredClone(choice.request),
+    // A comparison asks for the half still missing (its first half once both are in, to take them again).
+    request: structuredClone(halfToTake(test, choice.request, comparisons.find((c) => c.testId === test.id))),
+    ...(test.compare ? { comparison: comparisonOf(tree, test, comparisons.find((c) => c.testId === test.id)) } : {}),
     outcomes: test.outcomes.map((o) => ({ id: o.id, label: o.label, range: o.interval ? [o.interval.lo, o.interval.hi] : null })),
     predictions: ranked
       .filter((h) => h.probability > 0.01)
@@ -273,4 +290,20 @@ function nextTestOf(
     strategy: choice.strategy ?? null,
     ranking: choice.ranking ?? [],
   };
+}
+
+function halfToTake(test: Test, request: NextTest['request'], entry: ComparisonEntry | undefined): NextTest['request'] {
+  if (!test.compare || !entry) return request;
+  return entry.first.readingId !== null && entry.second.readingId === null ? test.compare.request : request;
+}
+
+/** Both halves of a comparison for the screen: what each reads and what is already taken. */
+function comparisonOf(tree: Tree, test: Test, entry: ComparisonEntry | undefined): NonNullable<NextTest['comparison']> {
+  const half = (h: 'first' | 'second') => ({
+    label: halfLabel(tree, test, h),
+    request: structuredClone(h === 'first' ? test.request : test.compare!.request),
+    readingId: entry?.[h].readingId ?? null,
+    value: entry?.[h].value ?? null,
+  });
+  return { unit: test.unit ?? 'V', first: half('first'), second: half('second') };
 }

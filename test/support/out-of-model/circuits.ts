@@ -21,7 +21,9 @@ export type Fault =
   | { kind: 'series'; wire: Wire; ohms: number }
   /** From a wire's fault point to chassis ground, to the battery-voltage circuit, or to another wire. */
   | { kind: 'shunt'; wire: Wire; to: 'chassis' | 'feed' | Wire; ohms: number }
-  | { kind: 'sensor'; variant: 'element_open' | 'wiper_open' | 'output_to_reference' | 'output_to_ground' | 'output_dead' | 'output_high' | 'ntc_open' | 'ntc_shorted'; ohms: number };
+  | { kind: 'sensor'; variant: 'element_open' | 'wiper_open' | 'output_to_reference' | 'output_to_ground' | 'output_dead' | 'output_high' | 'ntc_open' | 'ntc_shorted'; ohms: number }
+  /** A thermistor that has drifted: it has the resistance of its own curve `celsius` warmer than it is. */
+  | { kind: 'sensor'; variant: 'ntc_skewed'; celsius: number };
 
 export interface CircuitCase {
   kind: 'three_wire_5v' | 'two_wire_thermistor';
@@ -138,7 +140,8 @@ function stampSensor(n: Net, c: CircuitCase, wires: Wire[]): void {
   const fault = c.faults.find((f): f is Extract<Fault, { kind: 'sensor' }> => f.kind === 'sensor');
   const s = c.sensor;
   if (s.kind === 'ntc') {
-    const ohms = fault?.variant === 'ntc_open' || fault?.variant === 'ntc_shorted' ? fault.ohms : ntcOhms(s.curve, s.celsius);
+    const ohms =
+      fault?.variant === 'ntc_skewed' ? ntcOhms(s.curve, s.celsius + fault.celsius) : fault?.variant === 'ntc_open' || fault?.variant === 'ntc_shorted' ? fault.ohms : ntcOhms(s.curve, s.celsius);
     n.r('ntc', 'p_sig', 'p_gro', ohms);
     return;
   }
