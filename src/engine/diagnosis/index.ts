@@ -67,7 +67,7 @@ export interface Reading {
   /** SI units (volts, ohms, amps); scan values as shown. An open ohms reading is `"overload"`. */
   value: number | 'overload';
   /**
-   * The unit of a scan value (V when absent). Another unit is converted to the test's where a published conversion
+   * The unit of a scan value (when absent: V, or °C for a half of a comparison of two temperature PIDs). Another unit is converted to the test's where a published conversion
    * exists (% of the converter's full scale; °C on a thermistor circuit), else the reading is refused.
    */
   unit?: string;
