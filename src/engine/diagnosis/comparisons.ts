@@ -41,6 +41,8 @@ export interface PairedComparisons {
   paid: number;
   /** Comparison tests whose pair fell between two outcomes, with the later reading. */
   indeterminate: Array<{ test: Test; reading: CheckedReading }>;
+  /** Counted pairs: the later reading of each (whose own test, if any, the difference stands in for). */
+  pairs: Array<{ test: Test; earlier: CheckedReading; later: CheckedReading }>;
 }
 
 /** What a half reads, in words: the test of its own, else the PID's name, else its quantity and point. */
@@ -82,7 +84,7 @@ async function outcomeOf(test: Test, value: number, request: TreeRequest): Promi
 
 /** Pairs the halves of every comparison test of the tree. `excluded`: readings called frozen scan values. */
 export async function pairComparisons(ctx: ReadingContext, excluded: ReadonlySet<string>): Promise<PairedComparisons> {
-  const out: PairedComparisons = { counted: [], path: [], entries: [], paid: 0, indeterminate: [] };
+  const out: PairedComparisons = { counted: [], path: [], entries: [], paid: 0, indeterminate: [], pairs: [] };
   for (const test of ctx.tree.tests.filter((t) => t.compare)) {
     const unit = test.unit ?? 'V';
     const states = { first: halfState(ctx, test, 'first', excluded), second: halfState(ctx, test, 'second', excluded) };
@@ -106,6 +108,7 @@ export async function pairComparisons(ctx: ReadingContext, excluded: ReadonlySet
       if (hit.length === 1) {
         const outcome = test.outcomes.find((o) => o.id === hit[0])!;
         out.counted.push({ id: later.id, test, value: difference, outcome: outcome.index });
+        out.pairs.push({ test, earlier: later === a ? b : a, later });
         Object.assign(entry, { verdict: 'counted', outcomeId: outcome.id, outcomeLabel: outcome.label });
         entry.note = `${entry.first.label} ${fmt(a.value, unit).replace(/^\+/, '')} less ${entry.second.label} ${fmt(b.value, unit).replace(/^\+/, '')}: ${fmt(difference, unit)}, outcome: ${outcome.label}`;
       } else {

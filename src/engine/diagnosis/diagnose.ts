@@ -178,6 +178,17 @@ export async function runDiagnosis(untouched: Tree, readings: readonly Reading[]
 
   const frozen = new Set(path.filter((p) => p.verdict === 'frozen_scan').map((p) => p.readingId));
   const paired = await pairComparisons(ctx, frozen);
+  // When both halves answer tests of their own, the later one is weighed only through the difference (its own value
+  // given the earlier one's): counting it twice would count the same reading twice. Its test is still done.
+  const standIns: Array<{ test: number; outcome: number }> = [];
+  for (const { earlier, later } of paired.pairs) {
+    const own = counted.findIndex((c) => c.id === later.id && c.test === later.test);
+    if (!earlier.test || own < 0 || !counted.some((c) => c.id === earlier.id && c.test === earlier.test)) continue;
+    standIns.push({ test: counted[own]!.test.index, outcome: counted[own]!.outcome });
+    counted.splice(own, 1);
+    const entry = path.find((p) => p.readingId === later.id);
+    if (entry) entry.note += '; weighed through its comparison with the reading paired with it, not again on its own';
+  }
   counted.push(...paired.counted);
   path.push(...paired.path);
   paid |= paired.paid;
@@ -191,6 +202,7 @@ export async function runDiagnosis(untouched: Tree, readings: readonly Reading[]
   const model = policyModel(tree, resolved, planningLikelihoods(tree, post));
   const done = new Int16Array(tree.tests.length).fill(-1);
   for (const e of evidence) done[e.test] = e.outcome;
+  for (const s of standIns) if (done[s.test] === -1) done[s.test] = s.outcome;
   progress.forEach((p, i) => {
     if (p.counted === 0 && p.indeterminate.length >= resolved.maxAttempts) {
       done[i] = -2;

@@ -18,7 +18,7 @@ export const TREE_LIMITS = {
   documentBytes: { max: 524_288, what: 'size of the tree document (UTF-8 JSON bytes)' },
   documentDepth: { max: 48, what: 'nesting depth of the tree document (objects and arrays)' },
   causes: { max: 40, what: 'causes (hypotheses, the unknown one included)' },
-  tests: { max: 40, what: 'tests' },
+  tests: { max: 48, what: 'tests' },
   outcomesPerTest: { max: 8, what: 'outcomes of one test' },
   setups: { max: 30, what: 'set-ups' },
   conditionDepth: { max: 12, what: 'nesting depth of one outcome condition (all / any / not)' },
