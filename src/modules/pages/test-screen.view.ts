@@ -86,13 +86,20 @@ function comparisonsPanel(d: CircuitDiagnosis['diagnosis']): SafeHtml {
     )}</ul></section>`;
 }
 
+/** The predicted difference of a comparison, first less second, signed, in its unit. */
+function differenceRange(band: NextTest['predictions'][number]['band'], unit: string): string | null {
+  if (!band || band.p5 === 'overload' || band.p95 === 'overload') return null;
+  const signed = (x: number) => `${x > 0 ? '+' : x < 0 ? '−' : ''}${Number(Math.abs(x).toFixed(unit === '°C' ? 0 : 3))} ${unit}`;
+  return `${signed(band.p5)} to ${signed(band.p95)} (first less second)`;
+}
+
 function expectations(next: NextTest, entry: Entry): SafeHtml {
   const scan = entry.request.quantity === 'scan_value';
   const outcome = (id: string) => next.outcomes.find((o) => o.id === id)?.label ?? id;
   return html`<h3>What each likely cause would make the ${scan ? 'scan tool' : 'meter'} show</h3>
     <table class="table expect"><thead><tr><th scope="col">If it is</th><th scope="col">Most likely</th><th scope="col">Could read (9 in 10 times)</th></tr></thead>
     <tbody>${next.predictions.map((p) => {
-      const range = predictedRange(p.band, entry.request.quantity);
+      const range = next.comparison ? differenceRange(p.band, next.comparison.unit) : predictedRange(p.band, entry.request.quantity);
       return html`<tr><th scope="row">${p.label} <span class="muted">(${percent(p.probability)})</span></th>
         <td>${outcome(p.likelyOutcome)}</td><td>${range ?? html`<span class="muted">no range modelled</span>`}</td></tr>`;
     })}</tbody></table>`;
