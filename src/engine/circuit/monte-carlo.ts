@@ -11,6 +11,7 @@ import { evaluatorFor, prepareReading } from './predict';
 import { mulberry32, uniform, type Random } from './prng';
 import { sensorBehaviour } from './sensors';
 import { scanReadout } from './scan-readout';
+import { MODULE_GROUND_NODE, MODULE_PIN } from './build';
 import type { CircuitSpec, FaultSpec, MeterSpec, ReadingUnit } from './types';
 
 /** Part spreads, each drawn uniformly within its range. */
@@ -226,13 +227,18 @@ function prepareHalf(input: SampleInput, request: MeasurementRequest, meter: Met
   const evaluator = evaluatorFor(prepared.value, compiled);
   if (!evaluator.ok) return evaluator;
   const nominal = prepared.value.netlist.params();
+  // A converter reading: the module's 5 V at the pull-up comes out of the same solve (a ratiometric readout uses it).
+  const rail = compiled.index(MODULE_PIN.reference);
+  const ground = compiled.index(MODULE_GROUND_NODE)!;
+  const x = new Float64Array(compiled.size);
+  const railVolts = () => (rail === undefined ? undefined : (compiled.solveSources(x), (rail < 0 ? 0 : x[rail]!) - (ground < 0 ? 0 : x[ground]!)));
   return {
     ok: true as const,
     keys: compiled.paramKeys,
     nominal,
     read: (params: Float64Array, draws: ReadonlyMap<string, number>, u: () => number) => {
       const volts = evaluator.value(params);
-      return readout ? readout.value(volts, { circuit: input.circuit, draws, u }) : volts;
+      return readout ? readout.value(volts, { circuit: input.circuit, draws, u, railVolts: railVolts() }) : volts;
     },
   };
 }

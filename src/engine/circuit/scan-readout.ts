@@ -18,6 +18,8 @@ export interface ReadoutContext {
   circuit: CircuitSpec;
   draws: ReadonlyMap<string, number>;
   u: () => number;
+  /** The module's 5 V at its pull-up, against module ground, where the solve gives it. */
+  railVolts?: number;
 }
 
 export interface ScanReadout {
@@ -46,7 +48,7 @@ function curveTemperature(model: ThermistorModel, ohms: number): number {
 
 /**
  * The module's temperature from its converter: the thermistor's resistance from the divider with its own pull-up and
- * its own 5 V (ratiometric), then the curve (Steinhart & Hart, Deep-Sea Research 15, 1968). An input at or above the
+ * its own 5 V as it stands at the pull-up (a ratiometric converter: a sagging supply cancels), then the curve (Steinhart & Hart, Deep-Sea Research 15, 1968). An input at or above the
  * supply is an open sensor (the scale's bottom); at or below 0 V a shorted one (its top).
  */
 function moduleTemperature(volts: number, ctx: ReadoutContext): number {
@@ -54,7 +56,7 @@ function moduleTemperature(volts: number, ctx: ReadoutContext): number {
   if (sensor.kind !== 'thermistor') return Number.NaN;
   const bias = ctx.circuit.module.bias;
   const pullUp = ctx.draws.get('bias.ohms') ?? (bias.kind === 'none' ? Number.NaN : bias.ohms);
-  const supply = ctx.draws.get('regulator.volts') ?? ctx.circuit.module.regulator.volts;
+  const supply = ctx.railVolts ?? ctx.draws.get('regulator.volts') ?? ctx.circuit.module.regulator.volts;
   if (volts >= supply) return -Infinity;
   if (volts <= 0) return Infinity;
   return curveTemperature(sensor.model, (pullUp * volts) / (supply - volts));
