@@ -106,6 +106,28 @@ describe('diagnosis over HTTP, driven by readings simulated from the circuit mod
     expect(again.body.diagnoses[0]).toMatchObject({ circuitId: circuit.body.id, tree: { id: 'three-wire-5v' } });
   });
 
+  it('pairs a coolant and an intake-air scan value posted as two readings and counts their difference once', async () => {
+    const { ro } = await newCircuit();
+    const ect = (await api.call('POST', `/api/repair-orders/${ro.id}/circuits`, { user: TECH_A, body: { kind: 'two_wire_thermistor', sensor: 'ECT', label: 'ECT sensor' } })).body;
+    const base = { circuitId: ect.id, quantity: 'scan_value', at: 'signal', location: 'sensor_connector', connector: 'plugged', key: 'on', engine: 'off', jumpers: [] };
+    // A cold-soaked engine whose coolant sensor reads 20 °C above the intake air (SAE J1979 PID 05 against PID 0F).
+    const coolant = await api.call('POST', `/api/repair-orders/${ro.id}/measurements`, { user: TECH_A, body: { ...base, pid: '05', value: 41, unit: '°C', clientKey: 'cold-soak-ect' } });
+    expect(coolant.status).toBe(201);
+    const volts = await api.call('POST', `/api/repair-orders/${ro.id}/measurements`, { user: TECH_A, body: { ...base, pid: '0F', value: 2.5, unit: 'V', clientKey: 'cold-soak-iat-volts' } });
+    expect(volts.status).toBe(400);
+    expect(JSON.stringify(volts.body)).toMatch(/°C/);
+    const lone = (await api.call('GET', `/api/repair-orders/${ro.id}/circuits/${ect.id}/diagnosis`, { user: TECH_A })).body;
+    expect(lone.path).toEqual([expect.objectContaining({ readingId: coolant.body.id, verdict: 'unpaired' })]);
+    const intake = await api.call('POST', `/api/repair-orders/${ro.id}/measurements?diagnosis=true`, { user: TECH_A, body: { ...base, pid: '0F', value: 21, unit: '°C', clientKey: 'cold-soak-iat' } });
+    expect(intake.status).toBe(201);
+    const d = intake.body.diagnoses[0];
+    expect(d.comparisons).toContainEqual(expect.objectContaining({ testId: 'coolant_against_intake_cold_soak', verdict: 'counted', outcomeId: 'coolant_high', difference: 20, unit: '°C' }));
+    expect(d.path.map((p: { readingId: string; verdict: string }) => [p.readingId, p.verdict])).toEqual([
+      [coolant.body.id, 'paired'],
+      [intake.body.id, 'counted'],
+    ]);
+  });
+
   it.each(['yes', '1', ''])('refuses diagnosis=%j with a 400 at query.diagnosis and stores nothing', async (value) => {
     const { ro, circuit } = await newCircuit();
     const res = await api.call('POST', `/api/repair-orders/${ro.id}/measurements?diagnosis=${value}`, {

@@ -185,6 +185,37 @@ describe.each(BACKENDS)('bay and board pages over HTTP on the %s database', (bac
     expect(panel).not.toContain('caution');
   });
 
+  it('draws a comparison on the test screen: both readings, the PID of each, their difference and its outcome', async () => {
+    const order = await api.call('POST', '/api/repair-orders', { user: TECH_A, body: { vehicle: newVehicle(), complaint: 'Hard start cold' } });
+    const circuit = await api.call('POST', `/api/repair-orders/${order.body.id}/circuits`, { user: TECH_A, body: { kind: 'two_wire_thermistor', sensor: 'ECT', label: 'ECT sensor' } });
+    const base = { circuitId: circuit.body.id, quantity: 'scan_value', at: 'signal', location: 'sensor_connector', connector: 'plugged', key: 'on', engine: 'off', jumpers: [] };
+    // SAE J1979 PID 05 (coolant) against PID 0F (intake air) after a cold soak: 20 °C apart.
+    for (const [pid, value] of [['05', 41], ['0F', 21]] as const)
+      expect((await api.call('POST', `/api/repair-orders/${order.body.id}/measurements`, { user: TECH_A, body: { ...base, pid, value, unit: '°C', clientKey: `page-cmp-${pid}` } })).status).toBe(201);
+    const text = await (await page(`/bay/orders/${order.body.id}/circuits/${circuit.body.id}`, TECH_A)).text();
+    const panel = text.slice(text.indexOf('id="cmp-h"'), text.indexOf('</section>', text.indexOf('id="cmp-h"')));
+    expect(panel).toContain('Coolant against intake-air temperature after a cold soak');
+    expect(panel).toContain('Engine coolant temperature (ECT), PID 05');
+    expect(panel).toContain('Intake air temperature (IAT), PID 0F');
+    expect(panel).toMatch(/41 °C[\s\S]*21 °C[\s\S]*\+20 °C/);
+    expect(panel).toContain('Coolant reads warmer than intake air');
+  });
+
+  it('shows MAP against BARO key on engine off on a MAP circuit, and says when they disagree', async () => {
+    const order = await api.call('POST', '/api/repair-orders', { user: TECH_A, body: { vehicle: newVehicle(), complaint: 'Rich at idle' } });
+    const circuit = await api.call('POST', `/api/repair-orders/${order.body.id}/circuits`, { user: TECH_A, body: { kind: 'three_wire_5v', sensor: 'MAP', label: 'MAP sensor' } });
+    const base = { circuitId: circuit.body.id, quantity: 'scan_value', at: 'signal', location: 'sensor_connector', connector: 'plugged', key: 'on', engine: 'off', jumpers: [] };
+    // Key on engine off both read the air's pressure; 12 kPa apart is more than the 5 kPa they agree within (common practice, no source).
+    for (const [pid, value] of [['0B', 113], ['33', 101]] as const)
+      expect((await api.call('POST', `/api/repair-orders/${order.body.id}/measurements`, { user: TECH_A, body: { ...base, pid, value, unit: 'kPa', clientKey: `page-map-${pid}` } })).status).toBe(201);
+    const text = await (await page(`/bay/orders/${order.body.id}/circuits/${circuit.body.id}`, TECH_A)).text();
+    const panel = text.slice(text.indexOf('id="mapbaro-h"'), text.indexOf('</section>', text.indexOf('id="mapbaro-h"')));
+    expect(panel).toContain('113 kPa');
+    expect(panel).toContain('101 kPa');
+    expect(panel).toContain('+12 kPa');
+    expect(panel).toContain('MAP reads 12 kPa above barometric pressure');
+  });
+
   it('renders what a person typed as inert text: complaint, circuit label and a reading note', async () => {
     const evil = '<script>alert(1)</script><img src=x onerror=alert(2)>';
     const order = await api.call('POST', '/api/repair-orders', { user: TECH_A, body: { vehicle: newVehicle(), complaint: evil } });

@@ -74,6 +74,10 @@ export const Diagnosis = z.looseObject({
   path: z.array(z.looseObject({ readingId: z.string(), verdict: z.string() })),
   conclusion: z.looseObject({ hypothesisId: z.string(), label: z.string(), probability: z.number(), repair: z.looseObject({ part: z.string(), action: z.string() }) }).nullable(),
   codesWeighed: z.array(z.looseObject({ code: z.string(), meaning: z.string(), weighed: z.boolean(), effect: z.string(), window: z.string().optional() })).optional(),
+  comparisons: z
+    .array(z.looseObject({ testId: z.string(), testLabel: z.string(), unit: z.string(), difference: z.number().nullable(), verdict: z.enum(['counted', 'indeterminate', 'unpaired']), note: z.string() }))
+    .optional()
+    .describe('comparison tests: both readings (first − second), their difference and outcome, or what each still waits for'),
   findings: z.array(finding),
 });
 export const ReferenceGroup = z.looseObject({ id, repairOrderId: id, circuitIds: z.array(id), source: z.enum(['technician', 'wire_identification']), note: z.string(), createdBy: person, createdAt: time });

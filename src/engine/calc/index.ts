@@ -50,4 +50,7 @@ export {
   linearSensor,
   vacuumInHgToAbsoluteKpa,
   absoluteKpaToVacuumInHg,
+  mapAgainstBaroKoeo,
+  MAP_BARO_AGREE_KPA,
+  type MapBaroCheck,
 } from './pressure';

@@ -72,3 +72,30 @@ export function absoluteKpaToVacuumInHg(absoluteKpa: number, baroKpa: number): R
   if (found.length) return { ok: false, findings: found };
   return { ok: true, value: ((baroKpa - absoluteKpa) * 1000) / PASCALS_PER_INHG };
 }
+
+/**
+ * Key on, engine off, the intake manifold is open to the air: MAP (SAE J1979 PID 0B) and BARO (PID 33) read the
+ * same pressure. Agreement within 5 kPa is common practice (no source): two one-kilopascal displays and two
+ * sensors' tolerances. A MAP sensor that reads in range but off shows here and nowhere else key on.
+ */
+export const MAP_BARO_AGREE_KPA = 5;
+
+export interface MapBaroCheck {
+  /** MAP − BARO, kPa. */
+  differenceKpa: number;
+  verdict: 'agree' | 'map_high' | 'map_low';
+  /** Set when they disagree: a coded warning naming the MAP sensor or its circuit. */
+  finding?: Finding;
+}
+
+export function mapAgainstBaroKoeo(mapKpa: number, baroKpa: number, agreeKpa = MAP_BARO_AGREE_KPA): Result<MapBaroCheck> {
+  const found = [...checkFinite(mapKpa, 'mapKpa', 'MAP'), ...checkFinite(baroKpa, 'baroKpa', 'Barometric pressure'), ...checkFinite(agreeKpa, 'agreeKpa', 'Agreement band')];
+  if (!found.length && baroKpa <= 0) found.push(finding('pressure.baro_not_positive', 'baroKpa', 'Barometric pressure must be positive.'));
+  if (!found.length && !(agreeKpa > 0)) found.push(finding('pressure.band_not_positive', 'agreeKpa', 'The agreement band must be positive.'));
+  if (found.length) return { ok: false, findings: found };
+  const differenceKpa = mapKpa - baroKpa;
+  if (Math.abs(differenceKpa) <= agreeKpa) return { ok: true, value: { differenceKpa, verdict: 'agree' } };
+  const verdict = differenceKpa > 0 ? 'map_high' : 'map_low';
+  const words = `MAP reads ${Math.abs(differenceKpa).toFixed(0)} kPa ${differenceKpa > 0 ? 'above' : 'below'} barometric pressure key on, engine off (they agree within ${agreeKpa} kPa on a sound sensor)`;
+  return { ok: true, value: { differenceKpa, verdict, finding: finding(`pressure.map_baro_${verdict}`, 'mapKpa', `${words}: check the MAP sensor's reference, signal and ground, then the sensor itself.`) } };
+}

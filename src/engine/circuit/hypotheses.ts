@@ -149,6 +149,9 @@ const CAUSE_ALTERNATIVES: Record<string, CauseAlternative[]> = {
     { weight: 0.2, faults: [{ kind: 'sensor_internal', variant: 'stuck', value: 0.005 }], kinds: THREE_WIRE },
     { weight: 0.2, faults: [{ kind: 'sensor_internal', variant: 'worn_spot', value: 1e7 }], kinds: THREE_WIRE },
     { weight: 0.2, faults: [{ kind: 'sensor_internal', variant: 'stuck', atRest: true }], kinds: THREE_WIRE },
+    // A thermistor that reads in range but wrong, 15 or 25 °C warm (common practice, no source): only a comparison shows it.
+    { weight: 0.2, faults: [{ kind: 'sensor_internal', variant: 'skewed', value: 15 }], kinds: ['two_wire_thermistor'] },
+    { weight: 0.2, faults: [{ kind: 'sensor_internal', variant: 'skewed', value: 25 }], kinds: ['two_wire_thermistor'] },
   ],
   module_internal: [
     { weight: 0.35, faults: [{ kind: 'module_internal', variant: 'dead_input' }] },

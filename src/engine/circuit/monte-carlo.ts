@@ -10,6 +10,8 @@ import { QUANTITY_BEHAVIOURS, resolutionFor } from './measure';
 import { evaluatorFor, prepareReading } from './predict';
 import { mulberry32, uniform, type Random } from './prng';
 import { sensorBehaviour } from './sensors';
+import { scanReadout } from './scan-readout';
+import { MODULE_GROUND_NODE, MODULE_PIN } from './build';
 import type { CircuitSpec, FaultSpec, MeterSpec, ReadingUnit } from './types';
 
 /** Part spreads, each drawn uniformly within its range. */
@@ -126,12 +128,16 @@ function validateSampling(input: SampleInput, spreads: Spreads): Finding[] {
   return found;
 }
 
-/** Draws the parameters of one sample into `out` (aligned with `keys`; NaN = keep nominal). */
-function paramSampler(input: SampleInput, spreads: Spreads, keys: string[], nominal: Record<string, number>, random: Random) {
+/**
+ * Draws the parameters of one sample into `out` (aligned with `keys`; NaN = keep nominal) and returns every draw by
+ * name. `more` lists parameters of another netlist of the same circuit sampled alike (a comparison's second reading).
+ */
+function paramSampler(input: SampleInput, spreads: Spreads, keys: string[], nominal: Record<string, number>, random: Random, more: readonly string[] = []) {
   const u = () => 2 * random() - 1;
   const draws = new Map<string, number>();
   const sensor = sensorBehaviour(input.circuit.sensor)!;
-  return (out: Float64Array) => {
+  const shorts = [...new Set([...keys, ...more])].filter((key) => key.startsWith('fault.short_'));
+  return (out: Float64Array): ReadonlyMap<string, number> => {
     draws.clear();
     for (const wire of input.circuit.wires) draws.set(`wire.${wire.role}.ohms`, uniform(random, ...spreads.wireOhms));
     draws.set('bias.ohms', uniform(random, ...spreads.biasOhms));
@@ -145,7 +151,7 @@ function paramSampler(input: SampleInput, spreads: Spreads, keys: string[], nomi
     if (spreads.moduleInputVolts) draws.set('module.input.volts', uniform(random, ...spreads.moduleInputVolts));
     if (spreads.shortOhms) {
       const ohms = Math.exp(uniform(random, Math.log(spreads.shortOhms[0]), Math.log(spreads.shortOhms[1])));
-      for (const key of keys) if (key.startsWith('fault.short_')) draws.set(key, ohms);
+      for (const key of shorts) draws.set(key, ohms);
     }
     if (spreads.seriesOhms) {
       const ohms = Math.exp(uniform(random, Math.log(spreads.seriesOhms[0]), Math.log(spreads.seriesOhms[1])));
@@ -153,6 +159,7 @@ function paramSampler(input: SampleInput, spreads: Spreads, keys: string[], nomi
     }
     sensor.sample(input.circuit.sensor, spreads.sensorTolerance, u, draws);
     for (let i = 0; i < keys.length; i++) out[i] = draws.get(keys[i]!) ?? Number.NaN;
+    return draws;
   };
 }
 
@@ -208,4 +215,70 @@ export function sampleReadings(input: SampleInput): SampleResult {
     values,
     percentiles: { p1: q(0.01), p5: q(0.05), p25: q(0.25), p50: q(0.5), p75: q(0.75), p95: q(0.95), p99: q(0.99) },
   };
+}
+
+export interface DifferenceInput extends SampleInput {
+  /** The reading subtracted from `request`'s, taken on the same sampled circuit. */
+  compare: MeasurementRequest;
+}
+
+/** One half of a comparison: a reading of this circuit through its PID's readout, or another sensor's PID. */
+function prepareHalf(input: SampleInput, request: MeasurementRequest, meter: MeterSpec) {
+  const readout = request.quantity === 'scan_value' ? scanReadout(request.pid, input.circuit.kind) : undefined;
+  if (request.quantity === 'scan_value' && !readout)
+    return { ok: false as const, findings: [finding('sampling.pid_not_modelled', 'request.pid', `The circuit model cannot answer PID "${request.pid}" on a ${input.circuit.kind} circuit.`)] };
+  if (readout && !readout.own) return { ok: true as const, keys: [] as string[], read: (_p: Float64Array, draws: ReadonlyMap<string, number>, u: () => number) => readout.value(Number.NaN, { circuit: input.circuit, draws, u }) };
+  const prepared = prepareReading(input.circuit, input.faults, request, meter);
+  if (!prepared.ok) return prepared;
+  const compiled = prepared.value.netlist.compile();
+  const evaluator = evaluatorFor(prepared.value, compiled);
+  if (!evaluator.ok) return evaluator;
+  const nominal = prepared.value.netlist.params();
+  // A converter reading: the module's 5 V at the pull-up comes out of the same solve (a ratiometric readout uses it).
+  const rail = compiled.index(MODULE_PIN.reference);
+  const ground = compiled.index(MODULE_GROUND_NODE)!;
+  const x = new Float64Array(compiled.size);
+  const railVolts = () => (rail === undefined ? undefined : (compiled.solveSources(x), (rail < 0 ? 0 : x[rail]!) - (ground < 0 ? 0 : x[ground]!)));
+  return {
+    ok: true as const,
+    keys: compiled.paramKeys,
+    nominal,
+    read: (params: Float64Array, draws: ReadonlyMap<string, number>, u: () => number) => {
+      const volts = evaluator.value(params);
+      return readout ? readout.value(volts, { circuit: input.circuit, draws, u, railVolts: railVolts() }) : volts;
+    },
+  };
+}
+
+/**
+ * Samples the difference of two readings of one circuit (`request` − `compare`), both on the SAME sampled parts, so
+ * what they share (supply, bias, sensor tolerance, temperature) cancels as it does on the vehicle. No meter error is
+ * added (the diagnosis adds the instruments' error as a kernel). Sorted values, deterministic per seed.
+ */
+export function sampleDifferences(input: DifferenceInput): SampleResult {
+  const meter = input.meter ?? DEFAULT_METER;
+  const a = prepareHalf(input, input.request, meter);
+  if (!a.ok) return a;
+  const b = prepareHalf(input, input.compare, meter);
+  if (!b.ok) return b;
+  const spreads: Spreads = { ...defaultSpreads(input.circuit), ...input.spreads };
+  const invalid = validateSampling(input, spreads);
+  if (invalid.length) return { ok: false, findings: invalid };
+  const random = mulberry32(input.seed);
+  const u = () => 2 * random() - 1;
+  const pa = new Float64Array(a.keys.length);
+  const pb = new Float64Array(b.keys.length);
+  const nominal = { ...('nominal' in b ? b.nominal : {}), ...('nominal' in a ? a.nominal : {}) };
+  const draw = paramSampler(input, spreads, a.keys, nominal, random, b.keys);
+  const values = new Float64Array(input.samples);
+  for (let s = 0; s < input.samples; s++) {
+    const draws = draw(pa);
+    for (let i = 0; i < b.keys.length; i++) pb[i] = draws.get(b.keys[i]!) ?? Number.NaN;
+    const value = a.read(pa, draws, u) - b.read(pb, draws, u);
+    if (Number.isNaN(value)) return { ok: false, findings: [finding('circuit.unsolvable', 'faults', 'A sampled circuit gave no difference (no unique solution, or a value outside the sensor curve).')] };
+    values[s] = value;
+  }
+  values.sort();
+  const q = (p: number) => percentile(values, p);
+  return { ok: true, unit: 'V', values, percentiles: { p1: q(0.01), p5: q(0.05), p25: q(0.25), p50: q(0.5), p75: q(0.75), p95: q(0.95), p99: q(0.99) } };
 }

@@ -240,7 +240,11 @@ const thermistor: SensorBehaviour<ThermistorSpec> = {
       skewed: () => {
         const ohms = thermistorOhms(s.model, s.temperatureC + (fault.value ?? 20));
         if (ohms === undefined) return [finding('fault.skewed_temperature_invalid', joinPath(path, 'value'), 'The skewed temperature is outside the thermistor model.')];
-        setFixed(netlist, 'sensor_ntc', ohms);
+        // Reads as a sensor `value` °C warmer, its part tolerance kept: the sampled resistance scaled by R(T + skew)/R(T).
+        const e = netlist.get('sensor_ntc');
+        const nominal = thermistorOhms(s.model, s.temperatureC);
+        if (e?.param && nominal) [e.value, e.param.scale] = [ohms, ohms / nominal];
+        else setFixed(netlist, 'sensor_ntc', ohms);
         return [];
       },
     };

@@ -3,11 +3,16 @@
  * as a partition of the reading axis, and P(outcome | cause, class) integrated from the same densities (for labels
  * and for planning; a reading itself is weighed by its density, never by its band).
  */
-import { broadMass } from './meter-error';
+import { broadMass, type WeighQuantity } from './meter-error';
 import { coreMass, OUTLIER_WEIGHT, type Cell } from './predictive';
 import type { Interval } from './outcome-rules';
 import type { CompiledPredictive } from './tree-model';
 import type { PredictiveDocument, TestDocument, TreeDocument } from './tree-schema';
+
+/** How a test's value is weighed: its quantity, or for a comparison the difference in the test's unit. */
+export function weighAs(test: Pick<TestDocument, 'request' | 'compare' | 'unit'>): WeighQuantity {
+  return test.compare ? (test.unit === '°C' ? 'difference_°C' : 'difference_V') : test.request.quantity;
+}
 
 /** Outcome intervals made into a partition: each guard band split at its middle, the ends left open. */
 export function partitionOf(intervals: Interval[]): Array<{ lo: number; hi: number }> {
@@ -36,7 +41,7 @@ export function compilePredictive(block: PredictiveDocument, test: TestDocument,
     if (!h.unknown && row) latent.forEach((l, k) => (cellOf[hi * nL + k] = row[l.alternative * nClasses + l.klass] ?? -1));
   });
   const partition = partitionOf(intervals);
-  const quantity = test.request.quantity;
+  const quantity = weighAs(test);
   const broad = partition.map((b) => broadMass(quantity, b.lo, b.hi));
   const core = cells.map((cell) => partition.map((b) => coreMass(cell, b.lo, b.hi, quantity)));
   const bandLike = new Float64Array(nH * nL * nO);

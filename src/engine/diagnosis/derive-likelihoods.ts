@@ -5,11 +5,11 @@
  * drawn here: the engine adds it as a kernel when it weighs a reading. Outcome-band probabilities (over the outcomes
  * as a partition) and p5–p95 bands are recorded beside them for people. The same seed gives the same file.
  */
-import { causeAlternatives, defaultCircuit, percentile, sampleReadings, type CauseAlternative, type DefaultCircuitOptions, type Spreads } from '../circuit';
+import { causeAlternatives, defaultCircuit, percentile, sampleDifferences, sampleReadings, type CauseAlternative, type DefaultCircuitOptions, type Spreads } from '../circuit';
 import { CIRCUIT_KINDS, type CircuitKind, type MeasurementRequest } from '../vocabulary';
 import { finding, joinPath, type Finding } from './findings';
 import { conditionInterval } from './outcome-rules';
-import { partitionOf } from './compile-predictive';
+import { partitionOf, weighAs } from './compile-predictive';
 import { coreMass, QUANTILE_LEVELS, type Cell } from './predictive';
 import type { BandsDocument, ClassDocument, PredictiveDocument, TestDocument, TreeDocument } from './tree-schema';
 
@@ -62,7 +62,9 @@ function sampleCell(kind: CircuitKind, cls: ClassDocument, alt: CauseAlternative
     circuit.module.supplyAmps ??= MODULE_AMPS_NOMINAL;
     circuit.module.regulator = { ...circuit.module.regulator, ...alt.regulator };
     const samples = Math.max(1, Math.round(opts.samples / cls.circuits.length));
-    const sampled = sampleReadings({ circuit, faults: alt.faults, request: circuitRequest(test.request), samples, seed: opts.seed + 97 * j, spreads: { ...MODULE_SPREADS, ...spreads, ...alt.spreads, meterError: false } });
+    const input = { circuit, faults: alt.faults, request: circuitRequest(test.request), samples, seed: opts.seed + 97 * j, spreads: { ...MODULE_SPREADS, ...spreads, ...alt.spreads, meterError: false } };
+    // A comparison: both readings on the same sampled circuit, their difference stored.
+    const sampled = test.compare ? sampleDifferences({ ...input, compare: circuitRequest(test.compare.request) }) : sampleReadings(input);
     if (!sampled.ok && sampled.findings.every((f) => f.code === 'measurement.ohms_on_powered_circuit')) return { values: poweredOhms(opts.samples) };
     if (!sampled.ok) return { problem: sampled.findings.map((f) => f.message).join('; ') };
     parts.push(sampled.values);
@@ -137,7 +139,7 @@ export function deriveLikelihoods(doc: TreeDocument, opts: DeriveOptions): { doc
         const cell = toCell(sampled.values);
         const key = JSON.stringify(cell);
         if (!cellIds.has(key)) cellIds.set(key, cells.push(cell) - 1);
-        const masses = partition.map((r) => Math.max(0, coreMass(asCell(cell), r.lo, r.hi, test.request.quantity)));
+        const masses = partition.map((r) => Math.max(0, coreMass(asCell(cell), r.lo, r.hi, weighAs(test))));
         const determinate = masses.reduce((a, b) => a + b, 0);
         masses.forEach((m, o) => (row[o]! += share * (determinate > 0 ? m / determinate : 1 / masses.length)));
         return cellIds.get(key)!;

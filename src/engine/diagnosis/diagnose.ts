@@ -16,6 +16,7 @@ import { decide, type ResolvedOptions, type TestProgress } from './status-rules'
 import { weighCodes } from './code-evidence';
 import { undecided } from './undecided';
 import { checkScanConditions, scanTemperatureFindings } from './scan-temperature';
+import { pairComparisons, halfLabel, type ComparisonEntry } from './comparisons';
 import type { Test, Tree } from './tree-model';
 import type { Diagnosis, DiagnosisOptions, NextTest, PathEntry, Reading, Repair } from './index';
 import type { Posterior } from './posterior';
@@ -146,6 +147,8 @@ export async function runDiagnosis(untouched: Tree, readings: readonly Reading[]
   for (const r of ctx.readings) {
     const base = { readingId: r.id, takenAt: new Date(r.takenAtMs).toISOString(), value: r.value === Infinity ? 'overload' : r.value, testId: r.test?.id, testLabel: r.test?.label };
     const early = verdictOf(r, ctx);
+    // A reading that answers only a comparison is paired below.
+    if (!r.test && r.halves.length && early?.verdict !== 'invalid') continue;
     if (r.test && early?.verdict !== 'not_in_tree' && early?.verdict !== 'verification') paid |= r.test.setupMask;
     if (early) {
       path.push({ ...base, verdict: early.verdict, note: early.note });
@@ -176,11 +179,33 @@ export async function runDiagnosis(untouched: Tree, readings: readonly Reading[]
     path.push({ ...base, verdict: 'counted', outcomeId: outcome.id, outcomeLabel: outcome.label, note: `outcome: ${outcome.label}${within}${r.conversion ? `; ${r.conversion}` : ''}` });
   }
 
+  const frozen = new Set(path.filter((p) => p.verdict === 'frozen_scan').map((p) => p.readingId));
+  const paired = await pairComparisons(ctx, frozen);
+  // When both halves answer tests of their own, the later one is weighed only through the difference (its own value
+  // given the earlier one's): counting it twice would count the same reading twice. Its test is still done.
+  const standIns: Array<{ test: number; outcome: number }> = [];
+  for (const { earlier, later } of paired.pairs) {
+    const own = counted.findIndex((c) => c.id === later.id && c.test === later.test);
+    if (!earlier.test || own < 0 || !counted.some((c) => c.id === earlier.id && c.test === earlier.test)) continue;
+    standIns.push({ test: counted[own]!.test.index, outcome: counted[own]!.outcome });
+    counted.splice(own, 1);
+    const entry = path.find((p) => p.readingId === later.id);
+    if (entry) entry.note += '; weighed through its comparison with the reading paired with it, not again on its own';
+  }
+  counted.push(...paired.counted);
+  path.push(...paired.path);
+  paid |= paired.paid;
+  for (const c of paired.counted) progress[c.test.index]!.counted++;
+  for (const { test, reading } of paired.indeterminate) progress[test.index]!.indeterminate.push(reading);
+  // Time order as read (refused readings, which have none, stay first).
+  const order = new Map(ctx.readings.map((r) => [r.id, r.index]));
+  path.sort((x, y) => (order.get(x.readingId) ?? -1) - (order.get(y.readingId) ?? -1));
   const evidence = groupEvidence(counted);
   const post = posterior(tree, evidence);
   const model = policyModel(tree, resolved, planningLikelihoods(tree, post));
   const done = new Int16Array(tree.tests.length).fill(-1);
   for (const e of evidence) done[e.test] = e.outcome;
+  for (const s of standIns) if (done[s.test] === -1) done[s.test] = s.outcome;
   progress.forEach((p, i) => {
     if (p.counted === 0 && p.indeterminate.length >= resolved.maxAttempts) {
       done[i] = -2;
@@ -204,7 +229,7 @@ export async function runDiagnosis(untouched: Tree, readings: readonly Reading[]
   const leader = argmax(post.p);
   const against = contradictingReadings(tree, post, leader);
   const factors = readingFactors(tree, post, leader);
-  const confirmedBy = factors.filter((f) => f.factor > CONFIRMING_FACTOR).flatMap((f) => f.ids);
+  const confirmedBy = [...new Set(factors.filter((f) => f.factor > CONFIRMING_FACTOR).flatMap((f) => f.ids))];
   const decision = decide({ tree, options: resolved, evidence, posterior: post, progress, replacements, readingIndex, model, state, leaderContradictedBy: against, leaderConfirmedBy: confirmedBy, blocked: safety.blocked });
 
   const ranked = tree.hypotheses
@@ -217,12 +242,12 @@ export async function runDiagnosis(untouched: Tree, readings: readonly Reading[]
           label: tree.hypotheses[leader]!.label,
           probability: post.p[leader]!,
           repair: { part: tree.hypotheses[leader]!.part, action: tree.hypotheses[leader]!.repairAction },
-          decidedBy: factors.filter((f) => f.factor > 1.5).flatMap((f) => f.ids),
+          decidedBy: [...new Set(factors.filter((f) => f.factor > 1.5).flatMap((f) => f.ids))],
           confirmedBy,
           reachedThreshold: true,
         }
       : null;
-  const nextTest: NextTest | null = decision.choice ? nextTestOf(tree, decision.choice, paid, ranked, resolved.leadingCauses, model) : null;
+  const nextTest: NextTest | null = decision.choice ? nextTestOf(tree, decision.choice, paid, ranked, resolved.leadingCauses, model, paired.entries) : null;
   return {
     treeId: tree.id,
     treeVersion: tree.version,
@@ -238,6 +263,7 @@ export async function runDiagnosis(untouched: Tree, readings: readonly Reading[]
     logZ: post.logZ,
     logEvidenceVsChance: post.logEvidenceVsChance,
     codesWeighed: coded.codesWeighed,
+    comparisons: paired.entries,
     findings: [...findings, ...implausible.map((x) => x.finding), ...decision.findings],
   };
 }
@@ -254,6 +280,7 @@ function nextTestOf(
   ranked: Diagnosis['ranked'],
   leading: number,
   model: PolicyModel,
+  comparisons: readonly ComparisonEntry[],
 ): NextTest {
   const test = choice.test;
   const setupsToDo = test.setups.filter((s) => !((paid >> s.index) & 1));
@@ -272,7 +299,9 @@ function nextTestOf(
     minutes: test.minutes,
     setupMinutes,
     totalMinutes: test.minutes + setupMinutes,
-    request: structuredClone(choice.request),
+    // A comparison asks for the half still missing (its first half once both are in, to take them again).
+    request: structuredClone(halfToTake(test, choice.request, comparisons.find((c) => c.testId === test.id))),
+    ...(test.compare ? { comparison: comparisonOf(tree, test, comparisons.find((c) => c.testId === test.id)) } : {}),
     outcomes: test.outcomes.map((o) => ({ id: o.id, label: o.label, range: o.interval ? [o.interval.lo, o.interval.hi] : null })),
     predictions: ranked
       .filter((h) => h.probability > 0.01)
@@ -287,4 +316,20 @@ function nextTestOf(
     strategy: choice.strategy ?? null,
     ranking: choice.ranking ?? [],
   };
+}
+
+function halfToTake(test: Test, request: NextTest['request'], entry: ComparisonEntry | undefined): NextTest['request'] {
+  if (!test.compare || !entry) return request;
+  return entry.first.readingId !== null && entry.second.readingId === null ? test.compare.request : request;
+}
+
+/** Both halves of a comparison for the screen: what each reads and what is already taken. */
+function comparisonOf(tree: Tree, test: Test, entry: ComparisonEntry | undefined): NonNullable<NextTest['comparison']> {
+  const half = (h: 'first' | 'second') => ({
+    label: halfLabel(tree, test, h),
+    request: structuredClone(h === 'first' ? test.request : test.compare!.request),
+    readingId: entry?.[h].readingId ?? null,
+    value: entry?.[h].value ?? null,
+  });
+  return { unit: test.unit ?? 'V', first: half('first'), second: half('second') };
 }

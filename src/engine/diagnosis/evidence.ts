@@ -36,7 +36,7 @@ export interface CountedReading {
 function sameCluster(test: Test, a: number, b: number): boolean {
   if (!test.predictive) return a === b;
   if (!Number.isFinite(a) || !Number.isFinite(b)) return a === b;
-  const q = test.request.quantity;
+  const q = test.weighAs;
   return Math.abs(a - b) <= 2 * Math.max(instrumentBound(q, a), instrumentBound(q, b));
 }
 

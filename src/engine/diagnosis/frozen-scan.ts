@@ -50,7 +50,7 @@ export function chanceOfReading(tree: Tree, post: Posterior, test: Test, value: 
   const lo = value - tol;
   const hi = value + tol;
   const pred = test.predictive;
-  const q = test.request.quantity;
+  const q = test.weighAs;
   const broad = broadMass(q, lo, hi);
   const byCell = new Map<number, number>();
   const massOf = (cell: number) => {

@@ -27,6 +27,8 @@ const isModelled = (kind: string): kind is CircuitKind => (CIRCUIT_KINDS as read
  * reading cannot be predicted, or the healthy reading falls in no plain-range outcome.
  */
 export function healthyOutcome(tree: Tree, test: Test): HealthyOutcome | undefined {
+  // A comparison's healthy difference is not one reading of the circuit.
+  if (test.compare) return undefined;
   if (!isModelled(tree.circuitKind)) return namedHealthyOutcome(test);
   const predicted = predictReading(defaultCircuit(tree.circuitKind), [], test.request);
   if (!predicted.ok) return undefined;

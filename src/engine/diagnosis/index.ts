@@ -21,6 +21,8 @@ import type { Caution, Tree } from './tree-model';
 import type { BandsDocument, TreeDocument } from './tree-schema';
 import type { Verdict } from './reading-checks';
 import type { Undecided } from './undecided';
+import type { ComparisonEntry, ComparisonHalfReading } from './comparisons';
+export type { ComparisonEntry, ComparisonHalfReading } from './comparisons';
 import type { CodeOptions, CodeWeighed } from './code-evidence';
 import threeWire from '../trees/three-wire-5v.json';
 import twoWire from '../trees/two-wire-thermistor.json';
@@ -67,7 +69,7 @@ export interface Reading {
   /** SI units (volts, ohms, amps); scan values as shown. An open ohms reading is `"overload"`. */
   value: number | 'overload';
   /**
-   * The unit of a scan value (V when absent). Another unit is converted to the test's where a published conversion
+   * The unit of a scan value (when absent: V, or °C for a half of a comparison of two temperature PIDs). Another unit is converted to the test's where a published conversion
    * exists (% of the converter's full scale; °C on a thermistor circuit), else the reading is refused.
    */
   unit?: string;
@@ -146,8 +148,13 @@ export interface NextTest {
   minutes: number;
   setupMinutes: number;
   totalMinutes: number;
-  /** Exactly what the client sends back with the value. */
+  /** Exactly what the client sends back with the value (for a comparison: the half still to take). */
   request: TreeRequest;
+  /**
+   * A comparison test: the two readings whose difference is weighed (first − second, in `unit`), each with the
+   * reading already taken for it, if any. Each is posted as an ordinary reading.
+   */
+  comparison?: { unit: string; first: ComparisonHalfReading; second: ComparisonHalfReading };
   outcomes: Array<{ id: string; label: string; range: [number, number] | null }>;
   /** Predicted reading for the leading causes: percentiles from the tree's stored bands, and the likeliest outcome. */
   predictions: Array<{ hypothesisId: string; label: string; probability: number; band: BandsDocument | null; likelyOutcome: string }>;
@@ -186,6 +193,8 @@ export interface Diagnosis {
   logEvidenceVsChance: number;
   /** The order's codes: which were weighed on this circuit, the window each was read as and what it did. */
   codesWeighed: CodeWeighed[];
+  /** Each comparison test: its two readings, their difference and outcome, or what it still waits for. */
+  comparisons: ComparisonEntry[];
   findings: Finding[];
 }
 

@@ -11,8 +11,8 @@ import { preconditionText, requirementsOf } from './safety-rules';
 import { TREE_CHECKS } from './tree-checks';
 import { checkTreeLimits } from './tree-limits';
 import { parseTreeDocument, type TestDocument, type TreeDocument } from './tree-schema';
-import type { Caution, Hypothesis, LatentClass, Setup, Test, Tree } from './tree-model';
-import { compilePredictive } from './compile-predictive';
+import type { Caution, ComparisonHalf, Hypothesis, LatentClass, Setup, Test, Tree } from './tree-model';
+import { compilePredictive, weighAs } from './compile-predictive';
 import { classesOf } from './derive-likelihoods';
 
 export const DEFAULT_LIKELIHOOD_FLOOR = 0.02;
@@ -68,7 +68,7 @@ function compileTest(t: TestDocument, index: number, doc: TreeDocument, setups: 
   const intervals = t.outcomes.map((o) => conditionInterval(o.condition));
   const predictive = t.predictive && intervals.every((r) => r) ? compilePredictive(t.predictive, t, doc, latent, nClasses, intervals.map((r) => r!)) : undefined;
   // Not with the input moved: a throttle held open while cranking cuts fuel on many engines.
-  const crankable = t.request.quantity === 'scan_value' && t.request.key === 'on' && t.request.engine === 'off' && t.request.sensorInput !== 'moved';
+  const crankable = !t.compare && t.request.quantity === 'scan_value' && t.request.key === 'on' && t.request.engine === 'off' && t.request.sensorInput !== 'moved';
   const crankRequest = crankable ? withConditions(t.request, { engine: 'cranking' }) : undefined;
   return {
     index,
@@ -91,7 +91,9 @@ function compileTest(t: TestDocument, index: number, doc: TreeDocument, setups: 
     bands: new Map(Object.entries(t.bands ?? {})),
     classifier: compileOutcomes(t.outcomes),
     predictive,
-    unit: t.unit ?? (t.request.quantity === 'scan_value' ? 'V' : undefined),
+    unit: t.unit ?? (t.request.quantity === 'scan_value' || t.compare ? 'V' : undefined),
+    compare: t.compare,
+    weighAs: weighAs(t),
   };
 }
 
@@ -137,8 +139,15 @@ export function loadTree(json: unknown, options: LoadOptions = {}): LoadResult {
     for (const l of classes) logLatentPrior[hi * classes.length + l.index] = l.alternative < w.length ? Math.log((w[l.alternative]! / sum) * l.weight) : -Infinity;
   });
   const tests = doc.tests.map((t, i) => compileTest(t, i, doc, setups, floor, classes, classDocs.length));
-  const testByRequest = new Map<string, Test>(tests.map((t) => [requestKey(t.request), t]));
-  doc.tests.forEach((t, i) => (t.alsoAnswers ?? []).forEach((r) => testByRequest.has(requestKey(r)) || testByRequest.set(requestKey(r), tests[i]!)));
+  const singles = tests.filter((t) => !t.compare);
+  const testByRequest = new Map<string, Test>(singles.map((t) => [requestKey(t.request), t]));
+  const halvesByRequest = new Map<string, ComparisonHalf[]>();
+  for (const t of tests.filter((x) => x.compare))
+    for (const [half, request] of [['first', t.request], ['second', t.compare!.request]] as const) {
+      const key = requestKey(request);
+      halvesByRequest.set(key, [...(halvesByRequest.get(key) ?? []), { test: t, half }]);
+    }
+  doc.tests.forEach((t, i) => t.compare || (t.alsoAnswers ?? []).forEach((r) => testByRequest.has(requestKey(r)) || testByRequest.set(requestKey(r), tests[i]!)));
   for (const t of tests) {
     if (!t.crankRequest) continue;
     const key = requestKey(t.crankRequest);
@@ -157,13 +166,14 @@ export function loadTree(json: unknown, options: LoadOptions = {}): LoadResult {
     hypotheses,
     unknownIndex: hypotheses.findIndex((h) => h.unknown),
     healthyIndex: hypotheses.findIndex((h) => h.id === HEALTHY_CAUSE),
-    wires: [...new Set(tests.filter(isLoaded).map((t) => t.request.at).filter((at) => WIRES.includes(at)))],
+    wires: [...new Set(singles.filter(isLoaded).map((t) => t.request.at).filter((at) => WIRES.includes(at)))],
     logPrior: Float64Array.from(hypotheses, (h) => Math.log(h.prior)),
     classes,
     logLatentPrior,
     setups,
     tests,
     testByRequest,
+    halvesByRequest,
     document: doc,
   };
   return { ok: true, tree, findings };

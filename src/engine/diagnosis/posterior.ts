@@ -65,7 +65,7 @@ export function clusterLikelihoods(tree: Tree, test: Test, cluster: Cluster, int
     }
     return;
   }
-  const q = test.request.quantity;
+  const q = test.weighAs;
   const cache = new Map<number, number>();
   const broad = broadDensity(q, cluster.y);
   for (let k = 0; k < nH * nC; k++) {
@@ -89,7 +89,7 @@ export function posterior(tree: Tree, evidence: readonly Evidence[]): Posterior 
     for (const cluster of e.clusters) {
       const like = new Float64Array(nH * nC);
       clusterLikelihoods(tree, test, cluster, e.intermittent, like);
-      weighed.push({ evidence: e, cluster, like, broad: test.predictive ? broadDensity(test.request.quantity, cluster.y) : 1 / test.outcomes.length });
+      weighed.push({ evidence: e, cluster, like, broad: test.predictive ? broadDensity(test.weighAs, cluster.y) : 1 / test.outcomes.length });
       for (let k = 0; k < w.length; k++) if (w[k] !== -Infinity) w[k] = w[k]! + Math.log(like[k]!);
       logLeak += Math.log(like[leak]!);
     }

@@ -5,7 +5,7 @@
  * *Density Estimation for Statistics and Data Analysis*, 1986), mixed with a small weight on the broad density so
  * one misread cannot rule the true cause out (a contaminated model: Box & Tiao, *Biometrika* 1968).
  */
-import type { Quantity } from '../vocabulary';
+import type { WeighQuantity as Quantity } from './meter-error';
 import { broadDensity, kernelSigma } from './meter-error';
 
 /** Weight of the heavy tail in every modelled cause's likelihood. */

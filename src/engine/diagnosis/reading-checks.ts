@@ -6,7 +6,7 @@ import { finding, joinPath, type Finding } from './findings';
 import { parseRequest } from './tree-schema';
 import { requestKey, type TreeRequest } from './request-key';
 import { scanToTestUnit } from './scan-units';
-import type { Test, Tree } from './tree-model';
+import type { ComparisonHalf, Test, Tree } from './tree-model';
 import type { DiagnosisOptions, Reading, Repair } from './index';
 
 export type Verdict =
@@ -17,7 +17,11 @@ export type Verdict =
   | 'not_in_tree'
   | 'invalid'
   | 'before_repair'
-  | 'frozen_scan';
+  | 'frozen_scan'
+  /** Half of a comparison whose difference was counted on the other, later reading of the pair. */
+  | 'paired'
+  /** Half of a comparison still waiting for its other reading (or an earlier reading of a half since re-taken). */
+  | 'unpaired';
 
 /** A reading that passed the shape check, in time order. */
 export interface CheckedReading {
@@ -31,6 +35,8 @@ export interface CheckedReading {
   phase: 'diagnosis' | 'verification';
   supersededBy?: string;
   test?: Test;
+  /** The comparisons this reading is a half of (it may also answer `test`). */
+  halves: ComparisonHalf[];
   /** How a scan value in another unit was converted to the test's unit. */
   conversion?: string;
 }
@@ -60,12 +66,13 @@ export const READING_CHECKS: readonly ReadingCheck[] = [
   },
   {
     verdict: 'not_in_tree',
-    check: (r) => (r.test ? undefined : 'not in this tree: kept in the record, does not move the diagnosis'),
+    check: (r) => (r.test || r.halves.length ? undefined : 'not in this tree: kept in the record, does not move the diagnosis'),
   },
   {
     verdict: 'before_repair',
     check: (r, ctx) => {
-      const repair = ctx.repairs.find((rep) => rep.atMs > r.takenAtMs && (r.test!.parts === undefined || r.test!.parts.includes(rep.part)));
+      const parts = r.test ? r.test.parts : r.halves[0]!.test.parts;
+      const repair = ctx.repairs.find((rep) => rep.atMs > r.takenAtMs && (parts === undefined || parts.includes(rep.part)));
       return repair ? `taken before repair ${repair.id} of the ${repair.part}: no longer describes the circuit` : undefined;
     },
   },
@@ -93,10 +100,13 @@ export function checkReadingShapes(tree: Tree, readings: readonly Reading[]): { 
     if (reading?.supersededBy !== undefined && typeof reading.supersededBy !== 'string') problems.push(finding('reading.superseded_by_invalid', joinPath(path, 'supersededBy'), 'expected a reading id'));
     if (reading?.unit !== undefined && typeof reading.unit !== 'string') problems.push(finding('reading.unit_invalid', joinPath(path, 'unit'), 'expected the unit the value is in, e.g. "V"'));
     const test = request ? tree.testByRequest.get(requestKey(request)) : undefined;
+    const halves = (request && tree.halvesByRequest.get(requestKey(request))) || [];
     let converted = value as number;
     let conversion: string | undefined;
-    if (!problems.length && test && request!.quantity === 'scan_value') {
-      const c = scanToTestUnit(tree, test, converted, reading.unit);
+    // A half that answers no test of its own is read in its comparison's unit (checked alike when the tree loads).
+    const unitOf = test ?? halves[0]?.test;
+    if (!problems.length && unitOf && request!.quantity === 'scan_value') {
+      const c = scanToTestUnit(tree, unitOf, converted, reading.unit);
       if (c.ok) [converted, conversion] = [c.value, c.note];
       else problems.push(finding('reading.scan_unit_unexpected', joinPath(path, 'unit'), c.message));
     }
@@ -116,6 +126,7 @@ export function checkReadingShapes(tree: Tree, readings: readonly Reading[]): { 
       phase: reading.phase,
       supersededBy: reading.supersededBy,
       test,
+      halves,
       conversion,
     });
   });

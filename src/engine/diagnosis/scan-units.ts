@@ -16,6 +16,9 @@ const identity = new Set(['V']);
 
 export function scanToTestUnit(tree: Tree, test: Test, value: number, unit: string | undefined): Conversion {
   const expected = test.unit ?? 'V';
+  // Two temperature PIDs are compared as the scan tool shows them: in °C, never converted.
+  if (expected === '°C')
+    return unit === '°C' || unit === undefined ? { ok: true, value } : { ok: false, message: `this comparison subtracts two temperature PIDs in °C; a value in ${unit ?? 'V'} cannot be one of them: read the parameter in °C` };
   if (unit === undefined || identity.has(unit) || unit === expected) return { ok: true, value };
   if (unit === 'mV') return { ok: true, value: value / 1000 };
   if (unit === '%') return { ok: true, value: (value / 100) * MODULE_ADC.fullScaleVolts, note: `${value} % of the converter's 5.00 V full scale (SAE J1979 position scaling)` };
@@ -39,7 +42,8 @@ export function scanToTestUnit(tree: Tree, test: Test, value: number, unit: stri
  */
 export function scanUnitRefusal(tree: Tree, request: TreeRequest, unit: string, value = 0): string | undefined {
   if (request.quantity !== 'scan_value') return undefined;
-  const test = tree.testByRequest.get(requestKey(request));
+  const key = requestKey(request);
+  const test = tree.testByRequest.get(key) ?? tree.halvesByRequest.get(key)?.[0]?.test;
   if (!test) return undefined;
   const c = scanToTestUnit(tree, test, value, unit);
   return c.ok ? undefined : c.message;

@@ -3,7 +3,7 @@
  * (part spreads, circuit variant), and answer each requested measurement with the circuit model's prediction plus
  * the meter's stated error. Deterministic per seed. Tooling around the engine, not part of a diagnosis.
  */
-import { DEFAULT_METER, causeAlternatives, defaultCircuit, defaultSpreads, mulberry32, predictReading, type CircuitSpec, type DefaultCircuitOptions, type FaultSpec, type Random } from '../circuit';
+import { DEFAULT_METER, causeAlternatives, defaultCircuit, defaultSpreads, mulberry32, predictReading, scanReadout, type CircuitSpec, type DefaultCircuitOptions, type FaultSpec, type Random } from '../circuit';
 import type { CircuitKind } from '../vocabulary';
 import type { TreeRequest } from './request-key';
 import type { Tree } from './tree-model';
@@ -66,9 +66,14 @@ const MIN_RESOLUTION = { dc_volts: 1e-4, ohms: 0.1, amps: 1e-5 } as const;
  */
 export function simulateReading(c: SimulatedCase, request: TreeRequest, attempt = 0): number | 'overload' | undefined {
   const { sensor: _s, ...plain } = request;
+  // A temperature PID as the module shows it, or another sensor's PID (src/engine/circuit/scan-readout.ts).
+  const readout = request.quantity === 'scan_value' && request.pid !== 'signal_volts' ? scanReadout(request.pid, c.circuit.kind) : undefined;
+  const u = () => 2 * mulberry32(c.noiseSeed ^ hashString(`readout:${JSON.stringify(plain)}`))() - 1;
+  if (readout && !readout.own) return readout.value(Number.NaN, { circuit: c.circuit, draws: new Map(), u });
   const predicted = predictReading(c.circuit, c.faults, plain);
   if (!predicted.ok) return undefined;
   if (predicted.overload) return 'overload';
+  if (readout) return readout.value(predicted.value, { circuit: c.circuit, draws: new Map(), u });
   if (request.quantity === 'scan_value') return Number(predicted.value.toFixed(3));
   const accuracy = DEFAULT_METER.accuracy[request.quantity];
   const v = predicted.value;

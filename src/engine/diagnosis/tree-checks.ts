@@ -9,6 +9,7 @@ import { requestKey } from './request-key';
 import { checkJumperSafety } from './safety-rules';
 import { QUANTILE_LEVELS } from './predictive';
 import type { TreeDocument } from './tree-schema';
+import { checkComparisons } from './comparison-checks';
 
 interface TreeCheck {
   name: string;
@@ -52,7 +53,8 @@ export const TREE_CHECKS: readonly TreeCheck[] = [
     run: (doc) => {
       const seen = new Map<string, string>();
       return doc.tests.flatMap((t, i) => {
-        const key = requestKey(t.request);
+        // A comparison is told apart by its pair of requests; each half may also be a test of its own.
+        const key = t.compare ? `${requestKey(t.request)}−${requestKey(t.compare.request)}` : requestKey(t.request);
         const other = seen.get(key);
         seen.set(key, t.id);
         return other ? [finding('tree.duplicate_request', joinPath('tests', i, 'request'), `test "${t.id}" asks for the same measurement as "${other}": a reading could not tell them apart`)] : [];
@@ -133,6 +135,7 @@ export const TREE_CHECKS: readonly TreeCheck[] = [
       });
     },
   },
+  { name: 'comparisons', run: checkComparisons },
   { name: 'jumper safety', run: checkJumperSafety, relaxedWhenStored: true },
   {
     name: 'predictive cells',

@@ -3,7 +3,8 @@ import type { TreeRequest } from './request-key';
 import type { VoltsRequirement } from './safety-rules';
 import type { Cell } from './predictive';
 import type { OutcomeClassifier, Interval } from './outcome-rules';
-import type { BandsDocument, RuleCondition, TreeDocument } from './tree-schema';
+import type { BandsDocument, RuleCondition, TestUnit, TreeDocument } from './tree-schema';
+import type { WeighQuantity } from './meter-error';
 
 export interface Hypothesis {
   index: number;
@@ -66,8 +67,17 @@ export interface Test {
   classifier: OutcomeClassifier;
   /** Predictive densities (circuit-model trees): when set, they weigh readings and `like` is not used. */
   predictive?: CompiledPredictive;
-  /** Scan tests: the unit values are compared in. */
-  unit?: 'V';
+  /** Scan tests and comparisons: the unit values are compared in. */
+  unit?: TestUnit;
+  /** A comparison: the test's value is the reading of `request` minus the reading of `compare.request`. */
+  compare?: { request: TreeRequest; label: string };
+  /** How the value is weighed: the request's quantity, or the difference of a comparison. */
+  weighAs: WeighQuantity;
+}
+
+export interface ComparisonHalf {
+  test: Test;
+  half: 'first' | 'second';
 }
 
 export interface CompiledPredictive {
@@ -116,8 +126,10 @@ export interface Tree {
   logLatentPrior: Float64Array;
   setups: Setup[];
   tests: Test[];
-  /** Request key → test, including the cranking re-read keys. */
+  /** Request key → test, including the cranking re-read keys (comparisons are not here: see `halvesByRequest`). */
   testByRequest: Map<string, Test>;
+  /** Request key → the comparisons that reading is a half of (`first` = `request`, `second` = `compare.request`). */
+  halvesByRequest: Map<string, ComparisonHalf[]>;
   /** The normalised document (defaults filled, required cautions added) that the version hashes. */
   document: TreeDocument;
 }

@@ -16,6 +16,10 @@ const probability = z.number().min(0).max(1);
 
 export const requestSchema = MeasurementRequestSchema;
 
+/** Units a test may declare for its value (scan tests and comparisons). */
+export const TEST_UNITS = ['V', '°C'] as const;
+export type TestUnit = (typeof TEST_UNITS)[number];
+
 /** A json-rules-engine condition: `all` / `any` / `not` nodes over fact comparisons. */
 export type RuleCondition =
   | { all: RuleCondition[] }
@@ -54,11 +58,19 @@ const predictiveSchema = z.strictObject({
 
 const outcomeSchema = z.strictObject({ id, label: text, condition: conditionSchema });
 
+/**
+ * A comparison: the test's value is the reading of `request` minus the reading of `compare.request` (both stored as
+ * ordinary readings, paired by the diagnosis), in the test's unit; its outcomes are ranges on that difference.
+ */
+const compareSchema = z.strictObject({ request: requestSchema, label: text });
+
 const testSchema = z.strictObject({
   id,
   label: text,
   procedure: z.array(text).min(1),
   request: requestSchema,
+  /** A second reading: the test weighs value(request) − value(compare.request). */
+  compare: compareSchema.optional(),
   /** Earlier forms of the request (e.g. a fused jumper where a resistor jumper is asked for now) whose readings still answer the test. */
   alsoAnswers: z.array(requestSchema).max(4).optional(),
   setups: z.array(id).default([]),
@@ -76,8 +88,11 @@ const testSchema = z.strictObject({
   bands: z.record(z.string(), bandsSchema).optional(),
   /** Predictive densities from the circuit model: when present they, not the outcome bands, weigh a reading. */
   predictive: predictiveSchema.optional(),
-  /** Scan tests: the unit the value is compared in; other units are converted where a published conversion exists. */
-  unit: z.enum(['V']).optional(),
+  /**
+   * Scan tests: the unit the value is compared in; other units are converted where a published conversion exists.
+   * A comparison of two scan values in °C (a temperature PID against another) declares °C.
+   */
+  unit: z.enum(TEST_UNITS).optional(),
 });
 
 const hypothesisSchema = z.strictObject({
@@ -131,6 +146,7 @@ export type BandsDocument = z.output<typeof bandsSchema>;
 export type VariantDocument = z.output<typeof variantSchema>;
 export type ClassDocument = z.output<typeof classSchema>;
 export type PredictiveDocument = z.output<typeof predictiveSchema>;
+export type CompareDocument = z.output<typeof compareSchema>;
 
 function pathOf(segments: ReadonlyArray<PropertyKey>): string {
   return segments.reduce<string>((p, s) => (typeof s === 'number' ? `${p}[${s}]` : p ? `${p}.${String(s)}` : String(s)), '');

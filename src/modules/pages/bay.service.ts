@@ -158,7 +158,8 @@ export class BayService {
     if (!next || c.diagnosis.status === 'concluded' || c.diagnosis.status === 'exhausted' || c.diagnosis.conclusion) return null;
     return {
       mode: next.recheckOf ? 'recheck' : 'next',
-      title: next.label,
+      // A comparison is taken as two readings: the title names the one the pad saves now.
+      title: next.comparison ? `${next.label}: ${requestKey(next.request) === requestKey(next.comparison.first.request) ? next.comparison.first.label : next.comparison.second.label}` : next.label,
       request: next.request,
       phase: 'diagnosis',
       ...(next.recheckOf ? { supersedes: next.recheckOf } : {}),

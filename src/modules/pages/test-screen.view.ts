@@ -12,6 +12,7 @@ import { conditions, formatEntered, leads, PART_WORDS, padUnits, percent, predic
 import { repairable } from './diagnosis-state';
 import { codesWeighedPanel, returnedCodesNotice } from './codes.view';
 import { temperaturePanel, type TemperatureInput } from './temperatures.view';
+import { mapBaroPanel } from './map-baro.view';
 
 const REASON_WORDS: Record<string, string> = {
   recheck_indeterminate: 'The last reading fell between two outcomes. Check the probe points and the connector, then measure again.',
@@ -54,7 +55,50 @@ function instructions(entry: Entry, c: CircuitDiagnosis, next: NextTest | null):
         : ''
     }
     ${known ? html`<h3>How</h3><ol class="procedure">${known.procedure.map((p) => html`<li>${p}</li>`)}</ol>` : ''}
+    ${useNext?.comparison ? comparisonTable(useNext, entry, c) : ''}
     ${useNext ? expectations(useNext, entry) : ''}`;
+}
+
+/** A comparison: both readings (the lead or PID of each, the value if taken), their difference and what it means. */
+function comparisonTable(next: NextTest, entry: Entry, c: CircuitDiagnosis): SafeHtml {
+  const cmp = next.comparison!;
+  const now = requestKey(entry.request);
+  const value = (x: number | null) => (x === null ? null : `${Number(x.toFixed(cmp.unit === '°C' ? 0 : 3))} ${cmp.unit}`);
+  const row = (which: string, half: typeof cmp.first) => html`<tr class="${requestKey(half.request) === now ? 'half-now' : ''}">
+      <th scope="row">${which}</th><td>${half.label}<br><span class="muted">${leads(half.request, c.circuit.cavities).red}</span></td>
+      <td>${value(half.value) ?? (requestKey(half.request) === now ? html`<strong>take it now</strong>` : html`<span class="muted">not yet taken</span>`)}</td></tr>`;
+  const difference = cmp.first.value !== null && cmp.second.value !== null ? cmp.first.value - cmp.second.value : null;
+  return html`<h3>Two readings, one result</h3>
+    <p class="muted">Enter each reading on its own; the difference, first less second, decides the outcome.</p>
+    <table class="table comparison"><thead><tr><th scope="col"></th><th scope="col">Reading (lead or PID)</th><th scope="col">Value</th></tr></thead>
+    <tbody>${row('First', cmp.first)}${row('Second', cmp.second)}
+      <tr><th scope="row">Difference</th><td>first − second</td><td>${value(difference) ?? html`<span class="muted">once both are taken</span>`}</td></tr></tbody></table>
+    <ul class="comparison-outcomes">${next.outcomes.map((o) => html`<li>${o.label}${o.range ? html` <span class="muted">(${rangeWords(o.range, cmp.unit)})</span>` : ''}</li>`)}</ul>`;
+}
+
+const rangeWords = ([lo, hi]: [number, number], unit: string) =>
+  lo <= -20 && unit === 'V' ? `below ${hi} ${unit}` : lo <= -255 ? `below ${hi} ${unit}` : hi >= 20 && unit === 'V' ? `above ${lo} ${unit}` : hi >= 255 ? `above ${lo} ${unit}` : `${lo} to ${hi} ${unit}`;
+
+/** Comparisons counted or waiting: both readings, which lead or PID each is, the difference and its outcome. */
+function comparisonsPanel(d: CircuitDiagnosis['diagnosis']): SafeHtml {
+  const shown = d.comparisons.filter((x) => x.first.readingId !== null || x.second.readingId !== null);
+  if (!shown.length) return html``;
+  const value = (x: number | null, unit: string) => (x === null ? '—' : `${Number(x.toFixed(unit === '°C' ? 0 : 3))} ${unit}`);
+  return html`<section class="panel" aria-labelledby="cmp-h"><h2 id="cmp-h">Comparisons</h2>
+    <ul class="comparisons">${shown.map(
+      (x) => html`<li class="comparison verdict-${x.verdict}"><strong>${x.testLabel}</strong>
+        <dl class="conditions"><div class="condition"><dt>${x.first.label}</dt><dd>${value(x.first.value, x.unit)}</dd></div>
+          <div class="condition"><dt>${x.second.label}</dt><dd>${value(x.second.value, x.unit)}</dd></div>
+          <div class="condition"><dt>Difference</dt><dd>${x.difference === null ? '—' : `${x.difference > 0 ? '+' : ''}${value(x.difference, x.unit)}`}</dd></div></dl>
+        <p>${x.outcomeLabel ? html`Outcome: <strong>${x.outcomeLabel}</strong>` : html`<span class="muted">${x.note}</span>`}</p></li>`,
+    )}</ul></section>`;
+}
+
+/** The predicted difference of a comparison, first less second, signed, in its unit. */
+function differenceRange(band: NextTest['predictions'][number]['band'], unit: string): string | null {
+  if (!band || band.p5 === 'overload' || band.p95 === 'overload') return null;
+  const signed = (x: number) => `${x > 0 ? '+' : x < 0 ? '−' : ''}${Number(Math.abs(x).toFixed(unit === '°C' ? 0 : 3))} ${unit}`;
+  return `${signed(band.p5)} to ${signed(band.p95)} (first less second)`;
 }
 
 function expectations(next: NextTest, entry: Entry): SafeHtml {
@@ -63,14 +107,17 @@ function expectations(next: NextTest, entry: Entry): SafeHtml {
   return html`<h3>What each likely cause would make the ${scan ? 'scan tool' : 'meter'} show</h3>
     <table class="table expect"><thead><tr><th scope="col">If it is</th><th scope="col">Most likely</th><th scope="col">Could read (9 in 10 times)</th></tr></thead>
     <tbody>${next.predictions.map((p) => {
-      const range = predictedRange(p.band, entry.request.quantity);
+      const range = next.comparison ? differenceRange(p.band, next.comparison.unit) : predictedRange(p.band, entry.request.quantity);
       return html`<tr><th scope="row">${p.label} <span class="muted">(${percent(p.probability)})</span></th>
         <td>${outcome(p.likelyOutcome)}</td><td>${range ?? html`<span class="muted">no range modelled</span>`}</td></tr>`;
     })}</tbody></table>`;
 }
 
 function pad(order: OrderDetail, c: CircuitDiagnosis, entry: Entry): SafeHtml {
-  const units = padUnits(entry.request.quantity);
+  // A half of a comparison in °C (two temperature PIDs) offers °C first.
+  const preferred = entry.mode === 'next' ? c.diagnosis.nextTest?.comparison?.unit : undefined;
+  const all = padUnits(entry.request.quantity);
+  const units = preferred && all.includes(preferred) ? [preferred, ...all.filter((u) => u !== preferred)] : all;
   const keys = ['7', '8', '9', '4', '5', '6', '1', '2', '3', '−', '0', '.'];
   const ol = entry.request.quantity !== 'scan_value';
   return html`<form id="reading-form" class="pad-form" novalidate data-order="${order.id}" data-circuit="${c.circuit.id}"
@@ -172,6 +219,8 @@ export function testScreenPage(actor: Actor, order: OrderDetail, c: CircuitDiagn
         <section class="panel" aria-labelledby="causes-h"><h2 id="causes-h">${c.atRepair ? 'Causes as diagnosed before the repair' : 'Likely causes'}</h2>${rankedCauses(c.atRepair ?? d)}</section>
         ${codesWeighedPanel(c.atRepair ?? d)}
         ${temperaturePanel(c, temperatures)}
+        ${comparisonsPanel(d)}
+        ${mapBaroPanel(c)}
         <section class="panel" aria-labelledby="path-h"><h2 id="path-h">Readings so far</h2>${pathList(c, (r) => (r.phase === correctable ? `${base}?correct=${r.id}` : undefined))}</section>
       </div>
     </div>`,

@@ -57,6 +57,8 @@ export const VERDICT_WORDS: Record<string, string> = {
   before_repair: 'before the repair of this part',
   frozen_scan: 'scan value did not refresh: crank and read again',
   invalid: 'not readable by the diagnosis',
+  paired: 'paired in a comparison: counted once, with the other reading',
+  unpaired: 'half of a comparison: waiting for the other reading',
 };
 
 export const PART_WORDS: Record<string, string> = {

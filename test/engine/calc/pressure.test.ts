@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { absoluteKpaToVacuumInHg, linearSensor, vacuumInHgToAbsoluteKpa } from '../../../src/engine/calc';
+import { absoluteKpaToVacuumInHg, linearSensor, mapAgainstBaroKoeo, vacuumInHgToAbsoluteKpa } from '../../../src/engine/calc';
 
 describe('vacuum and absolute pressure (1 inHg = 3386.389 Pa, NIST SP 811 appendix B)', () => {
   it('turns 20 inHg of vacuum under 101.325 kPa into 33.597 kPa absolute (NIST SP 811 appendix B: 1 inHg = 3386.389 Pa; computed)', () => {
@@ -59,5 +59,32 @@ describe('linear pressure sensor through two calibration points', () => {
   it('names the missing field of a calibration point', () => {
     const r = linearSensor([{ volts: 0.5, kpa: 20 }, { volts: 4.5 } as never]);
     expect(!r.ok && r.findings[0]?.path).toBe('points[1].kpa');
+  });
+});
+
+describe('MAP against BARO, key on engine off (SAE J1979 PID 0B against PID 33)', () => {
+  // Key on, engine off, the manifold is open to the air: both read barometric pressure; agreement within 5 kPa is
+  // common practice (no source).
+  it.each([
+    ['agree at sea level: 101 against 101 kPa', 101, 101, 'agree', 0],
+    ['agree within the band: 98 against 101 kPa', 98, 101, 'agree', -3],
+    ['a MAP sensor reading high: 112 against 101 kPa', 112, 101, 'map_high', 11],
+    ['a MAP sensor reading low at altitude: 70 against 84 kPa', 70, 84, 'map_low', -14],
+  ] as const)('%s', (_name, map, baro, verdict, difference) => {
+    const r = mapAgainstBaroKoeo(map, baro);
+    expect(r.ok).toBe(true);
+    if (!r.ok) return;
+    expect(r.value).toMatchObject({ verdict, differenceKpa: difference });
+    if (verdict === 'agree') expect(r.value.finding).toBeUndefined();
+    else expect(r.value.finding).toMatchObject({ code: `pressure.map_baro_${verdict}`, path: 'mapKpa' });
+  });
+
+  it.each([
+    ['a MAP that is not a number', Number.NaN, 101, 'mapKpa'],
+    ['a barometric pressure of zero', 101, 0, 'baroKpa'],
+  ])('refuses %s with a coded finding at its field', (_name, map, baro, path) => {
+    const r = mapAgainstBaroKoeo(map, baro);
+    expect(r.ok).toBe(false);
+    if (!r.ok) expect(r.findings[0]!.path).toBe(path);
   });
 });

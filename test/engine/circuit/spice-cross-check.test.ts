@@ -10,6 +10,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import {
+  sampleDifferences,
   circuitNetlist,
   defaultCircuit,
   faultsFor,
@@ -222,6 +223,14 @@ describe('node voltages agree with ngspice (.op, batch mode) within 1e-6 relativ
     // The scan value is the converter's 10-bit reading of the module side (4.9 mV steps), the meter reads the sensor side.
     expect(scan.value - meter.value).toBeCloseTo(gapSpice, 2);
     expect(scan.value - meter.value).toBeGreaterThan(0.14);
+    // The paired Monte Carlo of the comparison test, every spread pinned at nominal: the same gap, to one
+    // converter step (4.9 mV).
+    const pinned = sampleDifferences({
+      circuit, faults, request: scanRequest, compare: { ...scanRequest, quantity: 'dc_volts', against: 'battery_negative', connector: 'backprobed', pid: undefined },
+      samples: 4, seed: 1, spreads: { wireOhms: [0.1, 0.1], biasOhms: [250_000, 250_000], regulatorVolts: [5, 5], batteryVolts: 0, sensorTolerance: 0, meterError: false },
+    });
+    if (!pinned.ok) throw new Error(JSON.stringify(pinned.findings));
+    expect(Math.abs(pinned.values[0]! - gapSpice)).toBeLessThan(0.0049);
   });
 
   // Every hypothesis's faults once, so each fault kind and variant meets ngspice at least once.

@@ -180,7 +180,12 @@ function drawFault(cause: string, c: CircuitCase, random: Random): Draw {
       return { faults: [{ kind: 'series', wire: 'ground', ohms }], variant: `${Math.round(ohms)} Ω` };
     }
     case 'sensor_internal': {
-      if (!three) return { faults: [{ kind: 'sensor', variant: 'ntc_open', ohms: OPEN(random) }], variant: 'thermistor open' };
+      if (!three && random() < 0.5) return { faults: [{ kind: 'sensor', variant: 'ntc_open', ohms: OPEN(random) }], variant: 'thermistor open' };
+      if (!three) {
+        // Reads in range but wrong, warm by 12–30 °C (common practice, no source): only the cold-soak comparison shows it.
+        const celsius = u(random, 12, 30);
+        return { faults: [{ kind: 'sensor', variant: 'ntc_skewed', celsius }], variant: `thermistor skewed +${Math.round(celsius)} °C` };
+      }
       const variants = c.sensor.kind === 'potentiometer'
         ? (['element_open', 'wiper_open', 'output_to_reference', 'output_to_ground', 'output_stuck'] as const)
         : (['output_dead', 'output_high', 'wiper_open', 'output_to_ground', 'output_stuck'] as const);

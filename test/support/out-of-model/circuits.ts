@@ -22,7 +22,9 @@ export type Fault =
   /** From a wire's fault point to chassis ground, to the battery-voltage circuit, or to another wire. */
   | { kind: 'shunt'; wire: Wire; to: 'chassis' | 'feed' | Wire; ohms: number }
   /** `output_stuck`: the output stays where the input rests, whatever the pedal or the manifold does. */
-  | { kind: 'sensor'; variant: 'element_open' | 'wiper_open' | 'output_to_reference' | 'output_to_ground' | 'output_dead' | 'output_high' | 'output_stuck' | 'ntc_open' | 'ntc_shorted'; ohms: number };
+  | { kind: 'sensor'; variant: 'element_open' | 'wiper_open' | 'output_to_reference' | 'output_to_ground' | 'output_dead' | 'output_high' | 'output_stuck' | 'ntc_open' | 'ntc_shorted'; ohms: number }
+  /** A thermistor that has drifted: it has the resistance of its own curve `celsius` warmer than it is. */
+  | { kind: 'sensor'; variant: 'ntc_skewed'; celsius: number };
 
 export interface CircuitCase {
   kind: 'three_wire_5v' | 'two_wire_thermistor';
@@ -158,7 +160,8 @@ function stampSensor(n: Net, c: CircuitCase, wires: Wire[], plugged: boolean, r:
   const fault = c.faults.find((f): f is Extract<Fault, { kind: 'sensor' }> => f.kind === 'sensor');
   const s = asRead(c.sensor, r, fault?.variant === 'output_stuck');
   if (s.kind === 'ntc') {
-    const ohms = fault?.variant === 'ntc_open' || fault?.variant === 'ntc_shorted' ? fault.ohms : ntcOhms(s.curve, s.celsius);
+    const ohms =
+      fault?.variant === 'ntc_skewed' ? ntcOhms(s.curve, s.celsius + fault.celsius) : fault?.variant === 'ntc_open' || fault?.variant === 'ntc_shorted' ? fault.ohms : ntcOhms(s.curve, s.celsius);
     n.r('ntc', 'p_sig', 'p_gro', ohms);
     return;
   }

@@ -15,6 +15,7 @@
 import { hashString, splitmix32 } from './random';
 import type { MeasurementRequest } from '../../../src/engine/vocabulary';
 import { buildNet, leadNodes, solveCase, type CircuitCase } from './circuits';
+import { ntcCelsius } from './ntc';
 
 export interface Instruments {
   meterInputOhms: number;
@@ -88,6 +89,31 @@ export function trueValue(c: CircuitCase, inst: Instruments, r: MeasurementReque
   throw new Error(`out-of-model cases do not answer ${r.quantity}`);
 }
 
+/**
+ * Temperature PIDs (SAE J1979 PID 05 coolant, 0F intake air: one byte, A − 40 °C, whole degrees). The coolant value is
+ * the module's own: the thermistor's resistance from its converter volts, its pull-up and its own 5 V rail as it
+ * stands (the converter is ratiometric, so a sagging rail cancels), through the sensor's curve (the module is made
+ * for its sensor). The intake-air sensor is not in the circuit: after a cold
+ * soak it reads the air the engine sits in, the case's temperature, within ±2 °C (common practice, no source), an
+ * offset fixed for the case.
+ */
+const TEMPERATURE_PIDS = new Set(['05', '0F']);
+const pidCelsius = (celsius: number) => Math.min(215, Math.max(-40, Math.round(Number.isNaN(celsius) ? -40 : celsius)));
+
+function temperaturePid(c: CircuitCase, pid: string, adcVolts: number, railVolts: number, noiseSeed: number): number {
+  if (c.sensor.kind !== 'ntc') throw new Error(`out-of-model cases answer PID ${pid} on thermistor circuits only`);
+  if (pid === '0F') return pidCelsius(c.sensor.celsius + 2 * (2 * splitmix32(noiseSeed ^ hashString('intake-air'))() - 1));
+  if (adcVolts >= railVolts) return -40;
+  if (adcVolts <= 0) return 215;
+  return pidCelsius(ntcCelsius(c.sensor.curve, (c.bias.ohms * adcVolts) / (railVolts - adcVolts)));
+}
+
+/** The module's 5 V rail against its ground for a request's set-up (what a ratiometric converter references). */
+function railVolts(c: CircuitCase, r: MeasurementRequest): number {
+  const s = solveCase(c, r);
+  return s.volts.get('rl')! - s.volts.get('mg')!;
+}
+
 /** What the instrument shows for attempt `attempt` of a request (a repeat reads with fresh count noise). */
 export function instrumentReading(c: CircuitCase, inst: Instruments, r: MeasurementRequest, noiseSeed: number, attempt: number, adcOverride?: number): number | 'overload' {
   const random = readingRandom(noiseSeed, r, attempt);
@@ -98,6 +124,7 @@ export function instrumentReading(c: CircuitCase, inst: Instruments, r: Measurem
     const clamped = Math.min(inst.adcFullScale, Math.max(0, sampled));
     const jitter = frozen ? Math.round(2 * random() - 1) : 0;
     const code = Math.min(2 ** inst.adcBits - 1, Math.max(0, Math.round(clamped / lsb) + jitter));
+    if (r.pid && TEMPERATURE_PIDS.has(r.pid)) return temperaturePid(c, r.pid, code * lsb, railVolts(c, frozen ? { ...r, connector: 'plugged', location: 'sensor_connector', jumpers: [], engine: 'running' } : r), noiseSeed);
     return Number((code * lsb).toFixed(3));
   }
   const v = trueValue(c, inst, r);
