@@ -43,7 +43,9 @@ export function floorRow(row: ArrayLike<number>, floor: number): number[] {
 
 function addRequiredCautions(doc: TreeDocument, findings: Finding[]): TreeDocument {
   const tests = doc.tests.map((t, i) => {
-    const missing = requiredCautions(t.request).filter((c) => !t.cautions.includes(c));
+    // A comparison's two readings are taken under their own conditions: each one's cautions apply.
+    const needed = [...new Set([...requiredCautions(t.request), ...(t.compare ? requiredCautions(t.compare.request) : [])])];
+    const missing = needed.filter((c) => !t.cautions.includes(c));
     for (const c of missing)
       findings.push(finding('tree.caution_added', joinPath('tests', i, 'cautions'), `added the "${c}" caution this measurement needs`, c === 'service_information' ? 'info' : 'warning'));
     return missing.length ? { ...t, cautions: [...t.cautions, ...missing] } : t;

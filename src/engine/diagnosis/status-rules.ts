@@ -24,6 +24,7 @@ import type { TreeRequest } from './request-key';
 import type { Test, Tree } from './tree-model';
 import { isLoaded } from './load-tree';
 import { backprobeConfirmation, thermistorOpenConfirmation } from './backprobe-confirmation';
+import { supplyOrShortConfirmation } from './supply-or-short';
 
 export type DiagnosisStatus = 'testing' | 'concluded' | 'recheck' | 'crank_and_reread' | 'exhausted';
 export type NextTestReason = 'lowest_expected_cost' | 'recheck_indeterminate' | 'recheck_contradiction' | 'crank_and_reread' | 'wiggle_test';
@@ -204,6 +205,7 @@ export const STATUS_RULES: readonly StatusRule[] = [
   },
   { name: 'back-probe confirmed', decide: backprobeConfirmation },
   { name: 'open thermistor confirmed by ohms', decide: thermistorOpenConfirmation },
+  { name: 'harness proven before a shorted reference or a failed supply', decide: supplyOrShortConfirmation },
   {
     name: 'none of the modelled causes fits',
     decide: (ctx) => {

@@ -15,7 +15,7 @@ export interface TreeLimit {
 }
 
 export const TREE_LIMITS = {
-  documentBytes: { max: 524_288, what: 'size of the tree document (UTF-8 JSON bytes)' },
+  documentBytes: { max: 786_432, what: 'size of the tree document (UTF-8 JSON bytes)' },
   documentDepth: { max: 48, what: 'nesting depth of the tree document (objects and arrays)' },
   causes: { max: 40, what: 'causes (hypotheses, the unknown one included)' },
   tests: { max: 48, what: 'tests' },

@@ -47,9 +47,9 @@ describe('a circuit that tests good is not blamed on a part', () => {
     const d = await diagnoseFully(threeWire, values.map(([id, v]) => at(threeWire, id, v)));
     expect(p(d, 'reference_supply_failed')).toBeGreaterThan(0.05);
     expect(d.status).toBe('testing');
-    // Either reads the reference on the working circuit: key on, or its lowest while cranking (which also finds a
-    // supply that drops out as the battery dips).
-    expect(['reference_backprobed', 'reference_while_cranking']).toContain(d.nextTest!.id);
+    // Each reads the reference on the working circuit: key on, its lowest while cranking (which also finds a supply
+    // that drops out as the battery dips), or the drop along it with the sensor drawing current.
+    expect(['reference_backprobed', 'reference_while_cranking', 'reference_drop_along_wire']).toContain(d.nextTest!.id);
     const done = await diagnoseFully(threeWire, [...values, ['reference_backprobed', 5.0], ['reference_while_cranking', 4.97]].map(([id, v]) => at(threeWire, id as string, v as number)));
     expect(p(done, 'reference_supply_failed')).toBeLessThan(0.05);
     // Sagging only under load: a weak supply, or resistance in the reference wire (the drop along it tells which).
