@@ -5,6 +5,8 @@
 import { existsSync, mkdirSync, readFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { chromium, type Browser, type Page } from 'playwright-core';
+import { afterAll, beforeAll } from 'vitest';
+import { startApi, type TestApi } from '../support/http';
 
 export const CHROMIUM = '/usr/bin/chromium';
 export const SCREENSHOTS = resolve(__dirname, '..', '..', 'artifacts', 'screenshots');
@@ -62,4 +64,19 @@ export async function snapView(page: Page, name: string): Promise<string> {
   const file = join(SCREENSHOTS, `${name}-view.png`);
   await page.screenshot({ path: file, fullPage: false });
   return file;
+}
+
+/** An API on PostgreSQL and a portrait tablet page for a test file: started before its tests, closed after them. */
+export function pageAndApi(): { readonly api: TestApi; readonly page: Page } {
+  const s = {} as { api: TestApi; page: Page; browser?: Browser };
+  beforeAll(async () => {
+    s.api = await startApi('postgresql');
+    s.browser = await launch();
+    s.page = await (await s.browser.newContext({ viewport: PORTRAIT, deviceScaleFactor: 1 })).newPage();
+  }, 60_000);
+  afterAll(async () => {
+    await s.browser?.close();
+    await s.api?.close();
+  });
+  return s;
 }

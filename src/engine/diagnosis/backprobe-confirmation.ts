@@ -7,8 +7,9 @@
  */
 import { faultsFor } from '../circuit';
 import { finding } from './findings';
-import { argmax, openTests, testCost, type PolicyModel } from './policy';
-import { leaveOneOut, readingFactors } from './posterior';
+import { argmax, openTests, type PolicyModel } from './policy';
+import { cheapestTest, proposeTest, readingArguesFor } from './propose-test';
+import { readingFactors } from './posterior';
 import type { Decision, RuleContext } from './status-rules';
 import type { Test } from './tree-model';
 
@@ -58,18 +59,11 @@ export function backprobeConfirmation(ctx: RuleContext): Decision | undefined {
   const probed = arguing.flatMap((f) => f.ids.map((id) => testOf.get(id)).filter((e) => e && backprobed(ctx.tree.tests[e.test]!)));
   if (confirmed || probed.length === 0) return undefined;
   const candidates = openTests(ctx.state).filter((t) => !ctx.blocked?.has(t) && !backprobed(ctx.tree.tests[t]!) && canConfirm(ctx.model, ctx.state.p, t, leader));
-  const first = probed[0]!;
-  const test = candidates.length
-    ? ctx.tree.tests[candidates.reduce((a, b) => (testCost(ctx.model, ctx.state, b) < testCost(ctx.model, ctx.state, a) ? b : a))]!
-    : ctx.tree.tests[first.test]!;
+  const test = ctx.tree.tests[candidates.length ? cheapestTest(ctx, candidates) : probed[0]!.test]!;
   const message = `"${cause.label}" rests on back-probed readings only, and a probe that misses its terminal reads like an open: ${
     candidates.length ? `confirm with "${test.label}" before concluding` : `back-probe "${test.label}" again, checking the probe reaches the terminal`
   }`;
-  return {
-    status: 'testing',
-    choice: { test, reason: 'lowest_expected_cost', request: test.request, expectedMinutes: testCost(ctx.model, ctx.state, test.index) },
-    findings: [finding('diagnosis.backprobe_unconfirmed', 'readings', message, 'info')],
-  };
+  return proposeTest(ctx, test.index, finding('diagnosis.backprobe_unconfirmed', 'readings', message, 'info'));
 }
 
 /**
@@ -87,18 +81,13 @@ export function thermistorOpenConfirmation(ctx: RuleContext): Decision | undefin
   const ohms = (t: number) => ctx.tree.tests[t]!.request.quantity === 'ohms';
   const healthy = ctx.tree.healthyIndex;
   // Against the healthy circuit itself: a good ground reading argues against a ground fault, not against a cold sensor.
-  const confirmed = ctx.posterior.weighed.some((x) => {
-    if (!ohms(x.evidence.test)) return false;
-    const loo = leaveOneOut(ctx.tree, ctx.posterior, x);
-    return loo.causeLike[leader]! > ARGUES_FOR * loo.causeLike[healthy]!;
-  });
-  if (confirmed) return undefined;
+  if (readingArguesFor(ctx, leader, healthy, ARGUES_FOR, ohms)) return undefined;
   const candidates = openTests(ctx.state).filter((t) => !ctx.blocked?.has(t) && ohms(t) && canConfirm(ctx.model, ctx.state.p, t, leader));
   if (!candidates.length) return undefined;
-  const test = ctx.tree.tests[candidates.reduce((a, b) => (testCost(ctx.model, ctx.state, b) < testCost(ctx.model, ctx.state, a) ? b : a))]!;
-  return {
-    status: 'testing',
-    choice: { test, reason: 'lowest_expected_cost', request: test.request, expectedMinutes: testCost(ctx.model, ctx.state, test.index) },
-    findings: [finding('diagnosis.thermistor_open_unconfirmed', 'readings', `a cold healthy thermistor reads like an open one on every voltage: confirm "${cause.label}" with "${test.label}" before concluding`, 'info')],
-  };
+  const t = cheapestTest(ctx, candidates);
+  return proposeTest(
+    ctx,
+    t,
+    finding('diagnosis.thermistor_open_unconfirmed', 'readings', `a cold healthy thermistor reads like an open one on every voltage: confirm "${cause.label}" with "${ctx.tree.tests[t]!.label}" before concluding`, 'info'),
+  );
 }

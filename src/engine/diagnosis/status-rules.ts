@@ -25,6 +25,7 @@ import type { Test, Tree } from './tree-model';
 import { isLoaded } from './load-tree';
 import { backprobeConfirmation, thermistorOpenConfirmation } from './backprobe-confirmation';
 import { supplyOrShortConfirmation } from './supply-or-short';
+import { cheapestTest, proposeTest } from './propose-test';
 
 export type DiagnosisStatus = 'testing' | 'concluded' | 'recheck' | 'crank_and_reread' | 'exhausted';
 export type NextTestReason = 'lowest_expected_cost' | 'recheck_indeterminate' | 'recheck_contradiction' | 'crank_and_reread' | 'wiggle_test';
@@ -133,13 +134,11 @@ function wireStillToRead(ctx: RuleContext): Decision | undefined {
   const missing = ctx.tree.wires.filter((w) => !read.has(w));
   const candidates = openTests(ctx.state).filter((t) => loaded(t) && missing.includes(ctx.tree.tests[t]!.request.at));
   if (!candidates.length) return undefined;
-  const t = candidates.reduce((a, b) => (testCost(ctx.model, ctx.state, b) < testCost(ctx.model, ctx.state, a) ? b : a));
-  const test = ctx.tree.tests[t]!;
-  return {
-    status: 'testing',
-    choice: { test, reason: 'lowest_expected_cost', request: test.request, expectedMinutes: testCost(ctx.model, ctx.state, t) },
-    findings: [finding('diagnosis.wire_not_read', 'tests', `the circuit reads good so far, but the ${missing.join(' and ')} wire has not been read with the circuit working: one more test before "no fault now"`, 'info')],
-  };
+  return proposeTest(
+    ctx,
+    cheapestTest(ctx, candidates),
+    finding('diagnosis.wire_not_read', 'tests', `the circuit reads good so far, but the ${missing.join(' and ')} wire has not been read with the circuit working: one more test before "no fault now"`, 'info'),
+  );
 }
 
 export const STATUS_RULES: readonly StatusRule[] = [

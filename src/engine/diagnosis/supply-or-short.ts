@@ -7,8 +7,8 @@
  * that can tell them apart is proposed. Common practice, no source ("prove the harness before the module").
  */
 import { finding } from './findings';
-import { argmax, openTests, testCost } from './policy';
-import { leaveOneOut } from './posterior';
+import { argmax, openTests } from './policy';
+import { cheapestTest, proposeTest, readingArguesFor } from './propose-test';
 import type { Decision, RuleContext } from './status-rules';
 
 /** The pair read alike from the sensor connector. */
@@ -25,12 +25,7 @@ export function supplyOrShortConfirmation(ctx: RuleContext): Decision | undefine
   const other = ctx.tree.hypotheses.find((h) => h.id !== cause.id && (PAIR as readonly string[]).includes(h.id));
   if (!other) return undefined;
   const ohms = (t: number) => ctx.tree.tests[t]!.request.quantity === 'ohms';
-  const argued = ctx.posterior.weighed.some((x) => {
-    if (!ohms(x.evidence.test)) return false;
-    const loo = leaveOneOut(ctx.tree, ctx.posterior, x);
-    return loo.causeLike[leader]! > ARGUES_FOR * loo.causeLike[other.index]!;
-  });
-  if (argued) return undefined;
+  if (readingArguesFor(ctx, leader, other.index, ARGUES_FOR, ohms)) return undefined;
   const separates = (t: number) => {
     const { nO, like } = ctx.model.tests[t]!;
     let best = 0;
@@ -39,12 +34,10 @@ export function supplyOrShortConfirmation(ctx: RuleContext): Decision | undefine
   };
   const candidates = openTests(ctx.state).filter((t) => !ctx.blocked?.has(t) && ohms(t) && separates(t));
   if (!candidates.length) return undefined;
-  const test = ctx.tree.tests[candidates.reduce((a, b) => (testCost(ctx.model, ctx.state, b) < testCost(ctx.model, ctx.state, a) ? b : a))]!;
-  return {
-    status: 'testing',
-    choice: { test, reason: 'lowest_expected_cost', request: test.request, expectedMinutes: testCost(ctx.model, ctx.state, test.index) },
-    findings: [
-      finding('diagnosis.harness_unproven', 'readings', `"${cause.label}" and "${other.label}" read alike from the sensor connector: prove the harness with "${test.label}" before concluding`, 'info'),
-    ],
-  };
+  const t = cheapestTest(ctx, candidates);
+  return proposeTest(
+    ctx,
+    t,
+    finding('diagnosis.harness_unproven', 'readings', `"${cause.label}" and "${other.label}" read alike from the sensor connector: prove the harness with "${ctx.tree.tests[t]!.label}" before concluding`, 'info'),
+  );
 }
